@@ -1,0 +1,174 @@
+"""Deciding claims: proven, sampled, failed or error.
+
+Equalities between ring elements are decided exactly (the normal form is
+unique, so a zero difference is a proof).  Only values that left the
+rational functions (square roots from an extremization) may fall back to
+sampling at deterministic 50-digit points.  Inequalities are never sampled:
+they are decided exactly at each point of a ``for`` range, or proven from the
+symbols' declared assumptions and bounds, or the check is an error.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import sympy
+
+from .algebra.graded import Element
+from .algebra.sampling import SymbolSpec, describe_point, evaluate, sample_points
+from .expressions import Value, as_expr, is_class_free, unify
+from .results import CheckResult, weakest
+
+#: How many points a sampled equality is tested at (the spec asks >= 20).
+SAMPLES = 24
+_TOLERANCE = sympy.Rational(1, 10**40)
+
+
+@dataclass
+class Context:
+    """What a check needs besides its two sides."""
+
+    ring: object
+    specs: dict  # sympy Symbol -> SymbolSpec
+    seed: str
+
+    def specs_for(self, symbols) -> list[SymbolSpec]:
+        return [self.specs[s] for s in sorted(symbols, key=lambda s: s.name) if s in self.specs]
+
+
+def substitute(ring, value: Value, point: dict) -> Value:
+    """``value`` with the symbols of ``point`` replaced by exact numbers."""
+    if not point:
+        return value
+    if isinstance(value, Element):
+        return value.substitute({s: ring.scalar(v) for s, v in point.items()})
+    return value.subs(point)
+
+
+def free_symbols(value: Value) -> set:
+    return value.free_symbols() if isinstance(value, Element) else set(value.free_symbols)
+
+
+def show(value: Value) -> str:
+    return value.to_text() if isinstance(value, Element) else sympy.sstr(value)
+
+
+def claim(lhs: Value, op: str, rhs: Value, points: list[dict], ctx: Context) -> CheckResult:
+    """Decide ``lhs OP rhs``, at each of ``points`` (or once, symbolically)."""
+    what = "claim holds" + (f" at {len(points)} point{'s' if len(points) != 1 else ''}"
+                            if len(points) > 1 else "")
+    results = []
+    for point in points or [{}]:
+        try:
+            left = substitute(ctx.ring, lhs, point)
+            right = substitute(ctx.ring, rhs, point)
+        except (ZeroDivisionError, ValueError) as exc:
+            results.append(("error", f"at {describe_point(point)}: {exc}"))
+            continue
+        status, detail = DECIDERS[op](left, right, ctx)
+        if point and detail:
+            detail = f"at {describe_point(point)}: {detail}"
+        results.append((status, detail))
+    status = weakest(s for s, _ in results)
+    detail = next((d for s, d in results if s == status and d), "")
+    if status == "sampled" and len(results) > 1:
+        detail = f"{len(results)} points; " + detail
+    return CheckResult(what, status, detail)
+
+
+# ---------------------------------------------------------------- equality
+
+def _equal(left: Value, right: Value, ctx: Context):
+    if isinstance(left, Element) and isinstance(right, Element):
+        difference = left - right
+        if difference.is_zero:
+            return "proven", ""
+        return "failed", _witness(left, right, difference, ctx)
+    left, right = unify(ctx.ring, left, right)
+    difference = sympy.simplify(left - right)
+    if difference == 0:
+        return "proven", ""
+    return _sample_equal(left, right, difference, ctx)
+
+
+def _witness(left: Element, right: Element, difference: Element, ctx: Context) -> str:
+    """A point where two ring elements differ, with both sides there."""
+    symbols = difference.free_symbols()
+    if not symbols:
+        return f"left = {show(left)}, right = {show(right)}"
+    for point in sample_points(ctx.specs_for(symbols), SAMPLES, ctx.seed):
+        try:
+            if not substitute(ctx.ring, difference, point).is_zero:
+                return (f"at {describe_point(point)}: left = {show(substitute(ctx.ring, left, point))}, "
+                        f"right = {show(substitute(ctx.ring, right, point))}")
+        except ZeroDivisionError:
+            continue
+    return f"the difference is {show(difference)}"
+
+
+def _sample_equal(left, right, difference, ctx: Context):
+    symbols = difference.free_symbols
+    points = sample_points(ctx.specs_for(symbols), SAMPLES, ctx.seed) if symbols else [{}]
+    for point in points:
+        value = evaluate(difference, point)
+        if not value.is_number or abs(value) > _TOLERANCE * (1 + abs(evaluate(left, point))):
+            where = f"at {describe_point(point)}: " if point else ""
+            return "failed", (f"{where}left = {sympy.sstr(evaluate(left, point).round(20))}, "
+                              f"right = {sympy.sstr(evaluate(right, point).round(20))}")
+    if not symbols:
+        return "sampled", "equal to 50 digits"
+    return "sampled", f"equal at {len(points)} random exact points (50 digits)"
+
+
+def _not_equal(left, right, ctx):
+    status, detail = _equal(left, right, ctx)
+    if status == "failed":
+        return "proven", ""
+    if status == "proven":
+        return "failed", f"both sides equal {show(left)}"
+    return "error", "could not be decided exactly; give a for range"
+
+
+# ---------------------------------------------------------------- inequalities
+
+_SIGN_TESTS = {
+    "<": lambda d: d.is_negative, "<=": lambda d: d.is_nonpositive,
+    ">": lambda d: d.is_positive, ">=": lambda d: d.is_nonnegative,
+}
+
+
+def _shifted(difference: sympy.Expr, ctx: Context) -> sympy.Expr:
+    """Rewrite each bounded symbol as bound ± a nonnegative one, so sympy's
+    sign rules can use the bounds as well as the assumptions."""
+    replacements = {}
+    for symbol in difference.free_symbols:
+        spec = ctx.specs.get(symbol)
+        if spec is None:
+            continue
+        shift = sympy.Symbol(f"_{symbol.name}_shift", integer=spec.integer or None,
+                             nonnegative=True)
+        if spec.lower is not None:
+            replacements[symbol] = sympy.Rational(spec.lower.numerator, spec.lower.denominator) + shift
+        elif spec.upper is not None:
+            replacements[symbol] = sympy.Rational(spec.upper.numerator, spec.upper.denominator) - shift
+    return sympy.factor(sympy.expand(difference.subs(replacements)))
+
+
+def _order(op: str):
+    def decide(left: Value, right: Value, ctx: Context):
+        if not (is_class_free(left) and is_class_free(right)):
+            return "error", "inequalities compare class-free values only"
+        difference = sympy.simplify(as_expr(left) - as_expr(right))
+        verdict = _SIGN_TESTS[op](difference)
+        if verdict is None and difference.free_symbols:
+            verdict = _SIGN_TESTS[op](_shifted(difference, ctx))
+        if verdict is True:
+            return "proven", ""
+        if verdict is False and not difference.free_symbols:
+            return "failed", f"left = {show(left)}, right = {show(right)}"
+        if verdict is False:
+            return "failed", f"false for the declared range: {sympy.sstr(difference)} is not {op} 0"
+        return "error", "could not be decided exactly from the declared assumptions; give a for range"
+    return decide
+
+
+DECIDERS = {"==": _equal, "!=": _not_equal, **{op: _order(op) for op in _SIGN_TESTS}}

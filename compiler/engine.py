@@ -1,0 +1,603 @@
+"""The engine: runs a document's statements in order and records every step.
+
+Pipeline position: ``document`` (Markdown → parts) → ``statements`` (syntax)
+→ ``names`` (declared before use, bound once) → here (evaluate, check) →
+``results`` (what the renderers read).  Each statement kind has one handler
+in ``HANDLERS``; a handler reads values from the scope, computes with the
+algebra, binds its outputs and appends checks to its step.  A handler that
+raises a ``DocumentError`` turns its step into an *error* step and the
+document goes on, so one bad line does not hide the rest of the report.
+"""
+from __future__ import annotations
+
+import itertools
+import signal
+import time
+from contextlib import contextmanager
+from dataclasses import dataclass, field
+from fractions import Fraction
+from typing import Callable, Optional
+
+import sympy
+
+from . import __version__, names as names_pass
+from .algebra import bundles as bundles_mod, fibers as fibers_mod, genera as genera_mod
+from .algebra.extremize import ExtremizeError, extremize
+from .algebra.graded import AlgebraError, Element, Ring
+from .algebra.sampling import SymbolSpec
+from .checks import Context, claim, free_symbols, show, substitute
+from .document import Block, ProsePart, read_document
+from .errors import DocumentError, InternalError, Location, Problem
+from .expressions import (Evaluator, Missing, Scope, Value, as_expr, from_expr,
+                          is_class_free, rational_value)
+from .results import CheckResult, PlotData, Prose, Report, Step, TableData, ValueRecord
+from .statements import nodes as n
+from .statements.parser import parse_block
+
+TOOL_NAME = "anomark"
+
+
+@dataclass(frozen=True)
+class BuildOptions:
+    overrides: dict = field(default_factory=dict)  # --set NAME=VALUE, as Fractions
+    allow_html: bool = False
+    use_cache: bool = True
+    time_limit: float = 120.0  # seconds per step
+    progress: Optional[Callable[[Step], None]] = None
+
+
+class StepTimeout(Exception):
+    """Raised inside a step when it runs past the time limit."""
+
+
+@contextmanager
+def time_limit(seconds: float):
+    """Interrupt a runaway step (only where signals work: the main thread)."""
+    def expire(signum, frame):
+        raise StepTimeout()
+    try:
+        previous = signal.signal(signal.SIGALRM, expire)
+    except ValueError:  # not the main thread: no limit
+        yield
+        return
+    signal.setitimer(signal.ITIMER_REAL, seconds)
+    try:
+        yield
+    finally:
+        signal.setitimer(signal.ITIMER_REAL, 0)
+        signal.signal(signal.SIGALRM, previous)
+
+
+def parse(path: str, text: str):
+    """Markdown → document → statements, with every syntax problem at once."""
+    document = read_document(path, text)
+    problems: list[Problem] = []
+    statements_by_block: dict[int, list] = {}
+    for i, part in enumerate(document.parts):
+        if isinstance(part, Block):
+            try:
+                statements_by_block[i] = parse_block(part.text, part.line, path)
+            except DocumentError as err:
+                problems.extend(err.problems)
+    if problems:
+        raise DocumentError.of(problems)
+    return document, statements_by_block
+
+
+def build(path: str, text: str, options: BuildOptions = BuildOptions()) -> Report:
+    """Compile one document.  Raises DocumentError when it cannot be compiled."""
+    document, statements_by_block = parse(path, text)
+    statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
+    refs = [(r.name, r.line, r.column) for part in document.parts
+            if isinstance(part, ProsePart) for r in part.refs]
+    front_conventions = [(c.name, c.line, c.column) for c in document.front.conventions]
+    names_pass.resolve(path, statements, front_conventions, refs)
+    run = Run(path, document, statements, options)
+    return run.execute(statements_by_block)
+
+
+@dataclass
+class Binding:
+    kind: str  # symbol, convention, bundle, fiber, class, value
+    value: object
+    line: int
+
+
+class Run(Scope):
+    """One evaluation of one document: the namespace, the algebra and the steps."""
+
+    def __init__(self, path: str, document, statements, options: BuildOptions):
+        self.path = path
+        self.document = document
+        self.options = options
+        self.conventions = self._conventions(statements)
+        self.specs: dict[sympy.Symbol, SymbolSpec] = {}
+        self.symbols_by_name: dict[str, SymbolSpec] = {}
+        declared = []
+        for s in statements:
+            if isinstance(s, n.SymbolDecl):
+                for name in s.names:
+                    try:
+                        spec = SymbolSpec.declare(name, s.assumptions,
+                                                  [(b.op, b.value) for b in s.bounds if b.name == name])
+                    except ValueError as exc:
+                        raise DocumentError(Location(path, s.line, s.column), str(exc)) from None
+                    self.symbols_by_name[name] = spec
+                    self.specs[spec.symbol] = spec
+                    declared.append(spec.symbol)
+        self.ring = Ring(declared, document.front.truncate)
+        self.bundles = bundles_mod.BundleTable(self.ring)
+        self.genera = genera_mod.Genera(self.bundles)
+        self.fibers: dict[str, object] = {}
+        self.bindings: dict[str, Binding] = {}
+        self.history: dict[str, list[tuple[int, ValueRecord]]] = {}
+        self.class_uses: dict[str, int] = {}
+        self.reported_missing: set[str] = set()
+        self.diagnostics: list[Problem] = []
+        self.evaluator = Evaluator(self, path)
+        for name, value in self.conventions.items():
+            if name not in self._statement_conventions:
+                self.bind(name, "convention", self.ring.scalar(value), 0)
+
+    # ------------------------------------------------------------ conventions
+
+    def _conventions(self, statements) -> dict[str, Fraction]:
+        """Convention values by precedence: --set, front matter, statement default."""
+        values = dict(names_pass.BUILTIN_CONVENTIONS)
+        self._statement_conventions = {}
+        for s in statements:
+            if isinstance(s, n.ConventionDecl):
+                values[s.name] = s.value
+                self._statement_conventions[s.name] = s
+        for entry in self.document.front.conventions:
+            values[entry.name] = entry.value
+        for name, value in self.options.overrides.items():
+            if name not in values:
+                raise DocumentError(Location(self.path, 1, 1),
+                                    f"--set {name}: no convention of that name is declared")
+            values[name] = value
+        return {k: Fraction(v) for k, v in values.items()}
+
+    # ------------------------------------------------------------ scope
+
+    def lookup(self, name: str, line: int, column: int):
+        binding = self.bindings.get(name)
+        if binding is None:
+            raise DocumentError(Location(self.path, line, column), f"unknown name '{name}'")
+        if isinstance(binding.value, Missing):
+            missing = binding.value
+            raise DocumentError(Location(self.path, line, column),
+                                f"'{name}' has no value: the step at line {missing.line} did not produce it")
+        if binding.kind == "symbol":
+            return "symbol", self.ring.symbol(binding.value.symbol)
+        return binding.kind, binding.value
+
+    def note_class_use(self, bundle: str, line: int) -> None:
+        self.class_uses.setdefault(bundle, line)
+
+    def bind(self, name: str, kind: str, value, line: int) -> None:
+        self.bindings[name] = Binding(kind, value, line)
+        if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
+            shown = self.ring.symbol(value.symbol) if kind == "symbol" else value
+            self.history.setdefault(name, []).append((line, record(name, shown)))
+
+    def evaluate(self, expr) -> Value:
+        return self.evaluator.evaluate(expr)
+
+    def fail(self, node, message: str) -> DocumentError:
+        return DocumentError(Location(self.path, node.line, node.column), message)
+
+    # ------------------------------------------------------------ running
+
+    def execute(self, statements_by_block) -> Report:
+        items = []
+        index = 0
+        for i, part in enumerate(self.document.parts):
+            if isinstance(part, ProsePart):
+                items.append((part, None))
+                continue
+            for statement in statements_by_block.get(i, []):
+                index += 1
+                step = self.run_step(index, statement)
+                items.append((None, step))
+                if self.options.progress:
+                    self.options.progress(step)
+        final = [Prose(p.markdown, p.line, self._refs(p)) if p is not None else s for p, s in items]
+        front = self.document.front
+        values = {name: hist[-1][1] for name, hist in self.history.items()
+                  if self.bindings[name].kind == "value"}
+        report = Report(
+            tool_name=TOOL_NAME, tool_version=__version__, document=self.path,
+            title=front.title, authors=list(front.authors), date=front.date,
+            abstract=front.abstract,
+            conventions={k: fraction_text(v) for k, v in sorted(self.conventions.items())},
+            truncate=front.truncate, items=final, values=values,
+            allow_html=self.options.allow_html,
+            diagnostics=[str(p) for p in self.diagnostics])
+        return report
+
+    def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
+        """Each @{NAME}: the binding in force at that line, else the first one."""
+        refs = {}
+        for ref in part.refs:
+            hist = self.history.get(ref.name, [])
+            if not hist:
+                continue
+            before = [rec for line, rec in hist if line < ref.line]
+            refs[ref.name] = before[-1] if before else hist[0][1]
+        return refs
+
+    def run_step(self, index: int, s) -> Step:
+        step = Step(index=index, line=s.line, column=s.column, end_line=s.end_line,
+                    source=s.source, kind="let" if s.kind == "let" else s.kind,
+                    outputs=list(getattr(s, "outputs", ()) or ((s.name,) if isinstance(s, n.Let) else ())),
+                    rebind=getattr(s, "rebind", False))
+        start = time.perf_counter()
+        try:
+            with time_limit(self.options.time_limit):
+                HANDLERS[type(s)](self, s, step)
+        except DocumentError as err:
+            self._step_error(step, s, err.problems[0])
+        except StepTimeout:
+            self._step_error(step, s, Problem(Location(self.path, s.line, s.column),
+                                              f"time limit of {self.options.time_limit:g} s exceeded"))
+        except (AlgebraError, ExtremizeError, fibers_mod.FiberError, ValueError, ZeroDivisionError) as exc:
+            self._step_error(step, s, Problem(Location(self.path, s.line, s.column), str(exc)))
+        except RecursionError:
+            self._step_error(step, s, Problem(Location(self.path, s.line, s.column),
+                                              "expression too deeply nested"))
+        step.seconds = time.perf_counter() - start
+        for check in step.checks:
+            if check.status == "failed":
+                self.diagnostics.append(Problem(Location(self.path, s.line, s.column),
+                                                f"check failed: {check.what}"
+                                                + (f": {check.detail}" if check.detail else "")))
+        return step
+
+    def _step_error(self, step: Step, s, problem: Problem) -> None:
+        step.checks.append(CheckResult("step runs", "error", problem.message))
+        missing_name = problem.message.split("'")[1] if "has no value" in problem.message else None
+        if missing_name is None or missing_name not in self.reported_missing:
+            self.diagnostics.append(problem)
+            if missing_name:
+                self.reported_missing.add(missing_name)
+        for name in step.outputs:
+            if name not in self.bindings or self.bindings[name].kind == "value":
+                self.bind(name, "value", Missing(name, s.line), s.line)
+
+    def output(self, step: Step, name: str, value: Value, line: int) -> None:
+        """Bind an output and show it in the step."""
+        if isinstance(value, sympy.Expr):
+            value = from_expr(self.ring, value)
+        self.bind(name, "value", value, line)
+        step.values.append(self.history[name][-1][1])
+
+    def context(self, line: int) -> Context:
+        return Context(self.ring, self.specs, f"{self.path}:{line}")
+
+    def points(self, clauses) -> list[dict]:
+        """Every combination of a ``for`` list, checked against assumptions."""
+        axes = []
+        for c in clauses:
+            spec = self.symbols_by_name[c.name]
+            if c.range is not None:
+                low, high = c.range
+                if low > high:
+                    raise DocumentError(Location(self.path, c.line, c.column),
+                                        f"empty range {low}..{high}")
+                values = [Fraction(v) for v in range(low, high + 1)]
+            else:
+                value = rational_value(self.evaluate(c.value))
+                if value is None:
+                    raise DocumentError(Location(self.path, c.line, c.column),
+                                        f"the value given to {c.name} must be an exact number")
+                values = [value]
+            for v in values:
+                if not spec.admits(v):
+                    raise DocumentError(Location(self.path, c.line, c.column),
+                                        f"{c.name} = {fraction_text(v)} breaks its declaration ({spec.describe()})")
+            axes.append([(spec.symbol, sympy.Rational(v.numerator, v.denominator)) for v in values])
+        return [dict(combo) for combo in itertools.product(*axes)] if axes else []
+
+
+# ---------------------------------------------------------------- printing
+
+def fraction_text(value: Fraction) -> str:
+    return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
+
+
+def expr_text(expr: sympy.Expr) -> str:
+    return sympy.sstr(expr).replace("**", "^")
+
+
+def record(name: str, value: Value) -> ValueRecord:
+    """A value as the renderers see it."""
+    if isinstance(value, Element):
+        return ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
+    return ValueRecord(name, expr_text(value), sympy.latex(value), [] if value == 0 else [0])
+
+
+def degree_check(value: Value) -> CheckResult:
+    degrees = value.degrees() if isinstance(value, Element) else ([] if value == 0 else [0])
+    if not degrees:
+        return CheckResult("zero (passes every degree check)", "proven")
+    if len(degrees) == 1:
+        return CheckResult(f"homogeneous of degree {degrees[0]}", "proven")
+    return CheckResult("form degrees " + ", ".join(map(str, degrees)), "proven")
+
+
+# ---------------------------------------------------------------- handlers
+# One function per statement kind: (run, statement, step) -> None.
+
+def _symbol(run: Run, s: n.SymbolDecl, step: Step) -> None:
+    for name in s.names:
+        spec = run.symbols_by_name[name]
+        run.bind(name, "symbol", spec, s.line)
+    step.summary = ", ".join(s.names) + ": " + run.symbols_by_name[s.names[0]].describe()
+
+
+def _convention(run: Run, s: n.ConventionDecl, step: Step) -> None:
+    value = run.conventions[s.name]
+    run.bind(s.name, "convention", run.ring.scalar(value), s.line)
+    origin = "default" if value == s.value else "overridden"
+    step.summary = f"{s.name} = {fraction_text(value)} ({origin})"
+    step.values.append(run.history[s.name][-1][1])
+
+
+def _bundle(run: Run, s: n.BundleDecl, step: Step) -> None:
+    for name in s.names:
+        run.bundles.declare(name, s.bundle_kind, s.rank)
+        run.bind(name, "bundle", name, s.line)
+    step.summary = run.bundles.describe(s.names[0])
+
+
+def _split(run: Run, s: n.SplitDecl, step: Step) -> None:
+    used = run.class_uses.get(s.bundle)
+    if used is not None:
+        raise run.fail(s, f"'{s.bundle}' is split at line {s.line}, but a value at line {used} "
+                          "already uses its classes; move the split before line " + str(used))
+    parts = [p.name if p.name is not None else p.trivial for p in s.parts]
+    account = run.bundles.split(s.bundle, parts)
+    for fiber in run.fibers.values():
+        fiber.refresh()
+    step.checks.append(CheckResult(f"ranks add up: {account}", "proven"))
+
+
+def _surface(run: Run, s: n.SurfaceFiber, step: Step) -> None:
+    genus = run.evaluate(s.genus)
+    fiber = fibers_mod.SurfaceFiber(run.bundles, s.name, as_expr(genus), s.tangent)
+    run.fibers[s.name] = fiber
+    run.bind(s.name, "fiber", fiber, s.line)
+    run.bind(s.tangent, "bundle", s.tangent, s.line)
+    step.summary = fiber.describe()
+
+
+def _sphere(run: Run, s: n.SphereFiber, step: Step) -> None:
+    fiber = fibers_mod.SphereFiber(run.bundles, s.name, s.bundle, s.angular,
+                                   run.conventions["angular_integral"])
+    run.fibers[s.name] = fiber
+    run.bind(s.name, "fiber", fiber, s.line)
+    run.bind(s.angular, "class", fiber.angular, s.line)
+    step.summary = fiber.describe()
+
+
+def _general(run: Run, s: n.GeneralFiber, step: Step) -> None:
+    fiber = fibers_mod.GeneralFiber(run.ring, s.name, s.dimension)
+    run.bind(s.name, "fiber", fiber, s.line)
+    for c in s.classes:
+        run.bind(c.name, "class", fiber.add_class(c.name, c.degree), c.line)
+    relations = [_relation(run, r) for r in s.relations]
+    integrals = [(run.evaluate(eq.lhs), run.evaluate(eq.rhs), eq) for eq in s.integrals]
+    try:
+        fiber.finish(relations, [(m, v) for m, v, _ in integrals])
+    except fibers_mod.FiberError as exc:
+        where = getattr(exc, "index", None)
+        node = integrals[where][2] if where is not None and where < len(integrals) else s
+        raise run.fail(node, str(exc)) from None
+    run.fibers[s.name] = fiber
+    step.summary = fiber.describe()
+
+
+def _relation(run: Run, eq: n.Equation) -> Element:
+    value = run.evaluate(eq.lhs)
+    if eq.rhs is not None:
+        value = value - run.evaluate(eq.rhs)
+    if not isinstance(value, Element):
+        raise run.fail(eq, "a relation must be a polynomial in the classes")
+    return value
+
+
+def _let(run: Run, s: n.Let, step: Step) -> None:
+    value = run.evaluate(s.expr)
+    step.checks.append(degree_check(value))
+    run.output(step, s.name, value, s.line)
+
+
+def _element(run: Run, node, what: str) -> Element:
+    value = run.evaluate(node)
+    if not isinstance(value, Element):
+        raise run.fail(node, f"{what} needs a polynomial in the classes, not {expr_text(value)}")
+    return value
+
+
+def _substitute(run: Run, s: n.Substitute, step: Step) -> None:
+    target = _element(run, s.target, "substitute")
+    mapping = {}
+    present = target.generator_keys()
+    symbols = target.free_symbols()
+    for pair in s.pairs:
+        lhs = _element(run, pair.lhs, "substitute")
+        rhs = run.evaluate(pair.rhs)
+        key = _single_generator(run, pair.lhs, lhs)
+        if key in mapping:
+            raise run.fail(pair, f"{pair_text(lhs)} is substituted twice")
+        if key not in present and key not in symbols:
+            raise run.fail(pair.lhs, f"{pair_text(lhs)} does not occur in the expression (a typo?)")
+        degree = lhs.degrees()[0]
+        got = rhs.degrees() if isinstance(rhs, Element) else [0]
+        ok = not got or got == [degree]
+        step.checks.append(CheckResult(
+            f"{pair_text(lhs)} (degree {degree}) replaced by degree {', '.join(map(str, got)) or '—'}",
+            "proven" if ok else "failed",
+            "" if ok else f"the right side has degree {', '.join(map(str, got))}, not {degree}"))
+        mapping[key] = rhs if isinstance(rhs, Element) else run.ring.from_scalar_expr(rhs)
+    if any(c.status == "failed" for c in step.checks):
+        for name in s.outputs:
+            run.bind(name, "value", Missing(name, s.line), s.line)
+        return
+    result = target.substitute(mapping)
+    step.checks.append(degree_check(result))
+    run.output(step, s.outputs[0], result, s.line)
+
+
+def pair_text(value: Element) -> str:
+    return value.to_text()
+
+
+def _single_generator(run: Run, node, value: Element):
+    """The generator key (or symbol) a substitution's left side names."""
+    terms = value.terms()
+    if len(terms) == 1:
+        monomial, coefficient = terms[0]
+        if coefficient == 1 and len(monomial) == 1 and monomial[0][1] == 1:
+            return monomial[0][0]
+        if not monomial and coefficient.is_Symbol:
+            return coefficient
+    raise run.fail(node, f"the left side {value.to_text()} is not a single class or symbol")
+
+
+def _reduce(run: Run, s: n.Reduce, step: Step) -> None:
+    target = _element(run, s.target, "reduce")
+    relations = [_relation(run, r) for r in s.relations]
+    basis = run.ring.groebner(relations)
+    result = run.ring.reduce(target, basis)
+    again = run.ring.reduce(result, basis)
+    step.checks.append(CheckResult(f"normal form modulo {len(relations)} relation"
+                                   f"{'s' if len(relations) != 1 else ''} (basis of {len(basis)})",
+                                   "proven" if again == result else "failed"))
+    step.checks.append(degree_check(result))
+    run.output(step, s.outputs[0], result, s.line)
+
+
+def _integrate(run: Run, s: n.Integrate, step: Step) -> None:
+    target = _element(run, s.target, "integrate")
+    fiber = run.fibers[s.fiber]
+    result, checks = fiber.integrate(target)
+    for c in checks:
+        step.checks.append(CheckResult(c.what, "proven" if c.ok else "failed", c.detail))
+    run.output(step, s.outputs[0], result, s.line)
+
+
+def _coefficients(run: Run, s: n.Coefficients, step: Step) -> None:
+    target = _element(run, s.target, "coefficients")
+    if len(s.monomials) != len(s.outputs):
+        raise run.fail(s, f"{len(s.monomials)} monomials but {len(s.outputs)} names after ->")
+    rest = target
+    for node, name in zip(s.monomials, s.outputs):
+        monomial = _element(run, node, "coefficients")
+        terms = monomial.terms()
+        if len(terms) != 1 or terms[0][1] != 1 or not terms[0][0]:
+            raise run.fail(node, f"{monomial.to_text()} is not a monomial in normal form")
+        coefficient = target.coefficient(monomial)
+        rest = rest - coefficient * monomial
+        run.output(step, name, coefficient, s.line)
+    step.remainder = record("remainder", rest)
+    step.checks.append(CheckResult(
+        "every monomial read" if rest.is_zero else
+        f"the rest has {len(rest.terms())} term{'s' if len(rest.terms()) != 1 else ''} (shown as remainder)",
+        "proven"))
+
+
+def _extremize(run: Run, s: n.Extremize, step: Step) -> None:
+    f = run.evaluate(s.target)
+    if not is_class_free(f):
+        raise run.fail(s.target, f"{s.mode} needs a class-free expression; this one has classes "
+                                 f"of degree {', '.join(map(str, f.degrees()))}")
+    variables = [(run.symbols_by_name[v.name].symbol,
+                  None if v.interval is None else (v.interval.low, v.interval.high))
+                 for v in s.variables]
+    chosen = {sym for sym, _ in variables}
+    params = [spec for sym, spec in run.specs.items() if sym not in chosen]
+    try:
+        result = extremize(s.mode, as_expr(f), variables, params, f"{run.path}:{s.line}")
+    except ExtremizeError as exc:
+        raise run.fail(s, str(exc)) from None
+    for name, coordinate in zip(s.point, result.point):
+        run.output(step, name, coordinate, s.line)
+    run.output(step, s.value, result.value, s.line)
+    step.summary = result.account
+    status = "proven" if result.settled == "symbolic" else "sampled"
+    detail = result.account if status == "proven" else f"{result.account} (at {result.samples} sample points)"
+    step.checks.append(CheckResult("one admissible critical point", status, detail))
+
+
+def _check(run: Run, s: n.Check, step: Step) -> None:
+    lhs = run.evaluate(s.lhs)
+    rhs = run.evaluate(s.rhs)
+    step.checks.append(claim(lhs, s.op, rhs, run.points(s.clauses), run.context(s.line)))
+
+
+def _show(run: Run, s: n.Show, step: Step) -> None:
+    for node in s.exprs:
+        value = run.evaluate(node)
+        rec = record(node.id if isinstance(node, n.Name) else "", value)
+        step.values.append(rec)
+
+
+def _table(run: Run, s: n.Table, step: Step) -> None:
+    values = [run.evaluate(node) for node in s.exprs]
+    points = run.points(s.clauses)
+    params = [c.name for c in s.clauses]
+    columns = [sympy.latex(run.symbols_by_name[p].symbol) for p in params]
+    columns += [sympy.latex(sympy.Symbol(node.id)) if isinstance(node, n.Name) else r"\cdots"
+                for node in s.exprs]
+    rows, text_rows = [], []
+    for point in points or [{}]:
+        cells = [substitute(run.ring, v, point) for v in values]
+        coords = [point[run.symbols_by_name[p].symbol] for p in params]
+        rows.append([sympy.latex(c) for c in coords] + [record("", c).latex for c in cells])
+        text_rows.append([sympy.sstr(c) for c in coords] + [show(c) for c in cells])
+    step.table = TableData(columns=columns, rows=rows, text_rows=text_rows)
+
+
+def _plot(run: Run, s: n.Plot, step: Step) -> None:
+    values = [run.evaluate(node) for node in s.exprs]
+    var = run.symbols_by_name[s.variable]
+    points = run.points(s.clauses)
+    if len(points) > 1:
+        raise run.fail(s, "plot takes one value for each parameter after for")
+    fixed = points[0] if points else {}
+    low, high = s.interval.low, s.interval.high
+    if not low < high:
+        raise run.fail(s.interval, "the plot interval must have low < high")
+    curves = {}
+    for node, value in zip(s.exprs, values):
+        value = substitute(run.ring, value, fixed)
+        if not is_class_free(value):
+            raise run.fail(node, "plot draws class-free values only")
+        expr = as_expr(value)
+        left = free_symbols(value) - {var.symbol}
+        if left:
+            raise run.fail(node, "give values for " + ", ".join(sorted(x.name for x in left)) + " after for")
+        samples = []
+        for i in range(121):
+            x = sympy.Rational(low.numerator, low.denominator) + (
+                sympy.Rational(high.numerator, high.denominator) - sympy.Rational(low.numerator, low.denominator)) * i / 120
+            if not var.admits(Fraction(int(x.p), int(x.q))):
+                continue
+            y = expr.subs(var.symbol, x).evalf(20)
+            if y.is_real:
+                samples.append((float(x), float(y)))
+        curves[node.id if isinstance(node, n.Name) else f"curve {len(curves) + 1}"] = samples
+    step.plot = PlotData(variable=s.variable, low=fraction_text(low), high=fraction_text(high),
+                         fixed={sym.name: sympy.sstr(v) for sym, v in fixed.items()}, curves=curves)
+
+
+HANDLERS = {
+    n.SymbolDecl: _symbol, n.ConventionDecl: _convention, n.BundleDecl: _bundle,
+    n.SplitDecl: _split, n.SurfaceFiber: _surface, n.SphereFiber: _sphere,
+    n.GeneralFiber: _general, n.Let: _let, n.Substitute: _substitute,
+    n.Reduce: _reduce, n.Integrate: _integrate, n.Coefficients: _coefficients,
+    n.Extremize: _extremize, n.Check: _check, n.Show: _show, n.Table: _table,
+    n.Plot: _plot,
+}

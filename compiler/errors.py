@@ -1,0 +1,69 @@
+"""The two kinds of failure: problems in a document, and bugs in anomark.
+
+A document problem always carries the place in the Markdown file where it
+was found, so the command line can print ``FILE:LINE:COL: message`` and the
+author can jump to it.  Anything else that escapes is an ``InternalError``:
+the command line says plainly that it is our bug, not the author's.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+
+@dataclass(frozen=True)
+class Location:
+    """A 1-based position in a Markdown file."""
+
+    path: str
+    line: int
+    column: int = 1
+
+    def __str__(self) -> str:
+        return f"{self.path}:{self.line}:{self.column}"
+
+
+@dataclass(frozen=True)
+class Problem:
+    location: Location
+    message: str
+
+    def __str__(self) -> str:
+        return f"{self.location}: {self.message}"
+
+
+class DocumentError(Exception):
+    """One or more problems in a document; each has a location.
+
+    Raised with one problem (``DocumentError(loc, "msg")``) or as a bundle of
+    several (``DocumentError.of(problems)``) so that a parse reports every
+    bad line at once.
+    """
+
+    def __init__(self, location: Location, message: str):
+        self.problems: tuple[Problem, ...] = (Problem(location, message),)
+        super().__init__(str(self))
+
+    @classmethod
+    def of(cls, problems) -> "DocumentError":
+        problems = tuple(problems)
+        if not problems:
+            raise InternalError("DocumentError.of() needs at least one problem")
+        err = cls(problems[0].location, problems[0].message)
+        err.problems = problems
+        err.args = (str(err),)
+        return err
+
+    @property
+    def location(self) -> Location:
+        return self.problems[0].location
+
+    @property
+    def message(self) -> str:
+        return self.problems[0].message
+
+    def __str__(self) -> str:
+        return "\n".join(str(p) for p in self.problems)
+
+
+class InternalError(Exception):
+    """A bug in anomark itself, never the author's fault."""

@@ -1,0 +1,61 @@
+"""Drawing ``plot`` steps: inline SVG for HTML, PDF for the LaTeX appendix.
+
+matplotlib is imported only when a document has a plot, since it is slow to
+load.  Output is deterministic (fixed id salt, no dates) so rebuilding an
+unchanged document gives the same files; the SVG is cut down to a bare
+``<svg>`` element with no URL in it, so the HTML report stays offline-safe.
+"""
+from __future__ import annotations
+
+import hashlib
+import io
+import re
+
+from compiler.results import PlotData
+
+_PROLOG = re.compile(r"^.*?(?=<svg)", re.S)
+_METADATA = re.compile(r"<metadata>.*?</metadata>\s*", re.S)
+_XMLNS = re.compile(r'\s+xmlns(?::\w+)?="[^"]*"')
+
+
+def _label(plot: PlotData) -> str:
+    return ", ".join(f"{k} = {v}" for k, v in plot.fixed.items())
+
+
+def _draw(plot: PlotData, fmt: str, metadata: dict) -> bytes:
+    """Render ``plot`` in ``fmt``; the id salt is a digest of the plot itself,
+    so two plots in one page do not share element ids yet each is reproducible."""
+    import matplotlib
+    from matplotlib.figure import Figure
+
+    salt = hashlib.sha256(repr((plot.variable, plot.fixed, plot.curves)).encode()).hexdigest()[:12]
+    style = {"svg.hashsalt": salt, "svg.fonttype": "none", "font.family": "serif",
+             "font.size": 9, "axes.spines.top": False, "axes.spines.right": False}
+    with matplotlib.rc_context(style):
+        fig = Figure(figsize=(5.2, 3.2))
+        ax = fig.subplots()
+        for name, points in plot.curves.items():
+            ax.plot([x for x, _ in points], [y for _, y in points], label=name, linewidth=1.4)
+        ax.set_xlabel(plot.variable)
+        title = _label(plot)
+        if title:
+            ax.set_title(title, fontsize=9, loc="left")
+        ax.legend(frameon=False)
+        ax.grid(True, linewidth=0.3, alpha=0.5)
+        fig.tight_layout()
+        buf = io.BytesIO()
+        fig.savefig(buf, format=fmt, metadata=metadata)
+    return buf.getvalue()
+
+
+def plot_svg(plot: PlotData) -> str:
+    """A bare ``<svg>`` element for inlining in HTML (HTML5 supplies the namespace)."""
+    svg = _draw(plot, "svg", {"Date": None}).decode("utf-8")
+    svg = _METADATA.sub("", _PROLOG.sub("", svg, count=1))
+    svg = svg.replace("xlink:href=", "href=")
+    return _XMLNS.sub("", svg, count=0).strip()
+
+
+def plot_pdf(plot: PlotData) -> bytes:
+    """The plot as a PDF for ``\\includegraphics``."""
+    return _draw(plot, "pdf", {"CreationDate": None, "ModDate": None})

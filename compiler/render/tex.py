@@ -1,0 +1,343 @@
+"""The LaTeX appendix: the same derivation, typeset for a paper.
+
+Prose arrives as Markdown tokens and is turned into LaTeX by a table of
+render rules, one small function per token type, the way markdown-it renders
+HTML.  Values arrive as LaTeX already (the notation is settled upstream);
+here they are only placed in ``equation*``/``align*``.  The fragment uses
+nothing beyond amsmath, amssymb and graphicx and the default font encoding,
+so it can be pasted into any standard article.
+"""
+from __future__ import annotations
+
+import re
+import unicodedata
+from pathlib import Path
+from typing import Callable
+
+import jinja2
+
+import compiler
+from compiler.errors import InternalError
+from compiler.markdown import make_markdown
+from compiler.results import PlotData, Prose, Report, Step, ValueRecord
+
+TEMPLATES = Path(compiler.__file__).parent.parent / "templates"
+
+# ------------------------------------------------------------------ escaping
+
+_TEXT_SPECIALS = {
+    "\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#",
+    "_": r"\_", "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}",
+    "^": r"\textasciicircum{}", "<": r"\textless{}", ">": r"\textgreater{}",
+    "|": r"\textbar{}", "\u00a0": "~", "\u2026": r"\dots{}",
+}
+# Characters a physicist types in prose that the default encoding lacks.
+_MATH_CHARS = {
+    "\u2212": "-", "\u00d7": r"\times", "\u00b7": r"\cdot", "\u2264": r"\leq",
+    "\u2265": r"\geq", "\u2260": r"\neq", "\u2192": r"\to", "\u222b": r"\int",
+    "\u221e": r"\infty", "\u2248": r"\approx", "\u00b1": r"\pm", "\u2211": r"\sum",
+    "\u2202": r"\partial", "\u2297": r"\otimes", "\u2295": r"\oplus",
+    "\u03b5": r"\varepsilon", "\u03c6": r"\varphi",
+}
+for _g in ("alpha beta gamma delta zeta eta theta iota kappa lambda mu nu xi pi rho "
+           "sigma tau upsilon chi psi omega").split():
+    _MATH_CHARS.setdefault(unicodedata.lookup(f"GREEK SMALL LETTER {_g.replace('lambda', 'lamda')}"), "\\" + _g)
+for _g in "Gamma Delta Theta Lambda Xi Pi Sigma Upsilon Phi Psi Omega".split():
+    _MATH_CHARS[unicodedata.lookup(f"GREEK CAPITAL LETTER {_g.replace('Lambda', 'Lamda')}")] = "\\" + _g
+_TEXT_MAP = {**_TEXT_SPECIALS, **{c: f"${m}$" for c, m in _MATH_CHARS.items()}}
+# In typewriter text quotes must stay straight.
+_CODE_MAP = {**_TEXT_MAP, "'": r"\textquotesingle{}", "`": r"\textasciigrave{}"}
+
+
+def escape_tex(text: str) -> str:
+    """Plain text safe for LaTeX: specials escaped, common symbols as math."""
+    return "".join(_TEXT_MAP.get(ch, ch) for ch in text)
+
+
+def _escape_code(text: str) -> str:
+    return "".join(_CODE_MAP.get(ch, ch) for ch in text)
+
+
+def code_lines(text: str) -> str:
+    """Monospace lines that keep their indentation and may break at spaces."""
+    lines = []
+    for line in text.rstrip("\n").split("\n"):
+        stripped = line.lstrip(" ")
+        indent = "~" * (len(line) - len(stripped))
+        lines.append(indent + _escape_code(stripped) if line else r"\mbox{}")
+    return "{\\small\\ttfamily\\raggedright\n" + "\\\\\n".join(lines) + "\\par}\n"
+
+
+_NAME = re.compile(r"([A-Za-z]+?)(\d*)")
+
+
+def name_latex(name: str) -> str:
+    """An identifier as math: trailing digits and an ``_suffix`` become a subscript.
+
+    ``I8`` → ``I_{8}``, ``a_star`` → ``a_{\\mathrm{star}}``, ``kRRR`` → ``\\mathrm{kRRR}``.
+    """
+    head, _, tail = name.partition("_")
+    m = _NAME.fullmatch(head)
+    base, digits = (m.group(1), m.group(2)) if m else (head, "")
+    base_tex = base if len(base) == 1 else rf"\mathrm{{{base}}}"
+    subs = [digits] if digits else []
+    if tail:
+        subs.append(tail if len(tail) == 1 or tail.isdigit() else rf"\mathrm{{{tail.replace('_', chr(92) + '_')}}}")
+    return base_tex + (f"_{{{','.join(subs)}}}" if subs else "")
+
+
+# ------------------------------------------------------- prose: token rules
+
+
+class _TexWriter:
+    """Walks markdown-it tokens; ``RULES`` maps each token type to its LaTeX."""
+
+    def __init__(self, refs: dict[str, ValueRecord]):
+        self.refs = refs
+        self.links: list[tuple[str, bool]] = []  # (href, is autolink) of open links
+
+    def render(self, tokens) -> str:
+        return "".join(RULES.get(t.type, _unknown)(self, t) for t in tokens)
+
+
+def _unknown(w: _TexWriter, t) -> str:
+    raise InternalError(f"no LaTeX rule for Markdown token {t.type!r}")
+
+
+_HEADINGS = {"h1": "subsection*", "h2": "subsection*", "h3": "subsubsection*"}
+
+
+def _heading_open(w, t) -> str:
+    return "\\" + _HEADINGS.get(t.tag, "paragraph*") + "{"
+
+
+def _link_open(w, t) -> str:
+    w.links.append((t.attrs.get("href", ""), t.markup == "autolink"))
+    return ""
+
+
+def _link_close(w, t) -> str:
+    href, auto = w.links.pop()
+    return "" if auto else "\\footnote{\\texttt{" + _escape_code(href) + "}}"
+
+
+def _math_block(content: str, tag: str = "") -> str:
+    # A blank line inside display math is a paragraph break, which LaTeX rejects.
+    body = "\n".join(line for line in content.strip().split("\n") if line.strip())
+    tagged = f" \\tag{{{escape_tex(tag)}}}" if tag else ""
+    return f"\\begin{{equation*}}\n{body}{tagged}\n\\end{{equation*}}\n"
+
+
+def _value_ref(w, t) -> str:
+    name = t.meta["name"]
+    if name not in w.refs:
+        return r"\textbf{??}\," + escape_tex(t.content)
+    return f"${w.refs[name].latex}$"
+
+
+Rule = Callable[[_TexWriter, object], str]
+RULES: dict[str, Rule] = {
+    "front_matter": lambda w, t: "",
+    "paragraph_open": lambda w, t: "",
+    "paragraph_close": lambda w, t: "\n" if t.hidden else "\n\n",
+    "heading_open": _heading_open,
+    "heading_close": lambda w, t: "}\n\n",
+    "inline": lambda w, t: w.render(t.children or []),
+    "bullet_list_open": lambda w, t: "\\begin{itemize}\n",
+    "bullet_list_close": lambda w, t: "\\end{itemize}\n\n",
+    "ordered_list_open": lambda w, t: "\\begin{enumerate}\n",
+    "ordered_list_close": lambda w, t: "\\end{enumerate}\n\n",
+    "list_item_open": lambda w, t: "\\item ",
+    "list_item_close": lambda w, t: "\n",
+    "blockquote_open": lambda w, t: "\\begin{quote}\n",
+    "blockquote_close": lambda w, t: "\\end{quote}\n\n",
+    "code_block": lambda w, t: code_lines(t.content) + "\n",
+    "fence": lambda w, t: code_lines(t.content) + "\n",
+    "html_block": lambda w, t: code_lines(t.content) + "\n",
+    "hr": lambda w, t: "\\par\\medskip\\noindent\\hrulefill\\par\\medskip\n\n",
+    "math_block": lambda w, t: _math_block(t.content),
+    "math_block_label": lambda w, t: _math_block(t.content, t.info),
+    "text": lambda w, t: escape_tex(t.content),
+    "softbreak": lambda w, t: "\n",
+    "hardbreak": lambda w, t: "\\\\\n",
+    "em_open": lambda w, t: "\\emph{",
+    "em_close": lambda w, t: "}",
+    "strong_open": lambda w, t: "\\textbf{",
+    "strong_close": lambda w, t: "}",
+    "code_inline": lambda w, t: "\\texttt{" + _escape_code(t.content) + "}",
+    "link_open": _link_open,
+    "link_close": _link_close,
+    "image": lambda w, t: "[" + escape_tex(t.content or "image") + "]",
+    "html_inline": lambda w, t: escape_tex(t.content),
+    "math_inline": lambda w, t: f"${t.content}$",
+    "value_ref": _value_ref,
+}
+
+
+def prose_tex(markdown: str, refs: dict[str, ValueRecord], allow_html: bool = False) -> str:
+    """Markdown prose as LaTeX; ``@{NAME}`` shows ``refs[NAME]`` as inline math."""
+    tokens = make_markdown(allow_html).parse(markdown)
+    return _TexWriter(refs).render(tokens).strip() + "\n"
+
+
+# ------------------------------------------------------------- steps: values
+
+_BREAK_AT = 70  # characters of LaTeX source per displayed line
+
+
+_DELIMITER = re.compile(r"\\(?:left|right)(?![A-Za-z])\s*(?:\\[A-Za-z]+|\\.|.)")
+_ENDS_IN_OPERATOR = re.compile(r"\\(?:cdot|times|pm|mp|otimes|oplus|wedge)\s*$")
+
+
+def _top_level_terms(latex: str) -> list[str]:
+    """Split at ``+``/``-`` outside every bracket, keeping each sign with its term.
+
+    A sign right after an operator or an opening bracket (``= -x``,
+    ``\\cdot -x``) is unary and stays inside its term.
+    """
+    terms, start, depth, i = [], 0, 0, 0
+    while i < len(latex):
+        sized = _DELIMITER.match(latex, i)
+        if sized:
+            depth += 1 if sized.group(0).startswith("\\left") else -1
+            i = sized.end()
+            continue
+        ch = latex[i]
+        if ch == "\\":
+            i += 2  # an escaped character such as \{ is not a bracket
+            continue
+        if ch in "{([":
+            depth += 1
+        elif ch in "})]":
+            depth -= 1
+        elif ch in "+-" and depth == 0:
+            before = latex[start:i].rstrip()
+            if before and before[-1] not in "^_=+-{([" and not _ENDS_IN_OPERATOR.search(before):
+                terms.append(before)
+                start = i
+        i += 1
+    terms.append(latex[start:].strip())
+    return [t for t in terms if t]
+
+
+def display_value(lhs: str, latex: str) -> str:
+    """``lhs = latex`` displayed, broken over lines at top-level signs when long."""
+    if len(latex) <= _BREAK_AT:
+        return f"\\begin{{equation*}}\n{lhs} = {latex}\n\\end{{equation*}}\n"
+    lines, current = [], ""
+    for term in _top_level_terms(latex):
+        if current and len(current) + len(term) > _BREAK_AT:
+            lines.append(current)
+            current = ""
+        current = f"{current} {term}".strip()
+    lines.append(current)
+    body = f"{lhs} &= {lines[0]}" + "".join(f"\\\\\n&\\quad {line}" for line in lines[1:])
+    return f"\\begin{{align*}}\n{body}\n\\end{{align*}}\n"
+
+
+def _degrees(v: ValueRecord) -> str:
+    if not v.degrees:
+        return ""
+    word = "degree" if len(v.degrees) == 1 else "degrees"
+    return f"{word} {', '.join(str(d) for d in v.degrees)}"
+
+
+_STATUS_TEX = {
+    "proven": r"\textsc{proven}",
+    "sampled": r"\textsc{sampled}",
+    "failed": r"\textbf{\textsc{failed}}",
+    "error": r"\textbf{\textsc{error}}",
+}
+
+
+def _checks(step: Step) -> str:
+    parts = []
+    for c in step.checks:
+        text = f"{_STATUS_TEX[c.status]}~{escape_tex(c.what)}"
+        if c.detail:
+            text += f" ({escape_tex(c.detail)})"
+        parts.append(text)
+    return "; ".join(parts)
+
+
+def _tabular(step: Step) -> str:
+    t = step.table
+    spec = "c" * len(t.columns)
+    head = " & ".join(f"${c}$" for c in t.columns)
+    rows = "".join(" & ".join(f"${c}$" for c in row) + " \\\\\n" for row in t.rows)
+    return (f"\\begin{{center}}\n\\begin{{tabular}}{{{spec}}}\n\\hline\n{head} \\\\\n\\hline\n"
+            f"{rows}\\hline\n\\end{{tabular}}\n\\end{{center}}\n")
+
+
+def plot_name(report: Report, number: int) -> str:
+    """The file name of the ``number``-th plot, beside the ``.tex`` file."""
+    return f"{Path(report.document).stem}-plot-{number}.pdf"
+
+
+def _plots(report: Report) -> dict[int, PlotData]:
+    """Step index → plot, in document order."""
+    return {s.index: s.plot for s in report.steps if s.plot is not None}
+
+
+def plot_files(report: Report) -> dict[str, bytes]:
+    """The PDF of each plot, keyed by the name ``to_tex`` includes it under."""
+    from compiler.render.plots import plot_pdf
+
+    return {plot_name(report, n): p.pdf or plot_pdf(p)
+            for n, p in enumerate(_plots(report).values(), start=1)}
+
+
+def _step_view(step: Step, plot_file: str) -> dict:
+    return {
+        "line": step.line,
+        "source": code_lines(step.source),
+        "values": [(display_value(name_latex(v.name), v.latex), escape_tex(_degrees(v))) for v in step.values],
+        "remainder": step.remainder.latex if step.remainder is not None else "",
+        "summary": escape_tex(step.summary),
+        "table": _tabular(step) if step.table is not None else "",
+        "plot": plot_file,
+        "checks": _checks(step),
+    }
+
+
+def _environment() -> jinja2.Environment:
+    """Jinja with delimiters that cannot clash with TeX braces; we escape ourselves."""
+    return jinja2.Environment(
+        loader=jinja2.FileSystemLoader(TEMPLATES),
+        block_start_string="((*", block_end_string="*))",
+        variable_start_string="(((", variable_end_string=")))",
+        comment_start_string="((=", comment_end_string="=))",
+        autoescape=False, trim_blocks=True, lstrip_blocks=True,
+        keep_trailing_newline=True, undefined=jinja2.StrictUndefined,
+    )
+
+
+def to_tex(report: Report, standalone: bool = False) -> str:
+    """The appendix fragment, or with ``standalone`` a whole article around it."""
+    plot_numbers = {index: n for n, index in enumerate(_plots(report), start=1)}
+    items = []
+    for item in report.items:
+        if isinstance(item, Prose):
+            items.append({"prose": prose_tex(item.markdown, item.refs, report.allow_html)})
+        else:
+            number = plot_numbers.get(item.index)
+            items.append({"step": _step_view(item, plot_name(report, number) if number else "")})
+    counts = {s: report.count(s) for s in ("proven", "sampled", "failed", "error")}
+    context = {
+        "title": escape_tex(report.title or Path(report.document).stem),
+        "authors": escape_tex(", ".join(report.authors)),
+        "date": escape_tex(report.date),
+        "abstract": prose_tex(report.abstract, report.values, report.allow_html) if report.abstract else "",
+        "document": _escape_code(report.document),
+        "tool": escape_tex(f"{report.tool_name} {report.tool_version}"),
+        "steps": len(report.steps),
+        "counts": counts,
+        "passed": report.passed,
+        "conventions": [(_escape_code(k), escape_tex(v)) for k, v in report.conventions.items()],
+        "items": items,
+    }
+    env = _environment()
+    body = env.get_template("appendix.tex.j2").render(**context)
+    if not standalone:
+        return body
+    return env.get_template("standalone.tex.j2").render(body=body, title=context["title"])
