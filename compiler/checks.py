@@ -14,6 +14,7 @@ from dataclasses import dataclass
 import sympy
 
 from .algebra.graded import Element
+from .algebra.extremize import tidy
 from .algebra.sampling import SymbolSpec, describe_point, evaluate, sample_points
 from .expressions import Value, as_expr, is_class_free, unify
 from .results import CheckResult, weakest
@@ -84,7 +85,7 @@ def _equal(left: Value, right: Value, ctx: Context):
             return "proven", ""
         return "failed", _witness(left, right, difference, ctx)
     left, right = unify(ctx.ring, left, right)
-    difference = sympy.simplify(left - right)
+    difference = tidy(left - right, list(ctx.specs.values()))
     if difference == 0:
         return "proven", ""
     return _sample_equal(left, right, difference, ctx)

@@ -17,6 +17,7 @@ import yaml
 
 from compiler.errors import DocumentError, Location, Problem
 from compiler.markdown import make_markdown
+from compiler.statements.nodes import STATEMENT_WORDS
 
 DEFAULT_TRUNCATE = 12
 
@@ -179,7 +180,7 @@ def _read_front_matter(path: str, source: str, first_line: int) -> FrontMatter:
         return Location(path, first_line + node.start_mark.line, node.start_mark.column + 1)
 
     if not isinstance(root, yaml.MappingNode):
-        raise DocumentError(where(root), "front matter must be a list of 'key: value' lines")
+        raise DocumentError(where(root), "front matter must be 'key: value' lines")
     seen = set()
     for key_node, value_node in root.value:
         key = key_node.value if isinstance(key_node, yaml.ScalarNode) else None
@@ -248,6 +249,10 @@ def _read_conventions(node, where) -> tuple[ConventionEntry, ...]:
         name = key_node.value if isinstance(key_node, yaml.ScalarNode) else ""
         if not _IDENTIFIER.fullmatch(name):
             problems.append(Problem(where(key_node), f"convention name {name!r} is not an identifier"))
+            continue
+        if name in STATEMENT_WORDS:
+            problems.append(Problem(where(key_node), f"'{name}' is a statement word and cannot "
+                                                     "name a convention"))
             continue
         if name in seen:
             problems.append(Problem(where(key_node), f"convention '{name}' given twice"))

@@ -21,7 +21,7 @@ from typing import Callable, Optional
 import sympy
 
 from . import __version__, names as names_pass
-from .algebra import bundles as bundles_mod, fibers as fibers_mod, genera as genera_mod
+from .algebra import bundles as bundles_mod, fibers as fibers_mod
 from .algebra.extremize import ExtremizeError, extremize
 from .algebra.graded import AlgebraError, Element, Ring
 from .algebra.sampling import SymbolSpec
@@ -127,7 +127,6 @@ class Run(Scope):
                     declared.append(spec.symbol)
         self.ring = Ring(declared, document.front.truncate)
         self.bundles = bundles_mod.BundleTable(self.ring)
-        self.genera = genera_mod.Genera(self.bundles)
         self.fibers: dict[str, object] = {}
         self.bindings: dict[str, Binding] = {}
         self.history: dict[str, list[tuple[int, ValueRecord]]] = {}
@@ -348,7 +347,8 @@ def _bundle(run: Run, s: n.BundleDecl, step: Step) -> None:
     for name in s.names:
         run.bundles.declare(name, s.bundle_kind, s.rank)
         run.bind(name, "bundle", name, s.line)
-    step.summary = run.bundles.describe(s.names[0])
+    rank = f"rank {s.rank}" if s.rank is not None else "rank 1"
+    step.summary = f"{', '.join(s.names)}: {s.bundle_kind} bundle{'s' if len(s.names) > 1 else ''}, {rank}"
 
 
 def _split(run: Run, s: n.SplitDecl, step: Step) -> None:
@@ -356,46 +356,74 @@ def _split(run: Run, s: n.SplitDecl, step: Step) -> None:
     if used is not None:
         raise run.fail(s, f"'{s.bundle}' is split at line {s.line}, but a value at line {used} "
                           "already uses its classes; move the split before line " + str(used))
-    parts = [p.name if p.name is not None else p.trivial for p in s.parts]
-    account = run.bundles.split(s.bundle, parts)
-    for fiber in run.fibers.values():
-        fiber.refresh()
+    parts = [p.name if p.name is not None else bundles_mod.Trivial(p.trivial) for p in s.parts]
+    run.bundles.split(s.bundle, parts)
+    sizes = [str(run.bundles.real_rank(p)) if isinstance(p, str) else str(p.rank) for p in parts]
+    unit = "complex" if run.bundles.kind(s.bundle) == "complex" else "real"
+    total = run.bundles.rank(s.bundle)
+    if unit == "complex":
+        sizes = [str(run.bundles.rank(p)) for p in parts]
+    account = f"{unit} rank {total} = {' + '.join(sizes)}"
     step.checks.append(CheckResult(f"ranks add up: {account}", "proven"))
 
 
-def _surface(run: Run, s: n.SurfaceFiber, step: Step) -> None:
-    genus = run.evaluate(s.genus)
-    fiber = fibers_mod.SurfaceFiber(run.bundles, s.name, as_expr(genus), s.tangent)
+def _new_group(run: Run) -> int:
+    """Each fiber owns the next block of the monomial order."""
+    return len(run.fibers) + 1
+
+
+def _declare_fiber(run: Run, s, fiber, step: Step) -> None:
     run.fibers[s.name] = fiber
     run.bind(s.name, "fiber", fiber, s.line)
+    integrals = ", ".join(f"∫ {run.ring.monomial(m).to_text()} = {v.to_text()}"
+                          for m, v in fiber.integrals.items())
+    step.summary = f"{s.name}: fiber of dimension {fiber.dimension}; {integrals}"
+
+
+def _surface(run: Run, s: n.SurfaceFiber, step: Step) -> None:
+    genus = as_expr(run.evaluate(s.genus))
+    group = _new_group(run)
+    run.bundles.declare(s.tangent, "real", 2, group=group)
     run.bind(s.tangent, "bundle", s.tangent, s.line)
-    step.summary = fiber.describe()
+    tangent_euler = run.bundles.euler(s.tangent)
+    _declare_fiber(run, s, fibers_mod.surface_fiber(s.name, run.ring, group, genus, tangent_euler), step)
 
 
 def _sphere(run: Run, s: n.SphereFiber, step: Step) -> None:
-    fiber = fibers_mod.SphereFiber(run.bundles, s.name, s.bundle, s.angular,
-                                   run.conventions["angular_integral"])
-    run.fibers[s.name] = fiber
-    run.bind(s.name, "fiber", fiber, s.line)
-    run.bind(s.angular, "class", fiber.angular, s.line)
-    step.summary = fiber.describe()
+    rank = run.bundles.rank(s.bundle)
+    if run.bundles.kind(s.bundle) != "real":
+        raise run.fail(s, f"the sphere bundle needs a real bundle; {s.bundle} is complex")
+    top = run.bundles.pontryagin(s.bundle, rank // 2) if rank % 2 else None
+    run.note_class_use(s.bundle, s.line)
+    fiber = fibers_mod.sphere_fiber(
+        s.name, run.ring, _new_group(run), s.bundle, rank, top, s.angular,
+        run.conventions["angular_integral"], planes=_planes(run, s.bundle))
+    run.bind(s.angular, "class", run.ring.monomial([(s.angular, 1)]), s.line)
+    _declare_fiber(run, s, fiber, step)
+
+
+def _planes(run: Run, bundle: str) -> list:
+    """Euler classes of the oriented planes B splits into, if it splits so."""
+    parts = run.bundles.parts(bundle)
+    if not parts:
+        return []
+    planes = [p for p in parts if isinstance(p, str)]
+    trivial = sum(p.rank for p in parts if not isinstance(p, str))
+    if trivial != 1 or any(run.bundles.real_rank(p) != 2 for p in planes):
+        return []
+    return [run.bundles.euler(p) for p in planes]
 
 
 def _general(run: Run, s: n.GeneralFiber, step: Step) -> None:
-    fiber = fibers_mod.GeneralFiber(run.ring, s.name, s.dimension)
-    run.bind(s.name, "fiber", fiber, s.line)
+    group = _new_group(run)
+    classes = fibers_mod.declare_fiber_classes(
+        run.ring, group, [(c.name, c.degree) for c in s.classes], s.dimension, s.name)
     for c in s.classes:
-        run.bind(c.name, "class", fiber.add_class(c.name, c.degree), c.line)
+        run.bind(c.name, "class", classes[c.name], c.line)
     relations = [_relation(run, r) for r in s.relations]
-    integrals = [(run.evaluate(eq.lhs), run.evaluate(eq.rhs), eq) for eq in s.integrals]
-    try:
-        fiber.finish(relations, [(m, v) for m, v, _ in integrals])
-    except fibers_mod.FiberError as exc:
-        where = getattr(exc, "index", None)
-        node = integrals[where][2] if where is not None and where < len(integrals) else s
-        raise run.fail(node, str(exc)) from None
-    run.fibers[s.name] = fiber
-    step.summary = fiber.describe()
+    integrals = [(run.evaluate(eq.lhs), run.evaluate(eq.rhs)) for eq in s.integrals]
+    fiber = fibers_mod.general_fiber(s.name, run.ring, group, s.dimension, relations, integrals)
+    _declare_fiber(run, s, fiber, step)
 
 
 def _relation(run: Run, eq: n.Equation) -> Element:
@@ -481,8 +509,7 @@ def _reduce(run: Run, s: n.Reduce, step: Step) -> None:
 
 def _integrate(run: Run, s: n.Integrate, step: Step) -> None:
     target = _element(run, s.target, "integrate")
-    fiber = run.fibers[s.fiber]
-    result, checks = fiber.integrate(target)
+    result, checks = fibers_mod.integrate(target, run.fibers[s.fiber])
     for c in checks:
         step.checks.append(CheckResult(c.what, "proven" if c.ok else "failed", c.detail))
     run.output(step, s.outputs[0], result, s.line)
@@ -516,10 +543,9 @@ def _extremize(run: Run, s: n.Extremize, step: Step) -> None:
     variables = [(run.symbols_by_name[v.name].symbol,
                   None if v.interval is None else (v.interval.low, v.interval.high))
                  for v in s.variables]
-    chosen = {sym for sym, _ in variables}
-    params = [spec for sym, spec in run.specs.items() if sym not in chosen]
     try:
-        result = extremize(s.mode, as_expr(f), variables, params, f"{run.path}:{s.line}")
+        result = extremize(s.mode, as_expr(f), variables, list(run.specs.values()),
+                           f"{run.path}:{s.line}", name=_target_name(s.target))
     except ExtremizeError as exc:
         raise run.fail(s, str(exc)) from None
     for name, coordinate in zip(s.point, result.point):
@@ -529,6 +555,10 @@ def _extremize(run: Run, s: n.Extremize, step: Step) -> None:
     status = "proven" if result.settled == "symbolic" else "sampled"
     detail = result.account if status == "proven" else f"{result.account} (at {result.samples} sample points)"
     step.checks.append(CheckResult("one admissible critical point", status, detail))
+
+
+def _target_name(node) -> str:
+    return node.id if isinstance(node, n.Name) else "the expression"
 
 
 def _check(run: Run, s: n.Check, step: Step) -> None:

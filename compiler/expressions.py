@@ -18,6 +18,8 @@ from typing import Callable, Union
 
 import sympy
 
+from .algebra import genera
+from .algebra.genera import BundleValue
 from .algebra.graded import AlgebraError, Element, NotRational
 from .errors import DocumentError, Location
 from .statements import nodes as n
@@ -149,13 +151,12 @@ class Evaluator:
 
     def construction(self, node):
         """A bundle construction inside ``ch(...)``: names, S, dual, +, *, wedge, sym."""
-        genera = self.scope.genera
         if isinstance(node, n.Name):
             kind, _ = self.scope.lookup(node.id, node.line, node.column)
             if kind != "bundle":
                 raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle")
             self.scope.note_class_use(node.id, node.line)
-            return genera.bundle(node.id)
+            return BundleValue.of(self.scope.bundles, node.id)
         if isinstance(node, n.Binary) and node.op in ("+", "*"):
             left, right = self.construction(node.left), self.construction(node.right)
             return left + right if node.op == "+" else left * right
@@ -192,20 +193,20 @@ def _total_c(ev, node):
 
 
 def _ahat(ev, node):
-    return ev.scope.genera.ahat(ev.bundle_arg(node))
+    return genera.ahat(ev.scope.bundles, ev.bundle_arg(node))
 
 
 def _hirzebruch_l(ev, node):
-    return ev.scope.genera.hirzebruch_l(ev.bundle_arg(node))
+    return genera.hirzebruch_l(ev.scope.bundles, ev.bundle_arg(node))
 
 
 def _todd(ev, node):
-    return ev.scope.genera.todd(ev.bundle_arg(node))
+    return genera.todd(ev.scope.bundles, ev.bundle_arg(node))
 
 
 def _ch(ev, node):
     ev.arity(node, 1)
-    return ev.construction(node.args[0]).ch()
+    return ev.construction(node.args[0]).ch
 
 
 def _part(ev, node):
@@ -253,7 +254,7 @@ FUNCTIONS: dict[str, Callable] = {
 
 def _spinor(ev, node):
     ev.arity(node, 1)
-    return ev.scope.genera.spinor(ev.bundle_arg(node))
+    return BundleValue.spinor(ev.scope.bundles, ev.bundle_arg(node))
 
 
 def _dual(ev, node):

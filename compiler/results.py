@@ -51,8 +51,6 @@ class PlotData:
     high: str
     fixed: dict[str, str]  # parameter -> value used
     curves: dict[str, list[tuple[float, float]]]  # name -> sampled points
-    svg: str = ""  # inline SVG for HTML (filled by the engine's plotter)
-    pdf: bytes = b""  # PDF for LaTeX
 
 
 @dataclass

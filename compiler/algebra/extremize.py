@@ -15,7 +15,7 @@ from typing import Sequence
 
 import sympy
 
-from .sampling import SymbolSpec, describe_point, evaluate, sample_points
+from .sampling import SymbolSpec, describe_point, evaluate, is_enumerated, sample_points
 
 MODES = ("maximize", "minimize", "extremize")
 _NEEDED = {"maximize": "a negative-definite Hessian (a maximum)",
@@ -115,7 +115,8 @@ class _Problem:
             at = dict(zip(self.vars, coords))
             if sympy.simplify(denominator.xreplace(at)) == 0:
                 continue  # a pole, not a critical point
-            candidates.append(_Candidate(coords, [sympy.together(m.xreplace(at)) for m in minors]))
+            candidates.append(_Candidate(tuple(tidy(c, self.params) for c in coords),
+                                         [sympy.together(m.xreplace(at)) for m in minors]))
         return candidates
 
     def admissible_pattern(self, minors_signs: list[int], sign_c: int) -> bool:
@@ -126,6 +127,18 @@ class _Problem:
         if self.mode == "maximize":
             return all(((-1) ** (k + 1)) * s > 0 for k, s in enumerate(scaled))
         return all(s > 0 for s in scaled)
+
+    def value_at(self, coords):
+        """f at a critical point; in one variable f is first reduced modulo the
+        polynomial whose root the point is, which keeps radicals to low powers."""
+        if len(self.vars) == 1:
+            v = self.vars[0]
+            p = sympy.Poly(sympy.numer(sympy.together(sympy.diff(self.g, v))), v)
+            num, den = sympy.fraction(sympy.together(self.f))
+            if p.degree() > 1:
+                num, den = (sympy.rem(sympy.Poly(x, v), p).as_expr() for x in (num, den))
+            return (num / den).xreplace({v: coords[0]})
+        return self.f.xreplace(dict(zip(self.vars, coords)))
 
     # -- the decision -------------------------------------------------------
 
@@ -144,8 +157,8 @@ class _Problem:
             index, reason, samples = self.decide_by_sampling(candidates, seed, count)
             settled = "sampled"
         chosen = candidates[index]
-        point = tuple(_tidy(c, self.params) for c in chosen.coords)
-        value = _tidy(self.f.xreplace(dict(zip(self.vars, chosen.coords))), self.params)
+        point = tuple(tidy(c, self.params) for c in chosen.coords)
+        value = tidy(self.value_at(chosen.coords), self.params)
         account = f"{found}; kept {_point_text(self.vars, point)}: {reason}"
         return ExtremumResult(point, value, account, settled, samples)
 
@@ -155,12 +168,13 @@ class _Problem:
         sign_c = signer.sign_of_content(self.content)
         if sign_c is None:
             return None
-        admissible = []
+        admissible, complex_count = [], 0
         for i, cand in enumerate(candidates):
-            real = all(signer.is_real(c) for c in cand.coords)
-            if real is None:
+            verdicts = [signer.is_real(c) for c in cand.coords]
+            if None in verdicts:
                 return None
-            if real is False:
+            if False in verdicts:
+                complex_count += 1
                 continue
             inside = self.inside(cand.coords, signer.sign)
             if inside is None:
@@ -176,6 +190,8 @@ class _Problem:
                 return None
             if self.admissible_pattern(signs, sign_c):
                 admissible.append(i)
+        if complex_count == len(candidates):
+            raise ExtremizeError(self.complex_message(candidates, None))
         if len(admissible) != 1:
             raise ExtremizeError(self.count_message(candidates, admissible, None))
         chosen = candidates[admissible[0]]
@@ -200,8 +216,11 @@ class _Problem:
         picks: dict[int, dict] = {}
         used = 0
         skipped = []
-        for point in sample_points(self.params, count * 3, seed):
-            if used == count:
+        points = sample_points(self.params, count * 3, seed)
+        # Spare points replace skipped ones; a small finite domain is used whole.
+        limit = len(points) if is_enumerated(self.params, count * 3) else count
+        for point in points:
+            if used == limit:
                 break
             c_value = evaluate(self.content, point)
             if not _finite(c_value) or abs(c_value) < _TOL:
@@ -236,9 +255,7 @@ class _Problem:
             if len(admissible) != 1:
                 if not admissible and complex_seen and not any(
                         all(_is_real(x) for x in coords) for coords, _ in numeric):
-                    raise ExtremizeError(
-                        f"the critical points of {self.name} are complex at "
-                        f"{describe_point(point)}; give a range or check the function")
+                    raise ExtremizeError(self.complex_message(candidates, point))
                 raise ExtremizeError(self.count_message(candidates, admissible, point))
             picks.setdefault(admissible[0], point)
             if len(picks) > 1:
@@ -261,7 +278,7 @@ class _Problem:
         """The second-order test in words, e.g. ``d²a/deps² = -3 < 0``."""
         if len(self.vars) == 1:
             v = self.vars[0]
-            second = _tidy(self.content * cand.minors[0], self.params) if symbolic else None
+            second = tidy(self.content * cand.minors[0], self.params) if symbolic else None
             rel = {"maximize": "< 0", "minimize": "> 0", "extremize": "≠ 0"}[self.mode]
             lhs = f"d²{self.name}/d{v}²"
             return f"{lhs} = {sympy.sstr(second)} {rel}" if symbolic else f"{lhs} {rel}"
@@ -274,6 +291,12 @@ class _Problem:
         return (f"the Hessian of {self.name} is degenerate (zero determinant) at the "
                 f"critical point {_point_text(self.vars, cand.coords)}{where}; the "
                 f"second-order test cannot decide")
+
+    def complex_message(self, candidates, point) -> str:
+        where = f" at {describe_point(point)}" if point else ""
+        return (f"every critical point of {self.name} is complex{where}: "
+                + "; ".join(_point_text(self.vars, c.coords) for c in candidates)
+                + f"; {self.name} has no real {_KIND[self.mode]}")
 
     def range_hint(self) -> str:
         v = self.vars[0]
@@ -298,7 +321,8 @@ class _Problem:
             parts.append(f"{_point_text(self.vars, candidates[i].coords)} at "
                          f"{describe_point(point)} ({values})")
         return (f"different sample points pick different roots for the {_KIND[self.mode]} "
-                f"of {self.name}: " + "; ".join(parts) + "; " + self.range_hint())
+                f"of {self.name}: " + "; ".join(parts) + "; restrict the parameters in "
+                f"their `symbol` declarations or " + self.range_hint())
 
     def domain_text(self) -> str:
         parts = []
@@ -518,26 +542,54 @@ def _plain_sign(expr):
     return None
 
 
-def _tidy(expr, specs):
-    """A short exact form: square factors pulled out of radicals, then the
-    shortest of a few standard simplifications."""
-    signer = _Signer(specs)
-    expr = _pull_squares(expr, signer)
+def tidy(expr, specs: Sequence[SymbolSpec]):
+    """A short exact form: square factors pulled out of radicals using the
+    declarations, then the shortest of a few standard rewritings."""
+    expr = _pull_squares(expr, _Signer(specs))
     forms = [expr]
-    for rewrite in (sympy.factor, sympy.radsimp, sympy.simplify):
+    rewrites = [sympy.factor, _radical_form]
+    if sympy.count_ops(expr) < 200:   # simplify is slow on large expressions
+        rewrites.append(sympy.simplify)
+    for rewrite in rewrites:
         try:
             forms.append(rewrite(expr))
         except (TypeError, ValueError, NotImplementedError, sympy.PolynomialError):
             continue
-    return min(forms, key=lambda e: (sympy.count_ops(e), sympy.default_sort_key(e)))
+    return min(forms, key=sympy.count_ops)
+
+
+def _radical_form(expr):
+    """An expression with one square root r written as K (A + B r) / D."""
+    radicals = {p.base for p in expr.atoms(sympy.Pow) if p.exp.is_Rational and p.exp.q == 2}
+    if len(radicals) != 1:
+        return expr
+    r = sympy.sqrt(radicals.pop())
+    num, den = (sympy.expand(x) for x in sympy.fraction(sympy.together(expr)))
+    if den.has(r):
+        db = den.coeff(r)
+        da = sympy.expand(den - db * r)
+        num = sympy.expand(num * (da - db * r))
+        den = sympy.expand(da ** 2 - db ** 2 * r.base)
+    b = num.coeff(r)
+    a = sympy.expand(num - b * r)
+    if a.has(r) or b.has(r) or den.has(r):
+        return expr
+    common = sympy.gcd(sympy.gcd(a, b), den)
+    a, b, den = (sympy.cancel(x / common) for x in (a, b, den))
+    k = sympy.gcd(a, b) if b != 0 else a
+    if k == 0:
+        return sympy.Integer(0)
+    return sympy.factor(k) * (sympy.factor(sympy.cancel(a / k))
+                              + sympy.factor(sympy.cancel(b / k)) * r) / sympy.factor(den)
 
 
 def _pull_squares(expr, signer):
-    """sqrt(b^2 c) -> |b| sqrt(c) where the sign of b follows from the declarations."""
-    def rewrite(power):
-        if not (power.is_Pow and power.exp == sympy.Rational(1, 2)):
-            return power
-        coeff, factors = sympy.factor_list(power.base)
+    """(b^2 c)^(k/2) -> |b|^k c^(k/2) where the sign of b follows from the declarations."""
+    def is_radical(e):
+        return e.is_Pow and e.exp.is_Rational and e.exp.q == 2
+
+    def pull(part):
+        coeff, factors = sympy.factor_list(part)
         outside, inside = sympy.Integer(1), coeff
         for base, mult in factors:
             s = signer.sign(base) if mult >= 2 else None
@@ -546,5 +598,11 @@ def _pull_squares(expr, signer):
                 inside *= base ** (mult % 2)
             else:
                 inside *= base ** mult
-        return outside * sympy.sqrt(inside)
-    return expr.replace(lambda e: e.is_Pow and e.exp == sympy.Rational(1, 2), rewrite)
+        return outside, inside
+
+    def rewrite(power):
+        num, den = sympy.fraction(sympy.together(power.base))
+        (out_n, in_n), (out_d, in_d) = pull(num), pull(den)
+        return (out_n / out_d * sympy.sqrt(in_n / in_d)) ** power.exp.p
+
+    return expr.replace(is_radical, rewrite)

@@ -235,6 +235,13 @@ def rng_for(seed: str) -> random.Random:
     return random.Random(int.from_bytes(digest[:16], "big"))
 
 
+def is_enumerated(specs: Sequence[SymbolSpec], count: int) -> bool:
+    """Whether the specs admit at most ``count`` points, so sampling lists them all."""
+    finite = [s.finite_values() for s in specs]
+    return bool(specs) and all(f is not None for f in finite) and \
+        math.prod(len(f) for f in finite) <= count
+
+
 def sample_points(specs: Sequence[SymbolSpec], count: int,
                   seed: str) -> list[dict[sympy.Symbol, sympy.Rational]]:
     """``count`` distinct exact points satisfying every spec, fixed by ``seed``.
@@ -246,10 +253,9 @@ def sample_points(specs: Sequence[SymbolSpec], count: int,
     specs = list(specs)
     if not specs:
         return [{}]
-    finite = [s.finite_values() for s in specs]
-    if all(f is not None for f in finite) and math.prod(len(f) for f in finite) <= count:
+    if is_enumerated(specs, count):
         return [{s.symbol: sympy.Integer(v) for s, v in zip(specs, combo)}
-                for combo in itertools.product(*finite)]
+                for combo in itertools.product(*(s.finite_values() for s in specs))]
     rng = rng_for(seed)
     seen: set[tuple[Fraction, ...]] = set()
     points = []

@@ -33,7 +33,9 @@ def _draw(plot: PlotData, fmt: str, metadata: dict) -> bytes:
              "font.size": 9, "axes.spines.top": False, "axes.spines.right": False}
     with matplotlib.rc_context(style):
         fig = Figure(figsize=(5.2, 3.2))
+        fig.patch.set_alpha(0)  # the page shows through, as with a figure in print
         ax = fig.subplots()
+        ax.set_facecolor("none")
         for name, points in plot.curves.items():
             ax.plot([x for x, _ in points], [y for _, y in points], label=name, linewidth=1.4)
         ax.set_xlabel(plot.variable)
@@ -52,7 +54,7 @@ def plot_svg(plot: PlotData) -> str:
     """A bare ``<svg>`` element for inlining in HTML (HTML5 supplies the namespace)."""
     svg = _draw(plot, "svg", {"Date": None}).decode("utf-8")
     svg = _METADATA.sub("", _PROLOG.sub("", svg, count=1))
-    svg = svg.replace("xlink:href=", "href=")
+    svg = svg.replace("xlink:href=", "href=").replace("*{stroke", "svg *{stroke")
     return _XMLNS.sub("", svg, count=0).strip()
 
 

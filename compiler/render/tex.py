@@ -16,12 +16,11 @@ from typing import Callable
 
 import jinja2
 
-import compiler
 from compiler.errors import InternalError
 from compiler.markdown import make_markdown
-from compiler.results import PlotData, Prose, Report, Step, ValueRecord
+from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 
-TEMPLATES = Path(compiler.__file__).parent.parent / "templates"
+TEMPLATES = Path(__file__).resolve().parents[2] / "templates"  # the repo's templates/
 
 # ------------------------------------------------------------------ escaping
 
@@ -39,14 +38,16 @@ _MATH_CHARS = {
     "\u2202": r"\partial", "\u2297": r"\otimes", "\u2295": r"\oplus",
     "\u03b5": r"\varepsilon", "\u03c6": r"\varphi",
 }
-for _g in ("alpha beta gamma delta zeta eta theta iota kappa lambda mu nu xi pi rho "
-           "sigma tau upsilon chi psi omega").split():
+_GREEK_WORDS = ("alpha beta gamma delta zeta eta theta iota kappa lambda mu nu xi pi rho "
+                "sigma tau upsilon chi psi omega").split()
+for _g in _GREEK_WORDS:
     _MATH_CHARS.setdefault(unicodedata.lookup(f"GREEK SMALL LETTER {_g.replace('lambda', 'lamda')}"), "\\" + _g)
 for _g in "Gamma Delta Theta Lambda Xi Pi Sigma Upsilon Phi Psi Omega".split():
     _MATH_CHARS[unicodedata.lookup(f"GREEK CAPITAL LETTER {_g.replace('Lambda', 'Lamda')}")] = "\\" + _g
 _TEXT_MAP = {**_TEXT_SPECIALS, **{c: f"${m}$" for c, m in _MATH_CHARS.items()}}
-# In typewriter text quotes must stay straight.
-_CODE_MAP = {**_TEXT_MAP, "'": r"\textquotesingle{}", "`": r"\textasciigrave{}"}
+# The typewriter font has every ASCII character in its own slot, so code
+# shows the real glyphs (straight quotes, a true backslash) in any encoding.
+_CODE_MAP = {**_TEXT_MAP, **{ch: f"\\symbol{{{ord(ch)}}}" for ch in "\\{}^~_<>|'`\""}}
 
 
 def escape_tex(text: str) -> str:
@@ -58,32 +59,40 @@ def _escape_code(text: str) -> str:
     return "".join(_CODE_MAP.get(ch, ch) for ch in text)
 
 
-def code_lines(text: str) -> str:
-    """Monospace lines that keep their indentation and may break at spaces."""
+def code_lines(text: str, number: int | None = None) -> str:
+    """Monospace lines that keep their indentation and may break at spaces;
+    ``number`` (a source line) hangs in the left margin."""
     lines = []
     for line in text.rstrip("\n").split("\n"):
         stripped = line.lstrip(" ")
         indent = "~" * (len(line) - len(stripped))
         lines.append(indent + _escape_code(stripped) if line else r"\mbox{}")
-    return "{\\small\\ttfamily\\raggedright\n" + "\\\\\n".join(lines) + "\\par}\n"
+    margin = f"\\noindent\\llap{{\\scriptsize\\rmfamily {number}\\quad}}" if number is not None else ""
+    return "{\\small\\ttfamily\\frenchspacing\\raggedright\n" + margin + "\\\\\n".join(lines) + "\\par}\n"
 
 
-_NAME = re.compile(r"([A-Za-z]+?)(\d*)")
+_TRAILING_DIGITS = re.compile(r"([A-Za-z]+)(\d+)")
+_GREEK_NAMES = frozenset(_GREEK_WORDS) | {"Gamma", "Delta", "Theta", "Lambda", "Xi", "Pi", "Sigma",
+                                          "Upsilon", "Phi", "Psi", "Omega", "epsilon", "phi"}
+
+
+def _greek(word: str) -> str:
+    return "\\" + word if word in _GREEK_NAMES else word
 
 
 def name_latex(name: str) -> str:
-    """An identifier as math: trailing digits and an ``_suffix`` become a subscript.
+    """An identifier as math, the way the values print their symbols:
+    trailing digits and ``_parts`` become a subscript, Greek names letters.
 
-    ``I8`` → ``I_{8}``, ``a_star`` → ``a_{\\mathrm{star}}``, ``kRRR`` → ``\\mathrm{kRRR}``.
+    ``I8`` → ``I_{8}``, ``a_star`` → ``a_{star}``, ``I8_free`` → ``I_{8 free}``,
+    ``alpha_1`` → ``\\alpha_{1}``, ``kRRR`` stays ``kRRR``.
     """
-    head, _, tail = name.partition("_")
-    m = _NAME.fullmatch(head)
-    base, digits = (m.group(1), m.group(2)) if m else (head, "")
-    base_tex = base if len(base) == 1 else rf"\mathrm{{{base}}}"
-    subs = [digits] if digits else []
-    if tail:
-        subs.append(tail if len(tail) == 1 or tail.isdigit() else rf"\mathrm{{{tail.replace('_', chr(92) + '_')}}}")
-    return base_tex + (f"_{{{','.join(subs)}}}" if subs else "")
+    head, *subs = name.split("_")
+    m = _TRAILING_DIGITS.fullmatch(head)
+    if m:
+        head, subs = m.group(1), [m.group(2), *subs]
+    subs = [_greek(s) for s in subs if s]
+    return _greek(head) + (f"_{{{' '.join(subs)}}}" if subs else "")
 
 
 # ------------------------------------------------------- prose: token rules
@@ -139,7 +148,7 @@ Rule = Callable[[_TexWriter, object], str]
 RULES: dict[str, Rule] = {
     "front_matter": lambda w, t: "",
     "paragraph_open": lambda w, t: "",
-    "paragraph_close": lambda w, t: "\n" if t.hidden else "\n\n",
+    "paragraph_close": lambda w, t: "" if t.hidden else "\n\n",  # hidden: tight list item
     "heading_open": _heading_open,
     "heading_close": lambda w, t: "}\n\n",
     "inline": lambda w, t: w.render(t.children or []),
@@ -182,7 +191,14 @@ def prose_tex(markdown: str, refs: dict[str, ValueRecord], allow_html: bool = Fa
 
 # ------------------------------------------------------------- steps: values
 
-_BREAK_AT = 70  # characters of LaTeX source per displayed line
+_BREAK_AT = 55  # visible characters per displayed line
+_INVISIBLE = re.compile(r"\\(?:left|right|mathrm|mathit|operatorname|frac|tfrac|dfrac)(?![A-Za-z])|[{}^_]")
+_COMMAND = re.compile(r"\\[A-Za-z]+")
+
+
+def _width(latex: str) -> int:
+    """Rough printed width: markup costs nothing, a symbol command one character."""
+    return len(_COMMAND.sub("x", _INVISIBLE.sub("", latex)).replace(" ", ""))
 
 
 _DELIMITER = re.compile(r"\\(?:left|right)(?![A-Za-z])\s*(?:\\[A-Za-z]+|\\.|.)")
@@ -220,22 +236,37 @@ def _top_level_terms(latex: str) -> list[str]:
     return [t for t in terms if t]
 
 
-def display_value(lhs: str, latex: str) -> str:
-    """``lhs = latex`` displayed, broken over lines at top-level signs when long."""
-    if len(latex) <= _BREAK_AT:
-        return f"\\begin{{equation*}}\n{lhs} = {latex}\n\\end{{equation*}}\n"
+def value_lines(latex: str) -> list[str]:
+    """The value cut into display lines at top-level signs; one line when short."""
+    if _width(latex) <= _BREAK_AT:
+        return [latex]
     lines, current = [], ""
     for term in _top_level_terms(latex):
-        if current and len(current) + len(term) > _BREAK_AT:
+        if current and _width(current) + _width(term) > _BREAK_AT:
             lines.append(current)
             current = ""
         current = f"{current} {term}".strip()
-    lines.append(current)
-    body = f"{lhs} &= {lines[0]}" + "".join(f"\\\\\n&\\quad {line}" for line in lines[1:])
-    return f"\\begin{{align*}}\n{body}\n\\end{{align*}}\n"
+    return lines + [current]
 
 
-def _degrees(v: ValueRecord) -> str:
+def aligned_body(lhs: str, lines: list[str]) -> str:
+    """Rows for ``align*``/``split``: ``lhs &= first``, then ``&\\quad rest``."""
+    first = f"{lhs} &= " if lhs else "& "
+    return first + lines[0] + "".join(f"\\\\\n&\\quad {line}" for line in lines[1:])
+
+
+def display_value(lhs: str, latex: str) -> str:
+    """``lhs = latex`` displayed, over several aligned lines when long; an
+    empty ``lhs`` (``show`` of an expression) shows the value alone."""
+    lines = value_lines(latex)
+    if len(lines) == 1:
+        eq = f"{lhs} = " if lhs else ""
+        return f"\\begin{{equation*}}\n{eq}{latex}\n\\end{{equation*}}\n"
+    return f"\\begin{{align*}}\n{aligned_body(lhs, lines)}\n\\end{{align*}}\n"
+
+
+def degrees_text(v: ValueRecord) -> str:
+    """``degree 8`` / ``degrees 4, 8``; nothing for zero, which has no degree."""
     if not v.degrees:
         return ""
     word = "degree" if len(v.degrees) == 1 else "degrees"
@@ -245,8 +276,8 @@ def _degrees(v: ValueRecord) -> str:
 _STATUS_TEX = {
     "proven": r"\textsc{proven}",
     "sampled": r"\textsc{sampled}",
-    "failed": r"\textbf{\textsc{failed}}",
-    "error": r"\textbf{\textsc{error}}",
+    "failed": r"\textbf{FAILED}",
+    "error": r"\textbf{ERROR}",
 }
 
 
@@ -265,7 +296,7 @@ def _tabular(step: Step) -> str:
     spec = "c" * len(t.columns)
     head = " & ".join(f"${c}$" for c in t.columns)
     rows = "".join(" & ".join(f"${c}$" for c in row) + " \\\\\n" for row in t.rows)
-    return (f"\\begin{{center}}\n\\begin{{tabular}}{{{spec}}}\n\\hline\n{head} \\\\\n\\hline\n"
+    return (f"\\begin{{center}}\\renewcommand{{\\arraystretch}}{{1.4}}\n\\begin{{tabular}}{{{spec}}}\n\\hline\n{head} \\\\\n\\hline\n"
             f"{rows}\\hline\n\\end{{tabular}}\n\\end{{center}}\n")
 
 
@@ -283,15 +314,15 @@ def plot_files(report: Report) -> dict[str, bytes]:
     """The PDF of each plot, keyed by the name ``to_tex`` includes it under."""
     from compiler.render.plots import plot_pdf
 
-    return {plot_name(report, n): p.pdf or plot_pdf(p)
+    return {plot_name(report, n): plot_pdf(p)
             for n, p in enumerate(_plots(report).values(), start=1)}
 
 
 def _step_view(step: Step, plot_file: str) -> dict:
     return {
         "line": step.line,
-        "source": code_lines(step.source),
-        "values": [(display_value(name_latex(v.name), v.latex), escape_tex(_degrees(v))) for v in step.values],
+        "source": code_lines(step.source, step.line),
+        "shown": [(display_value(name_latex(v.name), v.latex), escape_tex(degrees_text(v))) for v in step.values],
         "remainder": step.remainder.latex if step.remainder is not None else "",
         "summary": escape_tex(step.summary),
         "table": _tabular(step) if step.table is not None else "",
@@ -322,7 +353,7 @@ def to_tex(report: Report, standalone: bool = False) -> str:
         else:
             number = plot_numbers.get(item.index)
             items.append({"step": _step_view(item, plot_name(report, number) if number else "")})
-    counts = {s: report.count(s) for s in ("proven", "sampled", "failed", "error")}
+    counts = {s: report.count(s) for s in STATUSES}
     context = {
         "title": escape_tex(report.title or Path(report.document).stem),
         "authors": escape_tex(", ".join(report.authors)),

@@ -11,6 +11,8 @@ import re
 from dataclasses import dataclass, field
 from fractions import Fraction
 
+from compiler.statements.nodes import STATEMENT_WORDS
+
 #: Longer operators first, so ``**`` is not read as two ``*``.
 OPERATORS = (
     "**", "..", "->", "==", "!=", "<=", ">=",
@@ -80,6 +82,13 @@ def decimal_hint(text: str) -> str:
     return str(value)
 
 
+def _glued_message(digits: str, word: str) -> str:
+    if re.fullmatch(r"[eE][0-9]*", word):
+        return "scientific notation is not allowed: write an exact integer or fraction"
+    return (f"a number runs into a name: '{digits}{word}' (there is no implicit "
+            f"multiplication; write {digits}*{word})")
+
+
 def tokenize_line(text: str, line: int) -> tuple[list[Token], bool, str]:
     """Tokens of one physical line, whether it ends in ``\\``, and its code text.
 
@@ -126,9 +135,8 @@ def tokenize_line(text: str, line: int) -> tuple[list[Token], bool, str]:
             digits, end = match.group(), match.end()
             glued = _NAME.match(code, end)
             if glued:
-                tokens.append(Token("error", f"a number runs into a name: '{digits}{glued.group()}'"
-                                    f" (there is no implicit multiplication; write "
-                                    f"{digits}*{glued.group()})", line, col, glued.end() + 1))
+                tokens.append(Token("error", _glued_message(digits, glued.group()),
+                                    line, col, glued.end() + 1))
                 pos = glued.end()
                 continue
             if len(digits) > MAX_DIGITS:
@@ -153,8 +161,8 @@ def logical_lines(text: str, first_line: int) -> list[LogicalLine]:
     """Join physical lines; ``first_line`` is the file line of ``text``'s first line.
 
     Comment-only lines vanish; blank lines become ``blank`` markers.  A
-    bracket left open at the end of the block is reported by an ``error``
-    token at the bracket itself.
+    bracket left open (at the end of the block, or before a line starting
+    with a statement word) is reported by an ``error`` token at the bracket.
     """
     result: list[LogicalLine] = []
     current: LogicalLine | None = None
@@ -174,6 +182,12 @@ def logical_lines(text: str, first_line: int) -> list[LogicalLine]:
             result.append(LogicalLine(line=line, end_line=line, blank=True))
             current = None
             continue
+        elif open_brackets and tokens and tokens[0].kind == "name" \
+                and tokens[0].text in STATEMENT_WORDS:
+            # A statement word cannot occur inside an expression: the
+            # bracket was left open, and this line starts afresh.
+            result.append(_finish(current, open_brackets))
+            current = LogicalLine(line=line, indented=raw[:1] in (" ", "\t"))
         current.tokens.extend(tokens)
         if code:
             current.pieces.append(code)
@@ -198,7 +212,7 @@ def logical_lines(text: str, first_line: int) -> list[LogicalLine]:
 def _finish(current: LogicalLine, open_brackets: list[Token]) -> LogicalLine:
     if open_brackets:
         bracket = open_brackets[0]
-        current.tokens.insert(0, Token("error", f"'{bracket.text}' is never closed",
+        current.tokens.append(Token("error", f"'{bracket.text}' is never closed",
                                        bracket.line, bracket.column, bracket.end_column))
         open_brackets.clear()
     return current

@@ -1,0 +1,172 @@
+"""The HTML report: self-contained, escaped, and showing every step and check.
+
+Safety is the point of most of these: the spec ("Prose") requires that a
+shared report must not run a stranger's script, and the report must open
+with no network.
+"""
+from __future__ import annotations
+
+import re
+from html.parser import HTMLParser
+
+from compiler.render.html import to_html
+from compiler.render.mathml import to_mathml
+from compiler.results import Prose, Report, Step, ValueRecord
+from report_fixture import make_report
+
+
+def _html(report=None) -> str:
+    return to_html(report or make_report())
+
+
+def _prose_report(markdown: str, allow_html: bool = False, refs=None) -> Report:
+    return Report("anomark", "0.1.0", "d.md", "T", [], "", "", {}, 12,
+                  [Prose(markdown, 1, refs or {})], {}, allow_html=allow_html)
+
+
+class _Tags(HTMLParser):
+    """Collects start tags and their attributes."""
+
+    def __init__(self):
+        super().__init__()
+        self.tags: list[tuple[str, dict]] = []
+
+    def handle_starttag(self, tag, attrs):
+        self.tags.append((tag, dict(attrs)))
+
+
+def _tags(html: str) -> list[tuple[str, dict]]:
+    p = _Tags()
+    p.feed(html)
+    return p.tags
+
+
+def test_math_is_mathml():
+    html = _html()
+    assert html.count("<math") == html.count("</math>") > 5
+    assert '<math display="block">' in html  # $$...$$ and step values
+    assert "<msup><mi>x</mi><mn>2</mn></msup>" in html  # the prose's $x^2$
+    assert "xmlns" not in html
+
+
+def test_value_reference_shows_the_value():
+    html = _html()
+    prose = html.split('<div class="prose">')[1].split("</div>")[0]
+    # @{I8} becomes the MathML of I8's LaTeX, not the literal reference
+    assert "@{I8}" not in prose
+    assert str(to_mathml(make_report().values["I8"].latex)) in prose
+
+
+def test_scripts_escaped_in_prose_and_sources():
+    html = _html()
+    assert "<script" not in html.lower()
+    escaped = "&lt;script&gt;alert(1)&lt;/script&gt;"
+    prose = html.split('<div class="prose">')[1]
+    assert escaped in prose.split("</div>")[0]
+    source = html.split('id="step-5"')[1].split("</pre>")[0]
+    assert escaped in source
+
+
+def test_no_external_references():
+    html = _html()
+    for needle in ("http://", "https://", "src=", "<link", "@import", "<script", "url(http"):
+        assert needle not in html
+    for tag, attrs in _tags(html):
+        assert not tag.startswith("script") and not any(k.startswith("on") for k in attrs), (tag, attrs)
+        assert all(v is None or v.startswith("#") for k, v in attrs.items() if k == "href")
+
+
+def test_css_inlined():
+    html = _html()
+    assert "<style>" in html and ".margin" in html and "grid-template-columns" in html
+
+
+def test_summary_at_top():
+    html = _html()
+    front = html.split("<main>")[0]
+    assert "Anomaly of a twisted compactification" in front
+    assert "A. Writer, B. Reader" in front and "2024-05-01" in front
+    assert "Not passed" in front
+    for status, n in (("steps", 8), ("proven", 2), ("sampled", 1), ("failed", 1), ("error", 1)):
+        assert f'<span class="n">{n}</span> {status}' in front
+    assert "<code>angular_integral</code> = 2" in front
+    assert 'href="#step-5">line 14</a>' in front and 'href="#step-6">line 15</a>' in front
+
+
+def test_failed_check_flagged_with_detail():
+    html = _html()
+    step = html.split('id="step-5"')[1].split("</section>")[0]
+    assert html.count('<section class="step failed"') == 1
+    assert '<li class="check failed">' in step
+    assert "at N = 2: left 1/2, right 2" in step
+    assert '<li class="check error">' in html and "undefined name missing" in html
+    assert '<li class="check sampled">' in html and "equal at 24 random points" in html
+
+
+def test_steps_in_reading_order_with_line_numbers():
+    html = _html()
+    positions = [html.index(f'id="step-{i}"') for i in range(1, 9)]
+    assert positions == sorted(positions)
+    assert html.index("Setup") < positions[0] < positions[-1] < html.index("Finally")
+    assert re.search(r'<span class="lineno"[^>]*>11</span><pre><code>let I8 = ', html)
+
+
+def test_remainder_table_plot_summary():
+    html = _html()
+    assert '<div class="remainder"><span class="label">remainder</span><math display="block">' in html
+    table = html.split("<table>")[1].split("</table>")[0]
+    assert table.count("<tr>") == 5  # header + N, g in 2..3
+    assert "<mfrac><mrow><mn>53</mn></mrow><mrow><mn>24</mn></mrow></mfrac>" in table
+    figure = html.split('<figure class="plot">')[1].split("</figure>")[0]
+    assert figure.startswith("<svg") and "a_star" in figure
+    assert "one curve, 11 points" in html
+
+
+def test_raw_html_only_when_allowed():
+    md = "Some <em>raw</em> text."
+    assert "&lt;em&gt;raw&lt;/em&gt;" in to_html(_prose_report(md))
+    assert "<em>raw</em>" in to_html(_prose_report(md, allow_html=True))
+
+
+def test_mathml_cannot_smuggle_markup():
+    # The converter copies \text verbatim and turns \href/\style into attributes.
+    md = (r"$\text{<script>alert(1)</script>}$ $\href{javascript:alert(1)}{x}$ "
+          r"$\style{background:url(http://example.org/x)}{y}$ $a < b \& c$")
+    html = to_html(_prose_report(md))
+    assert "<script" not in html and "javascript:" not in html and "http://" not in html
+    assert "<mtext>&lt;script&gt;alert(1)&lt;/script&gt;</mtext>" in html
+    assert "<mo>&lt;</mo>" in html
+
+
+def test_images_not_fetched():
+    html = to_html(_prose_report("![a diagram](https://example.org/d.png)"))
+    assert "src=" not in html and "example.org" not in html and "[a diagram]" in html
+
+
+def test_unreadable_math_shown_as_source():
+    html = to_html(_prose_report(r"bad $\left( x$ math"))
+    assert '<code class="tex-error" title="could not typeset">\\left( x</code>' in html
+
+
+def test_names_and_details_escaped():
+    v = ValueRecord("x", "1", "1", [0])
+    step = Step(1, 2, 1, 2, "check x == 1", "check", [], values=[v])
+    step.summary = "<b>bold</b>"
+    report = Report("anomark", "0.1.0", "<i>d</i>.md", "<img src=x>", ["<u>A</u>"], "", "", {"<c>": "1"}, 12,
+                    [step], {"x": v})
+    html = to_html(report)
+    assert "<b>" not in html and "<u>" not in html and "<img" not in html and "<i>" not in html
+    assert "&lt;b&gt;bold&lt;/b&gt;" in html and "&lt;img src=x&gt;" in html
+
+
+def test_long_values_aligned_over_lines():
+    terms = " + ".join(rf"\frac{{{k}}}{{48}} p_{{1}}(T_{{{k}}})^{{2}} c_{{1}}(L_{{{k}}})" for k in range(1, 7))
+    v = ValueRecord("I6", "...", terms, [6])
+    html = to_html(Report("anomark", "0.1.0", "d.md", "T", [], "", "", {}, 12,
+                          [Step(1, 2, 1, 2, "show I6", "show", [], values=[v])], {"I6": v}))
+    value = html.split('<div class="value">')[1].split("</div>")[0]
+    assert value.count("<mtr>") >= 2 and value.count("<mn>48</mn>") == 6
+
+
+def test_same_report_same_page():
+    assert _html() == _html()
