@@ -22,7 +22,7 @@ import sympy
 
 from . import __version__, names as names_pass
 from .algebra import bundles as bundles_mod, fibers as fibers_mod
-from .algebra.extremize import ExtremizeError, extremize
+from .algebra.extremize import ExtremizeError, extremize, tidy
 from .algebra.graded import AlgebraError, Element, Ring
 from .algebra.sampling import SymbolSpec
 from .checks import Context, claim, free_symbols, show, substitute
@@ -449,37 +449,41 @@ def _element(run: Run, node, what: str) -> Element:
 
 
 def _substitute(run: Run, s: n.Substitute, step: Step) -> None:
-    target = _element(run, s.target, "substitute")
+    target = run.evaluate(s.target)
+    element = target if isinstance(target, Element) else None
+    present = element.generator_keys() if element is not None else set()
+    symbols = free_symbols(target)
     mapping = {}
-    present = target.generator_keys()
-    symbols = target.free_symbols()
     for pair in s.pairs:
         lhs = _element(run, pair.lhs, "substitute")
         rhs = run.evaluate(pair.rhs)
         key = _single_generator(run, pair.lhs, lhs)
         if key in mapping:
-            raise run.fail(pair, f"{pair_text(lhs)} is substituted twice")
+            raise run.fail(pair, f"{lhs.to_text()} is substituted twice")
         if key not in present and key not in symbols:
-            raise run.fail(pair.lhs, f"{pair_text(lhs)} does not occur in the expression (a typo?)")
+            raise run.fail(pair.lhs, f"{lhs.to_text()} does not occur in the expression (a typo?)")
         degree = lhs.degrees()[0]
         got = rhs.degrees() if isinstance(rhs, Element) else [0]
         ok = not got or got == [degree]
         step.checks.append(CheckResult(
-            f"{pair_text(lhs)} (degree {degree}) replaced by degree {', '.join(map(str, got)) or '—'}",
+            f"{lhs.to_text()} (degree {degree}) replaced by degree {', '.join(map(str, got)) or '—'}",
             "proven" if ok else "failed",
             "" if ok else f"the right side has degree {', '.join(map(str, got))}, not {degree}"))
-        mapping[key] = rhs if isinstance(rhs, Element) else run.ring.from_scalar_expr(rhs)
+        mapping[key] = rhs
     if any(c.status == "failed" for c in step.checks):
         for name in s.outputs:
             run.bind(name, "value", Missing(name, s.line), s.line)
         return
-    result = target.substitute(mapping)
+    if all(isinstance(v, Element) for v in mapping.values()) and element is not None:
+        result = element.substitute(mapping)
+    elif is_class_free(target) and all(isinstance(k, sympy.Symbol) for k in mapping):
+        # An irrational value (an extremum) put into a class-free expression.
+        exact = as_expr(target).subs({k: as_expr(v) for k, v in mapping.items()})
+        result = tidy(exact, list(run.specs.values()))
+    else:
+        raise run.fail(s, "an irrational value can only be substituted into a class-free expression")
     step.checks.append(degree_check(result))
     run.output(step, s.outputs[0], result, s.line)
-
-
-def pair_text(value: Element) -> str:
-    return value.to_text()
 
 
 def _single_generator(run: Run, node, value: Element):
