@@ -147,12 +147,15 @@ def status_of(report) -> int:
 def write_whole(files: dict[Path, bytes]) -> None:
     """Write every file to a temporary name first, then move them into place."""
     staged = []
+    umask = os.umask(0)
+    os.umask(umask)
     try:
         for target, data in files.items():
             target.parent.mkdir(parents=True, exist_ok=True)
             fd, tmp = tempfile.mkstemp(dir=target.parent, prefix=f".{target.name}.")
             with os.fdopen(fd, "wb") as handle:
                 handle.write(data)
+            os.chmod(tmp, 0o666 & ~umask)
             staged.append((tmp, target))
     except BaseException:
         for tmp, _ in staged:

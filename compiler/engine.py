@@ -25,6 +25,7 @@ from .algebra import bundles as bundles_mod, fibers as fibers_mod
 from .algebra.extremize import ExtremizeError, extremize, tidy
 from .algebra.graded import AlgebraError, Element, Ring
 from .algebra.sampling import SymbolSpec
+from .cache import StepCache, digest, expr_from_data, expr_to_data, restore_step, step_entry
 from .checks import Context, claim, free_symbols, show, substitute
 from .document import Block, ProsePart, read_document
 from .errors import DocumentError, InternalError, Location, Problem
@@ -134,6 +135,9 @@ class Run(Scope):
         self.reported_missing: set[str] = set()
         self.diagnostics: list[Problem] = []
         self.evaluator = Evaluator(self, path)
+        self.cache = StepCache(path, options.use_cache)
+        self.keys: dict[str, str] = {}
+        self.step_key = digest("conventions", sorted(self.report_conventions().items()))
         for name, value in self.conventions.items():
             if name not in self._statement_conventions:
                 self.bind(name, "convention", self.ring.scalar(value), 0)
@@ -157,6 +161,9 @@ class Run(Scope):
             values[name] = value
         return {k: Fraction(v) for k, v in values.items()}
 
+    def report_conventions(self) -> dict[str, str]:
+        return {k: fraction_text(v) for k, v in sorted(self.conventions.items())}
+
     # ------------------------------------------------------------ scope
 
     def lookup(self, name: str, line: int, column: int):
@@ -174,11 +181,13 @@ class Run(Scope):
     def note_class_use(self, bundle: str, line: int) -> None:
         self.class_uses.setdefault(bundle, line)
 
-    def bind(self, name: str, kind: str, value, line: int) -> None:
+    def bind(self, name: str, kind: str, value, line: int, shown: ValueRecord | None = None) -> None:
         self.bindings[name] = Binding(kind, value, line)
+        self.keys[name] = digest(self.step_key, name)
         if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
-            shown = self.ring.symbol(value.symbol) if kind == "symbol" else value
-            self.history.setdefault(name, []).append((line, record(name, shown)))
+            if shown is None:
+                shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value)
+            self.history.setdefault(name, []).append((line, shown))
 
     def evaluate(self, expr) -> Value:
         return self.evaluator.evaluate(expr)
@@ -201,6 +210,7 @@ class Run(Scope):
                 items.append((None, step))
                 if self.options.progress:
                     self.options.progress(step)
+        self.cache.save()
         final = [Prose(p.markdown, p.line, self._refs(p)) if p is not None else s for p, s in items]
         front = self.document.front
         values = {name: hist[-1][1] for name, hist in self.history.items()
@@ -209,7 +219,7 @@ class Run(Scope):
             tool_name=TOOL_NAME, tool_version=__version__, document=self.path,
             title=front.title, authors=list(front.authors), date=front.date,
             abstract=front.abstract,
-            conventions={k: fraction_text(v) for k, v in sorted(self.conventions.items())},
+            conventions=self.report_conventions(),
             truncate=front.truncate, items=final, values=values,
             allow_html=self.options.allow_html,
             diagnostics=[str(p) for p in self.diagnostics])
@@ -226,12 +236,31 @@ class Run(Scope):
             refs[ref.name] = before[-1] if before else hist[0][1]
         return refs
 
-    def run_step(self, index: int, s) -> Step:
-        step = Step(index=index, line=s.line, column=s.column, end_line=s.end_line,
-                    source=s.source, kind="let" if s.kind == "let" else s.kind,
+    def new_step(self, index: int, s) -> Step:
+        return Step(index=index, line=s.line, column=s.column, end_line=s.end_line,
+                    source=s.source, kind=s.kind,
                     outputs=list(getattr(s, "outputs", ()) or ((s.name,) if isinstance(s, n.Let) else ())),
                     rebind=getattr(s, "rebind", False))
+
+    def key_of(self, s) -> str:
+        """The cache key: statement, inputs' keys, conventions, truncation, version."""
+        seeded = s.line if isinstance(s, (n.Check, n.Extremize)) else None
+        inputs = [(name, self.keys.get(name)) for name in names_pass.references(s)]
+        return digest(__version__, self.ring.truncate, sorted(self.report_conventions().items()),
+                      s.kind, s.source, seeded, inputs)
+
+    def run_step(self, index: int, s) -> Step:
+        step = self.new_step(index, s)
+        self.step_key = self.key_of(s)
         start = time.perf_counter()
+        cacheable = type(s) in CACHED
+        entry = self.cache.get(self.step_key) if cacheable else None
+        if entry is not None and self.restore(step, entry):
+            self.cache.put(self.step_key, entry)
+            step.seconds = time.perf_counter() - start
+            self.note_failures(step, s)
+            return step
+        step = self.new_step(index, s)
         try:
             with time_limit(self.options.time_limit):
                 HANDLERS[type(s)](self, s, step)
@@ -246,12 +275,50 @@ class Run(Scope):
             self._step_error(step, s, Problem(Location(self.path, s.line, s.column),
                                               "expression too deeply nested"))
         step.seconds = time.perf_counter() - start
+        if cacheable and step.status != "error":
+            self.store(step)
+        self.note_failures(step, s)
+        return step
+
+    def restore(self, step: Step, entry: dict) -> bool:
+        """Fill a step and bind its outputs from a cache entry; False if unusable."""
+        try:
+            restore_step(step, entry)
+            shown = {v.name: v for v in step.values}
+            symbols = {spec.symbol.name: spec.symbol for spec in self.specs.values()}
+            for name, data in entry["outputs"].items():
+                if "missing" in data:
+                    value = Missing(name, step.line)
+                elif "element" in data:
+                    value = self.ring.from_data(data["element"])
+                else:
+                    value = expr_from_data(data["expr"], symbols)
+                self.bind(name, "value", value, step.line, shown.get(name))
+            return True
+        except (KeyError, TypeError, ValueError, AttributeError, AlgebraError):
+            return False
+
+    def store(self, step: Step) -> None:
+        outputs = {}
+        try:
+            for name in step.outputs:
+                value = self.bindings[name].value
+                if isinstance(value, Missing):
+                    outputs[name] = {"missing": True}
+                elif isinstance(value, Element):
+                    outputs[name] = {"element": value.to_data()}
+                else:
+                    outputs[name] = {"expr": expr_to_data(value)}
+        except ValueError:
+            return
+        self.cache.put(self.step_key, step_entry(step, outputs))
+
+    def note_failures(self, step: Step, s) -> None:
         for check in step.checks:
             if check.status == "failed":
                 self.diagnostics.append(Problem(Location(self.path, s.line, s.column),
                                                 f"check failed: {check.what}"
                                                 + (f": {check.detail}" if check.detail else "")))
-        return step
 
     def _step_error(self, step: Step, s, problem: Problem) -> None:
         step.checks.append(CheckResult("step runs", "error", problem.message))
@@ -358,6 +425,7 @@ def _split(run: Run, s: n.SplitDecl, step: Step) -> None:
                           "already uses its classes; move the split before line " + str(used))
     parts = [p.name if p.name is not None else bundles_mod.Trivial(p.trivial) for p in s.parts]
     run.bundles.split(s.bundle, parts)
+    run.keys[s.bundle] = digest(run.keys.get(s.bundle), run.step_key)
     sizes = [str(run.bundles.real_rank(p)) if isinstance(p, str) else str(p.rank) for p in parts]
     unit = "complex" if run.bundles.kind(s.bundle) == "complex" else "real"
     total = run.bundles.rank(s.bundle)
@@ -551,7 +619,12 @@ def _extremize(run: Run, s: n.Extremize, step: Step) -> None:
         result = extremize(s.mode, as_expr(f), variables, list(run.specs.values()),
                            f"{run.path}:{s.line}", name=_target_name(s.target))
     except ExtremizeError as exc:
-        raise run.fail(s, str(exc)) from None
+        if exc.status != "failed":
+            raise run.fail(s, str(exc)) from None
+        step.checks.append(CheckResult("one admissible critical point", "failed", str(exc)))
+        for name in s.outputs:
+            run.bind(name, "value", Missing(name, s.line), s.line)
+        return
     for name, coordinate in zip(s.point, result.point):
         run.output(step, name, coordinate, s.line)
     run.output(step, s.value, result.value, s.line)
@@ -626,6 +699,11 @@ def _plot(run: Run, s: n.Plot, step: Step) -> None:
     step.plot = PlotData(variable=s.variable, low=fraction_text(low), high=fraction_text(high),
                          fixed={sym.name: sympy.sstr(v) for sym, v in fixed.items()}, curves=curves)
 
+
+#: Statements whose outcome is kept in the build cache; declarations always
+#: run, since they set up the ring the cached values live in.
+CACHED = frozenset({n.Let, n.Substitute, n.Reduce, n.Integrate, n.Coefficients,
+                    n.Extremize, n.Check, n.Show, n.Table, n.Plot})
 
 HANDLERS = {
     n.SymbolDecl: _symbol, n.ConventionDecl: _convention, n.BundleDecl: _bundle,

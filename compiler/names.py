@@ -81,6 +81,23 @@ def _names_in(obj):
             yield from _names_in(getattr(obj, f.name))
 
 
+def references(statement) -> list[str]:
+    """Every name a statement reads, in order: the inputs of its result."""
+    found = [name.id for name in _names_in(statement)]
+    if isinstance(statement, n.Integrate):
+        found.append(statement.fiber)
+    if isinstance(statement, n.Extremize):
+        found += [v.name for v in statement.variables]
+    if isinstance(statement, n.SplitDecl):
+        found += [statement.bundle] + [p.name for p in statement.parts if p.name]
+    if isinstance(statement, n.SphereFiber):
+        found.append(statement.bundle)
+    if isinstance(statement, n.Plot):
+        found.append(statement.variable)
+    found += [c.name for c in getattr(statement, "clauses", ())]
+    return list(dict.fromkeys(found))
+
+
 def _use_all(table: NameTable, obj) -> None:
     for name in _names_in(obj):
         table.use(name.id, name.line, name.column)

@@ -37,7 +37,7 @@ FLAGS = (
 
 def missing_browser() -> str | None:
     """Why the browser test cannot run here, or None when it can."""
-    absent = [str(p) for p in (CHROMIUM, CHROMEDRIVER) if not (p.exists() and shutil.which(str(p)))]
+    absent = [str(p) for p in (CHROMIUM, CHROMEDRIVER) if shutil.which(str(p)) is None]
     if absent:
         return f"headless browser not installed ({', '.join(absent)} missing; apt install chromium chromium-driver)"
     return None

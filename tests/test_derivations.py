@@ -202,11 +202,19 @@ def test_twisted_compactification(built):
     _, record, _ = built("twisted-compactification.md")
     # Gaiotto, Maldacena, "The gravity duals of N=2 superconformal field theories" (2009)
     for claim in (
+        "check eps1 == -1/3",
+        "check a1 == (g - 1)*(8*N^3 - 3*N - 5)/24",
+        "check c1 == (g - 1)*(2*N^3 - N - 1)/6",
+        "check n_v == (g - 1)*(4/3*N^3 - 1/3*N - 1)",
+        "check n_h == (g - 1)*4/3*(N^3 - N)",
+    ):
+        assert_proven(record, claim)
+    # the general-z root, which carries a square root, reduces to the N=2 values
+    for claim in (
         "check eps_star == -1/3 for z = 1",
-        "check a_star == (g - 1)*(8*N^3 - 3*N - 5)/24 for z = 1",
-        "check c_star == (g - 1)*(2*N^3 - N - 1)/6 for z = 1",
-        "check n_v == (g - 1)*(4/3*N^3 - 1/3*N - 1) for z = 1",
-        "check n_h == (g - 1)*4/3*(N^3 - N) for z = 1",
+        "check eps_star == 1/3 for z = -1",
+        "check a_star == a1 for z = 1",
+        "check a_star == a1 for z = -1",
     ):
         assert_settled(record, claim)
     # Benini, Tachikawa, Wecht, "Sicilian gauge theories and N=1 dualities" (2010);
@@ -215,14 +223,14 @@ def test_twisted_compactification(built):
     assert_proven(record, "check a0 == 3/32*(g - 1)*(3*N^3 - N - 2)")
     assert_proven(record, "check c0 == 1/32*(g - 1)*(9*N^3 - 5*N - 4)")
     # inequalities are decided exactly at each point, never sampled
-    assert_proven(record, "check a0 < a_star for z = 1, N = 2..6, g = 2..4")
+    assert_proven(record, "check a0 < a1 for N = 2..6, g = 2..4")
     # the anomaly polynomial holds nothing but the two 4d anomalies
     assert_proven(record, "check I6 == kRRR/6*c1(R)^3 - kR/24*c1(R)*p1(T4)")
     assert record["values"]["I6"]["degrees"] == [6]
-    for name in ("a_star", "c_star", "eps_star", "a0", "c0"):
+    for name in ("a_star", "eps_star", "a1", "c1", "a0", "c0"):
         assert record["values"][name]["degrees"] in ([0], [])
     kinds = [s["kind"] for s in record["steps"]]
-    assert kinds.count("table") == 2 and kinds.count("plot") == 1
+    assert kinds.count("table") == 2 and kinds.count("plot") == 2
 
 
 def test_general_fiber(built):

@@ -26,7 +26,16 @@ _TOL = sympy.Float("1e-30", 50)
 
 
 class ExtremizeError(ValueError):
-    """The extremum does not exist, is not unique, or cannot be decided."""
+    """The extremum does not exist, is not unique, or cannot be decided.
+
+    ``status`` follows the spec: a missing or ambiguous extremum is a
+    *failed* step (the claim "there is one" is false); a degenerate Hessian,
+    complex critical points or malformed input are *errors*.
+    """
+
+    def __init__(self, message: str, status: str = "error"):
+        super().__init__(message)
+        self.status = status
 
 
 @dataclass(frozen=True)
@@ -146,7 +155,7 @@ class _Problem:
         candidates = self.critical_points()
         if not candidates:
             raise ExtremizeError(f"{self.name} has no critical point in "
-                                 f"{self.var_names}, so no {_KIND[self.mode]}")
+                                 f"{self.var_names}, so no {_KIND[self.mode]}", "failed")
         found = "critical points " + "; ".join(_point_text(self.vars, c.coords)
                                                for c in candidates)
         decided = self.decide_symbolically(candidates)
@@ -193,7 +202,7 @@ class _Problem:
         if complex_count == len(candidates):
             raise ExtremizeError(self.complex_message(candidates, None))
         if len(admissible) != 1:
-            raise ExtremizeError(self.count_message(candidates, admissible, None))
+            raise ExtremizeError(self.count_message(candidates, admissible, None), "failed")
         chosen = candidates[admissible[0]]
         return admissible[0], self.test_text(chosen, sign_c, symbolic=True)
 
@@ -256,10 +265,10 @@ class _Problem:
                 if not admissible and complex_seen and not any(
                         all(_is_real(x) for x in coords) for coords, _ in numeric):
                     raise ExtremizeError(self.complex_message(candidates, point))
-                raise ExtremizeError(self.count_message(candidates, admissible, point))
+                raise ExtremizeError(self.count_message(candidates, admissible, point), "failed")
             picks.setdefault(admissible[0], point)
             if len(picks) > 1:
-                raise ExtremizeError(self.branch_message(candidates, picks))
+                raise ExtremizeError(self.branch_message(candidates, picks), "failed")
         if used == 0:
             raise ExtremizeError(f"no usable sample point of {_names(s.symbol for s in self.params)}: "
                                  f"{self.name} vanishes identically or its critical points are "

@@ -173,6 +173,29 @@ class Ring:
             return self.zero()
         return self._make({(): frac.numer}, frac.denom)
 
+    def from_data(self, data: dict) -> "Element":
+        """An element from ``Element.to_data`` output; ValueError/KeyError if
+        it does not fit this ring (the cache then recomputes)."""
+        position = {sym.name: i for i, sym in enumerate(self.symbols)}
+
+        def poly(items):
+            out = {}
+            for powers, coefficient in items:
+                exps = [0] * len(self.symbols)
+                for name, e in powers.items():
+                    exps[position[name]] = int(e)
+                num, _, den = str(coefficient).partition("/")
+                out[tuple(exps)] = QQ(int(num), int(den or 1))
+            return self._poly.from_dict(out) if out else self._pzero
+        terms = {}
+        for pairs, coefficient in data["terms"]:
+            m = tuple(sorted((self._by_key[key].index, int(e)) for key, e in pairs))
+            terms[m] = poly(coefficient)
+        den = poly(data["den"])
+        if not den:
+            raise ValueError("zero denominator")
+        return self._make(terms, den)
+
     def monomial(self, pairs: Iterable[tuple[str, int]]) -> "Element":
         """The monomial given by (generator key, exponent) pairs; it must be in normal form."""
         m = self._mono_from_pairs(pairs)
@@ -1051,3 +1074,19 @@ class Element:
 
     def __repr__(self) -> str:
         return f"Element({self.to_text()})"
+
+    # ------------------------------------------------------------ exact data
+    def to_data(self) -> dict:
+        """The exact value as plain JSON data (generator keys, symbol names,
+        rational strings), for the build cache: reading it back runs no code
+        and no arithmetic beyond building the dictionaries."""
+        a = self._fresh()
+        names = [sym.name for sym in a._ring.symbols]
+        gens = a._ring._gens
+
+        def poly(p):
+            return [[{names[i]: e for i, e in enumerate(exps) if e}, str(c)]
+                    for exps, c in sorted(p.items())]
+        return {"den": poly(a._d),
+                "terms": [[[[gens[i].key, e] for i, e in m], poly(c)] for m, c in a._sorted()]}
+

@@ -1,0 +1,128 @@
+"""The build cache: each step's outcome kept as plain JSON beside the document.
+
+A step's key is made of its statement, the keys of the values it reads, the
+conventions, the truncation degree and the tool version (the engine computes
+it).  An entry holds what the step showed and the exact data of the values
+it bound, written by our own serializers: reading it back runs no code (no
+pickle, no parsing of expressions) and does no algebra.  The cache is never
+needed for correctness; an unreadable file or entry is ignored and rebuilt.
+"""
+from __future__ import annotations
+
+import dataclasses
+import hashlib
+import json
+import os
+import tempfile
+from pathlib import Path
+
+import sympy
+
+from .results import CheckResult, PlotData, TableData, ValueRecord
+
+CACHE_DIR = ".anomark-cache"
+FORMAT = 1
+
+
+def digest(*parts) -> str:
+    """A stable key from JSON-ready parts."""
+    text = json.dumps(parts, sort_keys=True, separators=(",", ":"), default=str)
+    return hashlib.sha256(text.encode("utf-8")).hexdigest()[:32]
+
+
+class StepCache:
+    """Entries read from the last build; entries written by this one."""
+
+    def __init__(self, document: str, enabled: bool):
+        path = Path(document)
+        self.file = path.parent / CACHE_DIR / f"{path.name}.json"
+        self.enabled = enabled
+        self.old: dict = self._load() if enabled else {}
+        self.new: dict = {}
+
+    def _load(self) -> dict:
+        try:
+            data = json.loads(self.file.read_text(encoding="utf-8"))
+        except (OSError, ValueError):
+            return {}
+        if not isinstance(data, dict) or data.get("format") != FORMAT:
+            return {}
+        entries = data.get("entries")
+        return entries if isinstance(entries, dict) else {}
+
+    def get(self, key: str):
+        entry = self.old.get(key)
+        return entry if isinstance(entry, dict) else None
+
+    def put(self, key: str, entry: dict) -> None:
+        if self.enabled:
+            self.new[key] = entry
+
+    def save(self) -> None:
+        """Write the entries of this build whole, or leave the old file."""
+        if not self.enabled:
+            return
+        try:
+            self.file.parent.mkdir(exist_ok=True)
+            fd, tmp = tempfile.mkstemp(dir=self.file.parent, prefix=".tmp-")
+            with os.fdopen(fd, "w", encoding="utf-8") as handle:
+                json.dump({"format": FORMAT, "entries": self.new}, handle)
+            os.replace(tmp, self.file)
+        except OSError:
+            pass  # a read-only folder just means no cache
+
+
+# ---------------------------------------------------------------- step parts
+
+def step_entry(step, outputs: dict) -> dict:
+    """What a step showed, as JSON data; ``outputs`` are already data."""
+    return {
+        "checks": [dataclasses.asdict(c) for c in step.checks],
+        "values": [dataclasses.asdict(v) for v in step.values],
+        "summary": step.summary,
+        "remainder": dataclasses.asdict(step.remainder) if step.remainder else None,
+        "table": dataclasses.asdict(step.table) if step.table else None,
+        "plot": dataclasses.asdict(step.plot) if step.plot else None,
+        "outputs": outputs,
+    }
+
+
+def restore_step(step, entry: dict) -> None:
+    """Fill ``step`` from an entry (raises KeyError/TypeError if malformed)."""
+    step.checks = [CheckResult(**c) for c in entry["checks"]]
+    step.values = [ValueRecord(**v) for v in entry["values"]]
+    step.summary = entry["summary"]
+    step.remainder = ValueRecord(**entry["remainder"]) if entry["remainder"] else None
+    step.table = TableData(**entry["table"]) if entry["table"] else None
+    if entry["plot"]:
+        plot = dict(entry["plot"])
+        plot["curves"] = {k: [tuple(p) for p in v] for k, v in plot["curves"].items()}
+        step.plot = PlotData(**plot)
+    step.cached = True
+
+
+# ---------------------------------------------------------------- sympy values
+# Class-free values outside the rational functions (square roots from an
+# extremization) are stored as a tree of our own, built back node by node.
+
+def expr_to_data(expr: sympy.Expr):
+    if isinstance(expr, sympy.Rational):
+        return str(expr)
+    if isinstance(expr, sympy.Symbol):
+        return {"symbol": expr.name}
+    if isinstance(expr, (sympy.Add, sympy.Mul, sympy.Pow)):
+        return {type(expr).__name__.lower(): [expr_to_data(a) for a in expr.args]}
+    raise ValueError(f"cannot store {type(expr).__name__}")
+
+
+_BUILDERS = {"add": sympy.Add, "mul": sympy.Mul, "pow": sympy.Pow}
+
+
+def expr_from_data(data, symbols: dict) -> sympy.Expr:
+    if isinstance(data, str):
+        num, _, den = data.partition("/")
+        return sympy.Rational(int(num), int(den or 1))
+    (kind, args), = data.items()
+    if kind == "symbol":
+        return symbols[args]
+    return _BUILDERS[kind](*[expr_from_data(a, symbols) for a in args])
