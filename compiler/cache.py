@@ -24,6 +24,18 @@ CACHE_DIR = ".anomark-cache"
 FORMAT = 1
 
 
+def _fingerprint() -> str:
+    """The tool's own code, so a changed anomark never reuses old results
+    even when its version number has not moved."""
+    h = hashlib.sha256()
+    for path in sorted(Path(__file__).parent.rglob("*.py")):
+        h.update(path.read_bytes())
+    return h.hexdigest()[:16]
+
+
+CODE = _fingerprint()
+
+
 def digest(*parts) -> str:
     """A stable key from JSON-ready parts."""
     text = json.dumps(parts, sort_keys=True, separators=(",", ":"), default=str)

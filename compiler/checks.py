@@ -9,6 +9,7 @@ symbols' declared assumptions and bounds, or the check is an error.
 """
 from __future__ import annotations
 
+import itertools
 from dataclasses import dataclass
 
 import sympy
@@ -53,10 +54,10 @@ def show(value: Value) -> str:
     return value.to_text() if isinstance(value, Element) else sympy.sstr(value)
 
 
-def claim(lhs: Value, op: str, rhs: Value, points: list[dict], ctx: Context) -> CheckResult:
+def claim(lhs: Value, op: str, rhs: Value, points: list[dict], ctx: Context,
+          text: str = "claim") -> CheckResult:
     """Decide ``lhs OP rhs``, at each of ``points`` (or once, symbolically)."""
-    what = "claim holds" + (f" at {len(points)} point{'s' if len(points) != 1 else ''}"
-                            if len(points) > 1 else "")
+    what = text + (f" (at {len(points)} points)" if len(points) > 1 else "")
     results = []
     for point in points or [{}]:
         try:
@@ -166,10 +167,37 @@ def _order(op: str):
             return "proven", ""
         if verdict is False and not difference.free_symbols:
             return "failed", f"left = {show(left)}, right = {show(right)}"
+        counterexample = _counterexample(op, difference, ctx)
+        if counterexample:
+            return "failed", counterexample
         if verdict is False:
             return "failed", f"false for the declared range: {sympy.sstr(difference)} is not {op} 0"
         return "error", "could not be decided exactly from the declared assumptions; give a for range"
     return decide
+
+
+def _counterexample(op: str, difference: sympy.Expr, ctx: Context) -> str:
+    """An exact admissible point where the inequality is false, if one is
+    found among the sample points and the declared bounds.  Finding one
+    disproves the claim; not finding one proves nothing."""
+    specs = ctx.specs_for(difference.free_symbols)
+    if not specs or len(specs) != len(difference.free_symbols):
+        return ""
+    corners = {}
+    for spec in specs:
+        edges = [b for b in (spec.lower, spec.upper, 0) if b is not None]
+        admitted = [sympy.Rational(b.numerator, b.denominator) if not isinstance(b, int) else sympy.Integer(b)
+                    for b in edges if spec.admits(b)]
+        corners[spec.symbol] = admitted
+    candidates = [dict(zip(corners, combo)) for combo in itertools.product(*corners.values())]
+    for point in candidates + sample_points(specs, SAMPLES, ctx.seed):
+        try:
+            value = difference.subs(point)
+        except ZeroDivisionError:
+            continue
+        if value.is_number and _SIGN_TESTS[op](value) is False:
+            return f"at {describe_point(point)}: {sympy.sstr(value)} is not {op} 0"
+    return ""
 
 
 DECIDERS = {"==": _equal, "!=": _not_equal, **{op: _order(op) for op in _SIGN_TESTS}}

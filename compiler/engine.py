@@ -25,7 +25,7 @@ from .algebra import bundles as bundles_mod, fibers as fibers_mod
 from .algebra.extremize import ExtremizeError, extremize, tidy
 from .algebra.graded import AlgebraError, Element, Ring
 from .algebra.sampling import SymbolSpec
-from .cache import StepCache, digest, expr_from_data, expr_to_data, restore_step, step_entry
+from .cache import CODE, StepCache, digest, expr_from_data, expr_to_data, restore_step, step_entry
 from .checks import Context, claim, free_symbols, show, substitute
 from .document import Block, ProsePart, read_document
 from .errors import DocumentError, InternalError, Location, Problem
@@ -246,7 +246,7 @@ class Run(Scope):
         """The cache key: statement, inputs' keys, conventions, truncation, version."""
         seeded = s.line if isinstance(s, (n.Check, n.Extremize)) else None
         inputs = [(name, self.keys.get(name)) for name in names_pass.references(s)]
-        return digest(__version__, self.ring.truncate, sorted(self.report_conventions().items()),
+        return digest(__version__, CODE, self.ring.truncate, sorted(self.report_conventions().items()),
                       s.kind, s.source, seeded, inputs)
 
     def run_step(self, index: int, s) -> Step:
@@ -533,8 +533,9 @@ def _substitute(run: Run, s: n.Substitute, step: Step) -> None:
         degree = lhs.degrees()[0]
         got = rhs.degrees() if isinstance(rhs, Element) else [0]
         ok = not got or got == [degree]
+        replaced = f"degree {', '.join(map(str, got))}" if got else "0"
         step.checks.append(CheckResult(
-            f"{lhs.to_text()} (degree {degree}) replaced by degree {', '.join(map(str, got)) or '—'}",
+            f"{lhs.to_text()} (degree {degree}) replaced by {replaced}",
             "proven" if ok else "failed",
             "" if ok else f"the right side has degree {', '.join(map(str, got))}, not {degree}"))
         mapping[key] = rhs
@@ -593,10 +594,10 @@ def _coefficients(run: Run, s: n.Coefficients, step: Step) -> None:
         raise run.fail(s, f"{len(s.monomials)} monomials but {len(s.outputs)} names after ->")
     rest = target
     for node, name in zip(s.monomials, s.outputs):
-        monomial = _element(run, node, "coefficients")
-        terms = monomial.terms()
-        if len(terms) != 1 or terms[0][1] != 1 or not terms[0][0]:
-            raise run.fail(node, f"{monomial.to_text()} is not a monomial in normal form")
+        pairs = _written_monomial(run, node)
+        if not run.ring.is_normal_monomial(pairs):
+            raise run.fail(node, f"{run.ring.monomial_text(pairs)} is not a monomial of the normal form")
+        monomial = run.ring.monomial(pairs)
         coefficient = target.coefficient(monomial)
         rest = rest - coefficient * monomial
         run.output(step, name, coefficient, s.line)
@@ -607,11 +608,33 @@ def _coefficients(run: Run, s: n.Coefficients, step: Step) -> None:
         "proven"))
 
 
+def _written_monomial(run: Run, node) -> list:
+    """A monomial as the author wrote it, as (generator key, exponent) pairs.
+
+    Read from the syntax tree rather than from its value, because evaluating
+    would already rewrite a non-normal monomial (``e(T4)^2`` into ``p2(T4)``)
+    and hide the mistake."""
+    if isinstance(node, n.Binary) and node.op == "*":
+        return _written_monomial(run, node.left) + _written_monomial(run, node.right)
+    if isinstance(node, n.Binary) and node.op == "^":
+        k = run.evaluator.integer_arg(node.right)
+        if k < 1:
+            raise run.fail(node.right, "a monomial has positive exponents")
+        return [(key, e * k) for key, e in _written_monomial(run, node.left)]
+    value = _element(run, node, "coefficients")
+    terms = value.terms()
+    if len(terms) == 1 and terms[0][1] == 1 and len(terms[0][0]) == 1 and terms[0][0][0][1] == 1:
+        return [terms[0][0][0]]
+    raise run.fail(node, f"{value.to_text()} is not a single class: coefficients reads monomials "
+                         "in the classes of the normal form")
+
+
 def _extremize(run: Run, s: n.Extremize, step: Step) -> None:
     f = run.evaluate(s.target)
     if not is_class_free(f):
-        raise run.fail(s.target, f"{s.mode} needs a class-free expression; this one has classes "
-                                 f"of degree {', '.join(map(str, f.degrees()))}")
+        classes = ", ".join(sorted(f.generator_keys()))
+        raise run.fail(s.target, f"{s.mode} needs a class-free expression; this one still contains "
+                                 f"{classes} (degrees {', '.join(map(str, f.degrees()))})")
     variables = [(run.symbols_by_name[v.name].symbol,
                   None if v.interval is None else (v.interval.low, v.interval.high))
                  for v in s.variables]
@@ -628,9 +651,9 @@ def _extremize(run: Run, s: n.Extremize, step: Step) -> None:
     for name, coordinate in zip(s.point, result.point):
         run.output(step, name, coordinate, s.line)
     run.output(step, s.value, result.value, s.line)
-    step.summary = result.account
     status = "proven" if result.settled == "symbolic" else "sampled"
-    detail = result.account if status == "proven" else f"{result.account} (at {result.samples} sample points)"
+    account = result.account.replace("**", "^")
+    detail = account if status == "proven" else f"{account} (at {result.samples} sample points)"
     step.checks.append(CheckResult("one admissible critical point", status, detail))
 
 
@@ -641,7 +664,8 @@ def _target_name(node) -> str:
 def _check(run: Run, s: n.Check, step: Step) -> None:
     lhs = run.evaluate(s.lhs)
     rhs = run.evaluate(s.rhs)
-    step.checks.append(claim(lhs, s.op, rhs, run.points(s.clauses), run.context(s.line)))
+    text = s.source.split(None, 1)[1] if " " in s.source else s.source
+    step.checks.append(claim(lhs, s.op, rhs, run.points(s.clauses), run.context(s.line), text))
 
 
 def _show(run: Run, s: n.Show, step: Step) -> None:

@@ -8,7 +8,8 @@ import subprocess
 
 import pytest
 
-from compiler.render.tex import display_value, escape_tex, name_latex, plot_files, prose_tex, to_tex
+from compiler.render.tex import (display_value, escape_tex, name_latex, plot_files, prose_tex, to_tex,
+                                 value_lines)
 from compiler.results import Prose, Report, ValueRecord
 from report_fixture import make_report
 
@@ -89,17 +90,24 @@ def test_unnamed_value_shows_alone():
 
 
 def test_long_values_break_at_top_level_signs_only():
-    short = display_value("x", "a + b")
-    assert short == "\\begin{equation*}\nx = a + b\n\\end{equation*}\n"
+    short = display_value("x", r"\left(a + b\right)")
+    assert short == "\\begin{equation*}\nx = \\left(a + b\\right)\n\\end{equation*}\n"
     terms = [rf"\frac{{{k}}}{{48}} p_{{1}}(T_{{{k}}})^{{2}} c_{{1}}(L_{{{k}}})" for k in range(1, 7)]
-    inner = r"\left(a - b + c - d\right)"
-    latex = " + ".join(terms) + " - " + inner
+    latex = " + ".join(terms) + r" - \left(a - b + c - d\right)"
     shown = display_value("I", latex)
     _assert_balanced(shown)
     assert shown.startswith("\\begin{align*}\nI &= ") and "\\\\\n&\\quad + " in shown
-    assert inner in shown  # never split inside brackets
-    assert shown.replace("\\\\\n&\\quad", "").replace("&=", "=").split("\n")[1].split() == \
-        f"I = {latex}".split()  # nothing lost or reordered
+    # auto-sized brackets cannot span lines, so a broken value uses fixed ones
+    lines = value_lines(latex)
+    assert len(lines) > 1 and any(r"\Bigl(a - b + c - d\Bigr)" in line for line in lines)
+    assert " ".join(lines).split() == latex.replace(r"\left", r"\Bigl").replace(r"\right", r"\Bigr").split()
+
+
+def test_long_numerator_opened_into_a_bracket():
+    num = " + ".join(f"{k} N^{{{k}}} g z" for k in range(1, 15))
+    lines = value_lines(rf"-\frac{{{num}}}{{24}} c_{{1}}(R)")
+    assert lines[0].startswith(r"-\frac{1}{24} \Bigl(1 N^{1} g z") and lines[-1].endswith(r"\Bigr) c_{1}(R)")
+    assert " ".join(lines).count("+") == 13  # every term kept
 
 
 def test_tables_and_plots():

@@ -203,6 +203,10 @@ class Ring:
             raise AlgebraError(f"{self._mono_text(m)} is not a monomial of the normal form")
         return Element(self, {m: self._pone}, self._pone)
 
+    def monomial_text(self, pairs: Iterable[tuple[str, int]]) -> str:
+        """A monomial as written, in or out of normal form, for messages."""
+        return self._mono_text(self._mono_from_pairs(pairs))
+
     def is_normal_monomial(self, pairs: Iterable[tuple[str, int]]) -> bool:
         return self._is_normal(self._mono_from_pairs(pairs))
 

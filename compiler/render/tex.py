@@ -191,7 +191,7 @@ def prose_tex(markdown: str, refs: dict[str, ValueRecord], allow_html: bool = Fa
 
 # ------------------------------------------------------------- steps: values
 
-_BREAK_AT = 55  # visible characters per displayed line
+_BREAK_AT = 46  # visible characters per displayed line (fits a 345pt article text width)
 _INVISIBLE = re.compile(r"\\(?:left|right|mathrm|mathit|operatorname|frac|tfrac|dfrac)(?![A-Za-z])|[{}^_]")
 _COMMAND = re.compile(r"\\[A-Za-z]+")
 
@@ -202,6 +202,8 @@ def _width(latex: str) -> int:
 
 
 _DELIMITER = re.compile(r"\\(?:left|right)(?![A-Za-z])\s*(?:\\[A-Za-z]+|\\.|.)")
+_SIZED = re.compile(r"\\Big[lr](?![A-Za-z])\s*(?:\\[A-Za-z]+|\\.|.)")
+_FENCE = re.compile(r"\\(left|right)(?![A-Za-z])\s*(\\[A-Za-z]+|\\.|.)")
 _ENDS_IN_OPERATOR = re.compile(r"\\(?:cdot|times|pm|mp|otimes|oplus|wedge)\s*$")
 
 
@@ -213,6 +215,10 @@ def _top_level_terms(latex: str) -> list[str]:
     """
     terms, start, depth, i = [], 0, 0, 0
     while i < len(latex):
+        fixed = _SIZED.match(latex, i)
+        if fixed:  # a fixed-size bracket opens no group: the line may break inside it
+            i = fixed.end()
+            continue
         sized = _DELIMITER.match(latex, i)
         if sized:
             depth += 1 if sized.group(0).startswith("\\left") else -1
@@ -236,12 +242,48 @@ def _top_level_terms(latex: str) -> list[str]:
     return [t for t in terms if t]
 
 
+def _group_end(latex: str, i: int) -> int:
+    """The index just past the brace group opening at ``latex[i] == "{"``."""
+    depth = 0
+    while i < len(latex):
+        if latex[i] == "\\":
+            i += 2
+            continue
+        depth += {"{": 1, "}": -1}.get(latex[i], 0)
+        i += 1
+        if depth == 0:
+            return i
+    return i
+
+
+def _breakable(latex: str) -> str:
+    """The same value written so that a line may end inside it.
+
+    Auto-sized brackets cannot span lines, so they become fixed ``\\Bigl``/
+    ``\\Bigr`` ones, and a fraction whose numerator is itself too long,
+    ``\\frac{A}{B}``, is written ``\\frac{1}{B} \\Bigl(A\\Bigr)``.
+    """
+    latex = _FENCE.sub(lambda m: "" if m.group(2) == "." else f"\\Big{m.group(1)[0]}{m.group(2)}", latex)
+    out, i = [], 0
+    while (j := latex.find("\\frac{", i)) >= 0:
+        num_end = _group_end(latex, j + 5)
+        den_end = _group_end(latex, num_end) if latex[num_end:num_end + 1] == "{" else num_end
+        num, den = latex[j + 6:num_end - 1], latex[num_end:den_end]
+        depth = latex[:j].count("{") - latex[:j].count("}")
+        if depth == 0 and den and _width(num) > _BREAK_AT * 2 // 3:
+            out.append(latex[i:j] + f"\\frac{{1}}{den} \\Bigl({num}\\Bigr)")
+        else:
+            out.append(latex[i:den_end])
+        i = den_end
+    return "".join(out) + latex[i:]
+
+
 def value_lines(latex: str) -> list[str]:
     """The value cut into display lines at top-level signs; one line when short."""
     if _width(latex) <= _BREAK_AT:
         return [latex]
     lines, current = [], ""
-    for term in _top_level_terms(latex):
+    for term in _top_level_terms(_breakable(latex)):
         if current and _width(current) + _width(term) > _BREAK_AT:
             lines.append(current)
             current = ""
