@@ -20,7 +20,7 @@ from typing import Callable, Optional
 
 import sympy
 
-from . import __version__, names as names_pass
+from . import __version__, names as names_pass, notation
 from .algebra import bundles as bundles_mod, fibers as fibers_mod
 from .algebra.extremize import ExtremizeError, extremize, tidy
 from .algebra.graded import AlgebraError, Element, Ring
@@ -380,7 +380,7 @@ def record(name: str, value: Value) -> ValueRecord:
     """A value as the renderers see it."""
     if isinstance(value, Element):
         return ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
-    return ValueRecord(name, expr_text(value), sympy.latex(value), [] if value == 0 else [0])
+    return ValueRecord(name, expr_text(value), notation.latex(value), [] if value == 0 else [0])
 
 
 def degree_check(value: Value) -> CheckResult:
@@ -679,14 +679,14 @@ def _table(run: Run, s: n.Table, step: Step) -> None:
     values = [run.evaluate(node) for node in s.exprs]
     points = run.points(s.clauses)
     params = [c.name for c in s.clauses]
-    columns = [sympy.latex(run.symbols_by_name[p].symbol) for p in params]
-    columns += [sympy.latex(sympy.Symbol(node.id)) if isinstance(node, n.Name) else r"\cdots"
+    columns = [notation.name_latex(p) for p in params]
+    columns += [notation.name_latex(node.id) if isinstance(node, n.Name) else r"\cdots"
                 for node in s.exprs]
     rows, text_rows = [], []
     for point in points or [{}]:
         cells = [substitute(run.ring, v, point) for v in values]
         coords = [point[run.symbols_by_name[p].symbol] for p in params]
-        rows.append([sympy.latex(c) for c in coords] + [record("", c).latex for c in cells])
+        rows.append([notation.latex(c) for c in coords] + [record("", c).latex for c in cells])
         text_rows.append([sympy.sstr(c) for c in coords] + [show(c) for c in cells])
     step.table = TableData(columns=columns, rows=rows, text_rows=text_rows)
 

@@ -4,7 +4,8 @@ from __future__ import annotations
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from compiler.algebra.bundles import BundleTable, Trivial, name_latex
+from compiler.algebra.bundles import BundleTable, Trivial
+from compiler.notation import name_latex
 from compiler.algebra.graded import AlgebraError, Ring
 
 
@@ -26,7 +27,7 @@ def test_generators_follow_rank_conventions():
     assert t.get("L").keys == ("c1(L)",) and t.is_line("L") and t.rank("L") == 1
     assert t.ring.generator_info("p2(T6)").degree == 8
     assert t.ring.generator_info("e(T6)").degree == 6
-    assert t.ring.generator_info("p1(T6)").latex == "p_{1}(T6)"
+    assert t.ring.generator_info("p1(T6)").latex == "p_{1}(T_{6})"
     assert name_latex("T_W") == "T_{W}"
 
 

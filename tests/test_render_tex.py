@@ -78,9 +78,10 @@ def test_text_specials_escaped():
 def test_names_as_math():
     # written the way the values print their symbols (trailing digits and _parts as subscripts)
     assert name_latex("I8") == "I_{8}"
-    assert name_latex("a_star") == "a_{star}"
-    assert name_latex("kRRR") == "kRRR"
-    assert name_latex("I8_free") == "I_{8 free}"
+    assert name_latex("a_star") == "a_{*}"
+    assert name_latex("eps_star") == r"\epsilon_{*}"
+    assert name_latex("kRRR") == r"\mathrm{kRRR}"
+    assert name_latex("I8_free") == r"I_{8,\mathrm{free}}"
     assert name_latex("alpha_1") == r"\alpha_{1}"
     assert name_latex("") == ""
 

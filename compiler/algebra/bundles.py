@@ -17,6 +17,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Sequence, Union
 
+from ..notation import name_latex
 from .graded import AlgebraError, Element, Ring
 
 REAL, COMPLEX = "real", "complex"
@@ -46,15 +47,6 @@ class Bundle:
     @property
     def real_rank(self) -> int:
         return self.rank if self.kind == REAL else 2 * self.rank
-
-
-def name_latex(name: str) -> str:
-    """A bundle name in LaTeX: the first underscore starts a subscript."""
-    head, sep, tail = name.partition("_")
-    if not sep:
-        return name
-    tail = tail.replace("_", r"\_")
-    return f"{head}_{{{tail}}}"
 
 
 class BundleTable:

@@ -28,6 +28,8 @@ import sympy
 from sympy import QQ
 from sympy.polys.fields import FracField
 
+from .. import notation
+
 
 class AlgebraError(ValueError):
     """A user-level problem in the algebra (the engine adds the location)."""
@@ -694,7 +696,7 @@ def _scalar_latex(a, b, P, Q, symbols) -> str:
     def factor(n, prim):
         if _is_one(prim):
             return str(n)
-        body = sympy.latex(_prim_expr(prim, symbols))
+        body = notation.latex(_prim_expr(prim, symbols))
         if len(prim) > 1 and n != 1:
             body = rf"\left({body}\right)"
         return body if n == 1 else f"{n} {body}"

@@ -39,12 +39,17 @@ def _math_block_label(self, tokens, idx, options, env) -> str:
     return f'<div class="display">{math}<span class="eqno">({escape(t.info)})</span></div>\n'
 
 
+#: LaTeX length beyond which an @{NAME} value is set as display math.
+LONG_INLINE = 90
+
+
 def _value_ref(self, tokens, idx, options, env) -> str:
     t = tokens[idx]
     ref = env["refs"].get(t.meta["name"])
     if ref is None:
         return f'<span class="unknown-ref" title="no such value">{escape(t.content)}</span>'
-    return to_mathml(ref.latex)
+    # A long value cannot wrap inside a line of prose: set it on its own line.
+    return to_mathml(ref.latex, display=len(ref.latex) > LONG_INLINE)
 
 
 def _image(self, tokens, idx, options, env) -> str:

@@ -18,6 +18,7 @@ import jinja2
 
 from compiler.errors import InternalError
 from compiler.markdown import make_markdown
+from compiler.notation import name_latex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 
 TEMPLATES = Path(__file__).resolve().parents[2] / "templates"  # the repo's templates/
@@ -69,30 +70,6 @@ def code_lines(text: str, number: int | None = None) -> str:
         lines.append(indent + _escape_code(stripped) if line else r"\mbox{}")
     margin = f"\\noindent\\llap{{\\scriptsize\\rmfamily {number}\\quad}}" if number is not None else ""
     return "{\\small\\ttfamily\\frenchspacing\\raggedright\n" + margin + "\\\\\n".join(lines) + "\\par}\n"
-
-
-_TRAILING_DIGITS = re.compile(r"([A-Za-z]+)(\d+)")
-_GREEK_NAMES = frozenset(_GREEK_WORDS) | {"Gamma", "Delta", "Theta", "Lambda", "Xi", "Pi", "Sigma",
-                                          "Upsilon", "Phi", "Psi", "Omega", "epsilon", "phi"}
-
-
-def _greek(word: str) -> str:
-    return "\\" + word if word in _GREEK_NAMES else word
-
-
-def name_latex(name: str) -> str:
-    """An identifier as math, the way the values print their symbols:
-    trailing digits and ``_parts`` become a subscript, Greek names letters.
-
-    ``I8`` → ``I_{8}``, ``a_star`` → ``a_{star}``, ``I8_free`` → ``I_{8 free}``,
-    ``alpha_1`` → ``\\alpha_{1}``, ``kRRR`` stays ``kRRR``.
-    """
-    head, *subs = name.split("_")
-    m = _TRAILING_DIGITS.fullmatch(head)
-    if m:
-        head, subs = m.group(1), [m.group(2), *subs]
-    subs = [_greek(s) for s in subs if s]
-    return _greek(head) + (f"_{{{' '.join(subs)}}}" if subs else "")
 
 
 # ------------------------------------------------------- prose: token rules
