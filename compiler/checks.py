@@ -14,6 +14,7 @@ from dataclasses import dataclass
 
 import sympy
 
+from . import notation
 from .algebra.graded import Element
 from .algebra.extremize import tidy
 from .algebra.sampling import SymbolSpec, describe_point, evaluate, sample_points
@@ -51,7 +52,7 @@ def free_symbols(value: Value) -> set:
 
 
 def show(value: Value) -> str:
-    return value.to_text() if isinstance(value, Element) else sympy.sstr(value)
+    return value.to_text() if isinstance(value, Element) else notation.text(value)
 
 
 def claim(lhs: Value, op: str, rhs: Value, points: list[dict], ctx: Context,
@@ -114,8 +115,8 @@ def _sample_equal(left, right, difference, ctx: Context):
         value = evaluate(difference, point)
         if not value.is_number or abs(value) > _TOLERANCE * (1 + abs(evaluate(left, point))):
             where = f"at {describe_point(point)}: " if point else ""
-            return "failed", (f"{where}left = {sympy.sstr(evaluate(left, point).round(20))}, "
-                              f"right = {sympy.sstr(evaluate(right, point).round(20))}")
+            return "failed", (f"{where}left = {notation.text(evaluate(left, point).round(20))}, "
+                              f"right = {notation.text(evaluate(right, point).round(20))}")
     if not symbols:
         return "sampled", "equal to 50 digits"
     return "sampled", f"equal at {len(points)} random exact points (50 digits)"
@@ -171,7 +172,7 @@ def _order(op: str):
         if counterexample:
             return "failed", counterexample
         if verdict is False:
-            return "failed", f"false for the declared range: {sympy.sstr(difference)} is not {op} 0"
+            return "failed", f"false for the declared range: {notation.text(difference)} is not {op} 0"
         return "error", "could not be decided exactly from the declared assumptions; give a for range"
     return decide
 
@@ -196,7 +197,7 @@ def _counterexample(op: str, difference: sympy.Expr, ctx: Context) -> str:
         except ZeroDivisionError:
             continue
         if value.is_number and _SIGN_TESTS[op](value) is False:
-            return f"at {describe_point(point)}: {sympy.sstr(value)} is not {op} 0"
+            return f"at {describe_point(point)}: {notation.text(value)} is not {op} 0"
     return ""
 
 

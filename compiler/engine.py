@@ -373,7 +373,7 @@ def fraction_text(value: Fraction) -> str:
 
 
 def expr_text(expr: sympy.Expr) -> str:
-    return sympy.sstr(expr).replace("**", "^")
+    return notation.text(expr)
 
 
 def record(name: str, value: Value) -> ValueRecord:
@@ -687,7 +687,7 @@ def _table(run: Run, s: n.Table, step: Step) -> None:
         cells = [substitute(run.ring, v, point) for v in values]
         coords = [point[run.symbols_by_name[p].symbol] for p in params]
         rows.append([notation.latex(c) for c in coords] + [record("", c).latex for c in cells])
-        text_rows.append([sympy.sstr(c) for c in coords] + [show(c) for c in cells])
+        text_rows.append([notation.text(c) for c in coords] + [show(c) for c in cells])
     step.table = TableData(columns=columns, rows=rows, text_rows=text_rows)
 
 
@@ -721,7 +721,7 @@ def _plot(run: Run, s: n.Plot, step: Step) -> None:
                 samples.append((float(x), float(y)))
         curves[node.id if isinstance(node, n.Name) else f"curve {len(curves) + 1}"] = samples
     step.plot = PlotData(variable=s.variable, low=fraction_text(low), high=fraction_text(high),
-                         fixed={sym.name: sympy.sstr(v) for sym, v in fixed.items()}, curves=curves)
+                         fixed={sym.name: notation.text(v) for sym, v in fixed.items()}, curves=curves)
 
 
 #: Statements whose outcome is kept in the build cache; declarations always

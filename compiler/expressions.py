@@ -18,6 +18,7 @@ from typing import Callable, Union
 
 import sympy
 
+from . import notation
 from .algebra import genera
 from .algebra.genera import BundleValue
 from .algebra.graded import AlgebraError, Element, NotRational
@@ -305,7 +306,7 @@ def unify(ring, left: Value, right: Value):
     for a, b in ((left, right), (right, left)):
         if isinstance(a, Element) and not a.is_class_free():
             raise AlgebraError("classes cannot be combined with an irrational number "
-                               f"({sympy.sstr(b)})")
+                               f"({notation.text(b)})")
     return as_expr(left), as_expr(right)
 
 

@@ -46,3 +46,26 @@ def latex(expr: sympy.Expr) -> str:
     """sympy's LaTeX of a value, with our names for its symbols."""
     names = {s: name_latex(s.name) for s in getattr(expr, "free_symbols", ())}
     return sympy.latex(expr, symbol_names=names)
+
+
+class _TextPrinter(sympy.printing.str.StrPrinter):
+    """sympy's plain printer, adjusted to the document syntax: ``^`` for
+    powers, and half-integer powers as ``sqrt(...)`` since the syntax allows
+    only integer exponents."""
+
+    def _print_Pow(self, expr, rational=False):
+        base, exp = expr.args
+        if isinstance(exp, sympy.Rational) and exp.q == 2 and exp.p not in (1, -1):
+            root = f"sqrt({self._print(base)})"
+            power = f"{root}^{abs(exp.p)}"
+            return power if exp.p > 0 else f"1/{power}"
+        if exp == sympy.Rational(1, 2):
+            return f"sqrt({self._print(base)})"
+        if exp == sympy.Rational(-1, 2):
+            return f"1/sqrt({self._print(base)})"
+        return super()._print_Pow(expr, rational).replace("**", "^")
+
+
+def text(expr: sympy.Expr) -> str:
+    """A class-free value in the document's own expression syntax."""
+    return _TextPrinter({"order": None}).doprint(expr)
