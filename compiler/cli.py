@@ -50,6 +50,8 @@ def parser() -> argparse.ArgumentParser:
         p.add_argument("--allow-html", action="store_true", help="pass raw HTML in prose through")
         p.add_argument("--no-cache", action="store_true", help="recompute every step")
         p.add_argument("--quiet", action="store_true", help="no progress lines")
+        p.add_argument("--time-limit", type=float, default=120.0, metavar="SECONDS",
+                       help="longest a single step may run (default 120)")
         p.add_argument("--debug", action="store_true", help="show tracebacks of internal errors")
 
     b = sub.add_parser("build", help="compile a document into reports")
@@ -103,7 +105,8 @@ def options(args, path: str) -> BuildOptions:
         except ValueError as exc:
             raise DocumentError(Location(path, 1, 1), f"--set {name.strip()}: {exc}") from None
     return BuildOptions(overrides=overrides, allow_html=args.allow_html,
-                        use_cache=not args.no_cache, progress=progress_printer(args))
+                        use_cache=not args.no_cache, time_limit=args.time_limit,
+                        progress=progress_printer(args))
 
 
 def progress_printer(args):

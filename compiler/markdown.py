@@ -56,7 +56,7 @@ def make_markdown(allow_html: bool = False) -> MarkdownIt:
     """
     md = MarkdownIt("commonmark", {"html": allow_html})
     md.use(front_matter_plugin)
-    md.use(dollarmath_plugin)
+    md.use(dollarmath_plugin, double_inline=True)  # $$...$$ inside a paragraph
     md.use(value_ref_plugin)
     md.disable("front_matter")
     return md

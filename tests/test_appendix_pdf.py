@@ -154,7 +154,7 @@ def pdflatex(tex: Path) -> Path:
                              timeout=TEX_TIMEOUT)
         log = tex.with_suffix(".log").read_text(encoding="utf-8", errors="replace")
         if run.returncode != 0:
-            error = re.search(r"^!.*?(?=^\s*$)", log, re.S | re.M)
+            error = re.search(r"^!.*?(?=^\s*$|^Here is how much)", log, re.S | re.M)
             where = re.search(r"^l\.(\d+)", log, re.M)
             line = ""
             if where:

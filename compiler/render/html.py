@@ -29,6 +29,10 @@ def _math_inline(self, tokens, idx, options, env) -> str:
     return to_mathml(tokens[idx].content)
 
 
+def _math_inline_double(self, tokens, idx, options, env) -> str:
+    return to_mathml(tokens[idx].content.strip(), display=True)
+
+
 def _math_block(self, tokens, idx, options, env) -> str:
     return f'<div class="display">{to_mathml(tokens[idx].content.strip(), display=True)}</div>\n'
 
@@ -60,6 +64,7 @@ def _image(self, tokens, idx, options, env) -> str:
 
 PROSE_RULES = {
     "math_inline": _math_inline,
+    "math_inline_double": _math_inline_double,
     "math_block": _math_block,
     "math_block_label": _math_block_label,
     "value_ref": _value_ref,

@@ -156,6 +156,7 @@ RULES: dict[str, Rule] = {
     "image": lambda w, t: "[" + escape_tex(t.content or "image") + "]",
     "html_inline": lambda w, t: escape_tex(t.content),
     "math_inline": lambda w, t: f"${t.content}$",
+    "math_inline_double": lambda w, t: "\\[" + t.content.strip() + "\\]",
     "value_ref": _value_ref,
 }
 
