@@ -118,7 +118,12 @@ def _value_ref(w, t) -> str:
     name = t.meta["name"]
     if name not in w.refs:
         return r"\textbf{??}\," + escape_tex(t.content)
-    return f"${w.refs[name].latex}$"
+    latex = w.refs[name].latex
+    lines = value_lines(latex)
+    if len(lines) == 1:
+        return f"${latex}$"
+    # Too long for a line of prose: display it, broken at top-level signs.
+    return "\\begin{multline*}\n" + "\\\\\n".join(lines) + "\n\\end{multline*}\n"
 
 
 Rule = Callable[[_TexWriter, object], str]
