@@ -20,6 +20,7 @@ import sympy
 
 from . import notation
 from .algebra import genera
+from .algebra.extremize import tidy
 from .algebra.genera import BundleValue
 from .algebra.graded import AlgebraError, Element, NotRational
 from .errors import DocumentError, Location
@@ -41,6 +42,7 @@ class Scope:
 
     ring = None  # graded.Ring
     bundles = None  # bundles.BundleTable
+    specs: dict = {}  # sympy Symbol -> SymbolSpec
 
     def lookup(self, name: str, line: int, column: int):  # -> (kind, value)
         raise NotImplementedError
@@ -236,7 +238,7 @@ def _sqrt(ev, node):
     value = ev.evaluate(node.args[0])
     if not is_class_free(value):
         raise ev.fail(node, "sqrt() of a value with classes")
-    root = sympy.sqrt(as_expr(value))
+    root = tidy(sympy.sqrt(as_expr(value)), list(ev.scope.specs.values()))
     return from_expr(ev.scope.ring, root)
 
 
