@@ -18,7 +18,7 @@ from pathlib import Path
 
 import sympy
 
-from .results import CheckResult, PlotData, TableData, ValueRecord
+from .results import STATUSES, CheckResult, PlotData, TableData, ValueRecord
 
 CACHE_DIR = ".anomark-cache"
 FORMAT = 1
@@ -100,17 +100,68 @@ def step_entry(step, outputs: dict) -> dict:
 
 
 def restore_step(step, entry: dict) -> None:
-    """Fill ``step`` from an entry (raises KeyError/TypeError if malformed)."""
-    step.checks = [CheckResult(**c) for c in entry["checks"]]
-    step.values = [ValueRecord(**v) for v in entry["values"]]
-    step.summary = entry["summary"]
-    step.remainder = ValueRecord(**entry["remainder"]) if entry["remainder"] else None
-    step.table = TableData(**entry["table"]) if entry["table"] else None
-    if entry["plot"]:
-        plot = dict(entry["plot"])
-        plot["curves"] = {k: [tuple(p) for p in v] for k, v in plot["curves"].items()}
-        step.plot = PlotData(**plot)
+    """Fill ``step`` from an entry; ValueError if any part is not what this
+    version writes (a corrupt entry is then recomputed, never trusted)."""
+    step.checks = [_check(c) for c in _list(entry["checks"])]
+    step.values = [_record(v) for v in _list(entry["values"])]
+    step.summary = _str(entry["summary"])
+    step.remainder = _record(entry["remainder"]) if entry["remainder"] is not None else None
+    table = entry["table"]
+    if table is not None:
+        step.table = TableData(columns=_strings(table["columns"]),
+                               rows=[_strings(r) for r in _list(table["rows"])],
+                               text_rows=[_strings(r) for r in _list(table["text_rows"])])
+    plot = entry["plot"]
+    if plot is not None:
+        curves = {_str(k): [_point(p) for p in _list(v)] for k, v in _dict(plot["curves"]).items()}
+        step.plot = PlotData(variable=_str(plot["variable"]), low=_str(plot["low"]),
+                             high=_str(plot["high"]),
+                             fixed={_str(k): _str(v) for k, v in _dict(plot["fixed"]).items()},
+                             curves=curves)
     step.cached = True
+
+
+def _require(ok: bool, what: str):
+    if not ok:
+        raise ValueError(f"cache entry: bad {what}")
+
+
+def _str(x) -> str:
+    _require(isinstance(x, str), "text")
+    return x
+
+
+def _list(x) -> list:
+    _require(isinstance(x, list), "list")
+    return x
+
+
+def _dict(x) -> dict:
+    _require(isinstance(x, dict), "mapping")
+    return x
+
+
+def _strings(x) -> list[str]:
+    return [_str(item) for item in _list(x)]
+
+
+def _check(c) -> CheckResult:
+    _require(isinstance(c, dict) and set(c) == {"what", "status", "detail"}, "check")
+    _require(c["status"] in STATUSES, "status")
+    return CheckResult(_str(c["what"]), c["status"], _str(c["detail"]))
+
+
+def _record(v) -> ValueRecord:
+    _require(isinstance(v, dict) and set(v) == {"name", "text", "latex", "degrees"}, "value")
+    degrees = _list(v["degrees"])
+    _require(all(type(d) is int for d in degrees), "degrees")
+    return ValueRecord(_str(v["name"]), _str(v["text"]), _str(v["latex"]), degrees)
+
+
+def _point(p) -> tuple:
+    _require(isinstance(p, list) and len(p) == 2
+             and all(x is None or type(x) in (int, float) for x in p), "plot point")
+    return tuple(p)
 
 
 # ---------------------------------------------------------------- sympy values

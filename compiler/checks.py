@@ -10,6 +10,7 @@ symbols' declared assumptions and bounds, or the check is an error.
 from __future__ import annotations
 
 import itertools
+import math
 from dataclasses import dataclass
 
 import sympy
@@ -23,7 +24,9 @@ from .results import CheckResult, weakest
 
 #: How many points a sampled equality is tested at (the spec asks >= 20).
 SAMPLES = 24
-_TOLERANCE = sympy.Rational(1, 10**40)
+#: Sampled equalities agree to this many significant digits.
+DIGITS = 50
+_TOLERANCE = sympy.Rational(1, 10**DIGITS)
 
 
 @dataclass
@@ -90,7 +93,15 @@ def _equal(left: Value, right: Value, ctx: Context):
     difference = tidy(left - right, list(ctx.specs.values()))
     if difference == 0:
         return "proven", ""
+    if not difference.free_symbols and difference.is_zero is False:
+        return "failed", f"left = {_approx(left)}, right = {_approx(right)}"
     return _sample_equal(left, right, difference, ctx)
+
+
+def _approx(value: sympy.Expr, point=None) -> str:
+    """A number for a failure message: exact when rational, else 20 digits."""
+    value = value.subs(point) if point else value
+    return notation.text(value if value.is_Rational else evaluate(value, {}).round(20))
 
 
 def _witness(left: Element, right: Element, difference: Element, ctx: Context) -> str:
@@ -112,23 +123,35 @@ def _sample_equal(left, right, difference, ctx: Context):
     symbols = difference.free_symbols
     points = sample_points(ctx.specs_for(symbols), SAMPLES, ctx.seed) if symbols else [{}]
     for point in points:
-        value = evaluate(difference, point)
-        if not value.is_number or abs(value) > _TOLERANCE * (1 + abs(evaluate(left, point))):
+        value = evaluate(difference, point, digits=DIGITS + 10)
+        scale = 1 + abs(evaluate(left, point, digits=DIGITS + 10))
+        if not value.is_number or abs(value) > _TOLERANCE * scale:
             where = f"at {describe_point(point)}: " if point else ""
-            return "failed", (f"{where}left = {notation.text(evaluate(left, point).round(20))}, "
-                              f"right = {notation.text(evaluate(right, point).round(20))}")
+            return "failed", f"{where}left = {_approx(left, point)}, right = {_approx(right, point)}"
     if not symbols:
-        return "sampled", "equal to 50 digits"
-    return "sampled", f"equal at {len(points)} random exact points (50 digits)"
+        return "sampled", f"equal to {DIGITS} digits"
+    return "sampled", f"equal at {len(points)} random exact points ({DIGITS} digits)"
 
 
 def _not_equal(left, right, ctx):
-    status, detail = _equal(left, right, ctx)
-    if status == "failed":
-        return "proven", ""
-    if status == "proven":
+    """Classes: not the same element.  Class-free values: different at every
+    admissible value of the symbols (like the other inequalities)."""
+    if not (is_class_free(left) and is_class_free(right)):
+        if isinstance(left, Element) and isinstance(right, Element) and not (left - right).is_zero:
+            return "proven", ""
         return "failed", f"both sides equal {show(left)}"
-    return "error", "could not be decided exactly; give a for range"
+    difference = tidy(as_expr(left) - as_expr(right), list(ctx.specs.values()))
+    if difference == 0:
+        return "failed", f"both sides equal {show(left)}"
+    verdict = difference.is_nonzero
+    if verdict is None and difference.free_symbols:
+        verdict = _shifted(difference, ctx).is_nonzero
+    if verdict:
+        return "proven", ""
+    counterexample = _counterexample(lambda d: d != 0, "!=", difference, ctx)
+    if counterexample:
+        return "failed", counterexample
+    return "error", "could not be decided exactly from the declared assumptions; give a for range"
 
 
 # ---------------------------------------------------------------- inequalities
@@ -147,12 +170,19 @@ def _shifted(difference: sympy.Expr, ctx: Context) -> sympy.Expr:
         spec = ctx.specs.get(symbol)
         if spec is None:
             continue
+        bound, strict, sign = ((spec.lower, spec.lower_strict, 1) if spec.lower is not None
+                               else (spec.upper, spec.upper_strict, -1))
+        if bound is None:
+            continue
+        if spec.integer:  # n > 0 for an integer is n >= 1, n >= 1/2 is n >= 1
+            if sign > 0:
+                bound = math.floor(bound) + 1 if strict else math.ceil(bound)
+            else:
+                bound = math.ceil(bound) - 1 if strict else math.floor(bound)
+            strict = False
         shift = sympy.Symbol(f"_{symbol.name}_shift", integer=spec.integer or None,
-                             nonnegative=True)
-        if spec.lower is not None:
-            replacements[symbol] = sympy.Rational(spec.lower.numerator, spec.lower.denominator) + shift
-        elif spec.upper is not None:
-            replacements[symbol] = sympy.Rational(spec.upper.numerator, spec.upper.denominator) - shift
+                             nonnegative=not strict or None, positive=strict or None)
+        replacements[symbol] = sympy.Rational(bound) + sign * shift
     return sympy.factor(sympy.expand(difference.subs(replacements)))
 
 
@@ -168,7 +198,7 @@ def _order(op: str):
             return "proven", ""
         if verdict is False and not difference.free_symbols:
             return "failed", f"left = {show(left)}, right = {show(right)}"
-        counterexample = _counterexample(op, difference, ctx)
+        counterexample = _counterexample(_SIGN_TESTS[op], op, difference, ctx)
         if counterexample:
             return "failed", counterexample
         if verdict is False:
@@ -177,7 +207,7 @@ def _order(op: str):
     return decide
 
 
-def _counterexample(op: str, difference: sympy.Expr, ctx: Context) -> str:
+def _counterexample(holds, op: str, difference: sympy.Expr, ctx: Context) -> str:
     """An exact admissible point where the inequality is false, if one is
     found among the sample points and the declared bounds.  Finding one
     disproves the claim; not finding one proves nothing."""
@@ -196,7 +226,7 @@ def _counterexample(op: str, difference: sympy.Expr, ctx: Context) -> str:
             value = difference.subs(point)
         except ZeroDivisionError:
             continue
-        if value.is_number and _SIGN_TESTS[op](value) is False:
+        if value.is_number and holds(value) is False:
             return f"at {describe_point(point)}: {notation.text(value)} is not {op} 0"
     return ""
 

@@ -16,6 +16,7 @@ import time
 from contextlib import contextmanager
 from dataclasses import dataclass, field
 from fractions import Fraction
+from pathlib import Path
 from typing import Callable, Optional
 
 import sympy
@@ -29,7 +30,7 @@ from .cache import CODE, StepCache, digest, expr_from_data, expr_to_data, restor
 from .checks import Context, claim, free_symbols, show, substitute
 from .document import Block, ProsePart, read_document
 from .errors import DocumentError, InternalError, Location, Problem
-from .expressions import (Evaluator, Missing, Scope, Value, as_expr, from_expr,
+from .expressions import (Evaluator, Missing, MissingValue, Scope, Value, as_expr, from_expr,
                           is_class_free, rational_value)
 from .results import CheckResult, PlotData, Prose, Report, Step, TableData, ValueRecord
 from .statements import nodes as n
@@ -129,6 +130,7 @@ class Run(Scope):
         self.ring = Ring(declared, document.front.truncate)
         self.bundles = bundles_mod.BundleTable(self.ring)
         self.fibers: dict[str, object] = {}
+        self.groups = 0
         self.bindings: dict[str, Binding] = {}
         self.history: dict[str, list[tuple[int, ValueRecord]]] = {}
         self.class_uses: dict[str, int] = {}
@@ -138,9 +140,8 @@ class Run(Scope):
         self.cache = StepCache(path, options.use_cache)
         self.keys: dict[str, str] = {}
         self.step_key = digest("conventions", sorted(self.report_conventions().items()))
-        for name, value in self.conventions.items():
-            if name not in self._statement_conventions:
-                self.bind(name, "convention", self.ring.scalar(value), 0)
+        for name, value in self.conventions.items():  # final values, in force from the start
+            self.bind(name, "convention", self.ring.scalar(value), 0)
 
     # ------------------------------------------------------------ conventions
 
@@ -171,15 +172,17 @@ class Run(Scope):
         if binding is None:
             raise DocumentError(Location(self.path, line, column), f"unknown name '{name}'")
         if isinstance(binding.value, Missing):
-            missing = binding.value
-            raise DocumentError(Location(self.path, line, column),
-                                f"'{name}' has no value: the step at line {missing.line} did not produce it")
+            raise MissingValue(Location(self.path, line, column), name, binding.value.line)
         if binding.kind == "symbol":
             return "symbol", self.ring.symbol(binding.value.symbol)
         return binding.kind, binding.value
 
     def note_class_use(self, bundle: str, line: int) -> None:
+        """A value at ``line`` uses the classes of ``bundle`` and of its parts."""
         self.class_uses.setdefault(bundle, line)
+        for part in self.bundles.parts(bundle) or ():
+            if isinstance(part, str):
+                self.note_class_use(part, line)
 
     def bind(self, name: str, kind: str, value, line: int, shown: ValueRecord | None = None) -> None:
         self.bindings[name] = Binding(kind, value, line)
@@ -255,7 +258,7 @@ class Run(Scope):
         start = time.perf_counter()
         cacheable = type(s) in CACHED
         entry = self.cache.get(self.step_key) if cacheable else None
-        if entry is not None and self.restore(step, entry):
+        if entry is not None and self.restore(step, s, entry):
             self.cache.put(self.step_key, entry)
             step.seconds = time.perf_counter() - start
             self.note_failures(step, s)
@@ -265,7 +268,7 @@ class Run(Scope):
             with time_limit(self.options.time_limit):
                 HANDLERS[type(s)](self, s, step)
         except DocumentError as err:
-            self._step_error(step, s, err.problems[0])
+            self._step_error(step, s, err.problems[0], getattr(err, "name", None))
         except StepTimeout:
             self._step_error(step, s, Problem(Location(self.path, s.line, s.column),
                                               f"time limit of {self.options.time_limit:g} s exceeded"))
@@ -280,23 +283,36 @@ class Run(Scope):
         self.note_failures(step, s)
         return step
 
-    def restore(self, step: Step, entry: dict) -> bool:
-        """Fill a step and bind its outputs from a cache entry; False if unusable."""
+    def restore(self, step: Step, s, entry: dict) -> bool:
+        """Fill a step and bind its outputs from a cache entry; False if the
+        entry is unusable in any way (it is then recomputed)."""
         try:
             restore_step(step, entry)
-            shown = {v.name: v for v in step.values}
+            outputs = _dict_of(entry["outputs"])
+            if set(outputs) != set(step.outputs):
+                return False
             symbols = {spec.symbol.name: spec.symbol for spec in self.specs.values()}
-            for name, data in entry["outputs"].items():
-                if "missing" in data:
-                    value = Missing(name, step.line)
-                elif "element" in data:
-                    value = self.ring.from_data(data["element"])
-                else:
-                    value = expr_from_data(data["expr"], symbols)
-                self.bind(name, "value", value, step.line, shown.get(name))
-            return True
-        except (KeyError, TypeError, ValueError, AttributeError, AlgebraError):
+            values = {name: self._cached_value(name, step.line, data, symbols)
+                      for name, data in outputs.items()}
+        except Exception:  # a corrupt entry can be anything: never trust, recompute
             return False
+        for name in names_pass.references(s):
+            if name in self.bindings and self.bindings[name].kind == "bundle":
+                self.note_class_use(name, s.line)
+        shown = {v.name: v for v in step.values}
+        for name, value in values.items():
+            self.bind(name, "value", value, step.line, shown.get(name))
+        return True
+
+    def _cached_value(self, name: str, line: int, data, symbols):
+        (kind, payload), = _dict_of(data).items()
+        if kind == "missing":
+            return Missing(name, line)
+        if kind == "element":
+            return self.ring.from_data(payload)
+        if kind == "expr":
+            return expr_from_data(payload, symbols)
+        raise ValueError(f"unknown cached value kind {kind!r}")
 
     def store(self, step: Step) -> None:
         outputs = {}
@@ -320,16 +336,18 @@ class Run(Scope):
                                                 f"check failed: {check.what}"
                                                 + (f": {check.detail}" if check.detail else "")))
 
-    def _step_error(self, step: Step, s, problem: Problem) -> None:
+    def _step_error(self, step: Step, s, problem: Problem, missing: str | None = None) -> None:
+        """An error step: report it (a missing input only once) and mark
+        everything the statement would have bound as missing."""
         step.checks.append(CheckResult("step runs", "error", problem.message))
-        missing_name = problem.message.split("'")[1] if "has no value" in problem.message else None
-        if missing_name is None or missing_name not in self.reported_missing:
+        if missing not in self.reported_missing:
             self.diagnostics.append(problem)
-            if missing_name:
-                self.reported_missing.add(missing_name)
-        for name in step.outputs:
-            if name not in self.bindings or self.bindings[name].kind == "value":
-                self.bind(name, "value", Missing(name, s.line), s.line)
+            if missing:
+                self.reported_missing.add(missing)
+        for name in names_pass.bound_names(s):
+            binding = self.bindings.get(name)
+            kind = binding.kind if binding is not None else "value"
+            self.bind(name, kind, Missing(name, s.line), s.line)
 
     def output(self, step: Step, name: str, value: Value, line: int) -> None:
         """Bind an output and show it in the step."""
@@ -338,8 +356,14 @@ class Run(Scope):
         self.bind(name, "value", value, line)
         step.values.append(self.history[name][-1][1])
 
+    def seed(self, line: int) -> str:
+        """Sample points are seeded by the document's file name and the line,
+        so however the path is typed (or wherever the folder moves) a build
+        sees the same points, and the cache beside it stays valid."""
+        return f"{Path(self.path).name}:{line}"
+
     def context(self, line: int) -> Context:
-        return Context(self.ring, self.specs, f"{self.path}:{line}")
+        return Context(self.ring, self.specs, self.seed(line))
 
     def points(self, clauses) -> list[dict]:
         """Every combination of a ``for`` list, checked against assumptions."""
@@ -364,6 +388,12 @@ class Run(Scope):
                                         f"{c.name} = {fraction_text(v)} breaks its declaration ({spec.describe()})")
             axes.append([(spec.symbol, sympy.Rational(v.numerator, v.denominator)) for v in values])
         return [dict(combo) for combo in itertools.product(*axes)] if axes else []
+
+
+def _dict_of(x) -> dict:
+    if not isinstance(x, dict):
+        raise ValueError("cache entry: a mapping was expected")
+    return x
 
 
 # ---------------------------------------------------------------- printing
@@ -436,8 +466,10 @@ def _split(run: Run, s: n.SplitDecl, step: Step) -> None:
 
 
 def _new_group(run: Run) -> int:
-    """Each fiber owns the next block of the monomial order."""
-    return len(run.fibers) + 1
+    """Each fiber owns the next block of the monomial order (a failed
+    declaration keeps its number, so no two fibers ever share one)."""
+    run.groups += 1
+    return run.groups
 
 
 def _declare_fiber(run: Run, s, fiber, step: Step) -> None:
@@ -582,7 +614,8 @@ def _reduce(run: Run, s: n.Reduce, step: Step) -> None:
 
 def _integrate(run: Run, s: n.Integrate, step: Step) -> None:
     target = _element(run, s.target, "integrate")
-    result, checks = fibers_mod.integrate(target, run.fibers[s.fiber])
+    _, fiber = run.lookup(s.fiber, s.fiber_line, s.fiber_column)
+    result, checks = fibers_mod.integrate(target, fiber)
     for c in checks:
         step.checks.append(CheckResult(c.what, "proven" if c.ok else "failed", c.detail))
     run.output(step, s.outputs[0], result, s.line)
@@ -642,7 +675,7 @@ def _extremize(run: Run, s: n.Extremize, step: Step) -> None:
         expr = as_expr(f)
         involved = [spec for spec in run.specs.values() if spec.symbol in expr.free_symbols]
         result = extremize(s.mode, expr, variables, involved,
-                           f"{run.path}:{s.line}", name=_target_name(s.target))
+                           run.seed(s.line), name=_target_name(s.target))
     except ExtremizeError as exc:
         if exc.status != "failed":
             raise run.fail(s, str(exc)) from None

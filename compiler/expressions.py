@@ -37,6 +37,14 @@ class Missing:
         self.line = line
 
 
+class MissingValue(DocumentError):
+    """A use of a name whose defining step failed."""
+
+    def __init__(self, location: Location, name: str, line: int):
+        super().__init__(location, f"'{name}' has no value: the step at line {line} did not produce it")
+        self.name = name
+
+
 class Scope:
     """What the evaluator needs from the engine: names and the algebra."""
 

@@ -98,6 +98,21 @@ def references(statement) -> list[str]:
     return list(dict.fromkeys(found))
 
 
+def bound_names(statement) -> list[str]:
+    """Every name a statement binds (so a failed one can mark them missing)."""
+    if isinstance(statement, (n.SymbolDecl, n.BundleDecl)):
+        return list(statement.names)
+    if isinstance(statement, (n.ConventionDecl, n.Let)):
+        return [statement.name]
+    if isinstance(statement, n.SurfaceFiber):
+        return [statement.name, statement.tangent]
+    if isinstance(statement, n.SphereFiber):
+        return [statement.name, statement.angular]
+    if isinstance(statement, n.GeneralFiber):
+        return [statement.name] + [c.name for c in statement.classes]
+    return list(getattr(statement, "outputs", ()))
+
+
 def _use_all(table: NameTable, obj) -> None:
     for name in _names_in(obj):
         table.use(name.id, name.line, name.column)

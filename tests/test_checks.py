@@ -96,16 +96,12 @@ def test_sampled_equality_that_is_false_fails(tmp_path):
     assert check.status == "failed" and "z = " in check.detail
 
 
-@pytest.mark.xfail(strict=True, reason="BUG: a difference that simplifies to an exact nonzero "
-                   "constant is reported 'sampled' ('equal to 50 digits') instead of failed")
 def test_an_exact_nonzero_difference_is_failed_not_sampled(tmp_path):
     # spec: Checks table: sampled means "not settled symbolically"; a difference of exactly
     # -1/10^45 is settled, and nonzero
     assert one(tmp_path, "sqrt(2) == sqrt(2) + 1/10^45").status == "failed"
 
 
-@pytest.mark.xfail(strict=True, reason="BUG: sampled comparisons use a 1e-40 tolerance, so a "
-                   "difference of z/10^45 (visible at 50 digits) passes as 'sampled'")
 def test_a_difference_visible_at_50_digits_fails(tmp_path):
     # spec: Checks table: sampled means equal at "50-digit points"; z/10^45 with z ~ 1 differs
     # in the 45th digit

@@ -68,9 +68,6 @@ def test_split_after_use_is_an_error_naming_both_lines(tmp_path):
     assert "line 4" in step.checks[-1].detail and "line 5" in step.checks[-1].detail
 
 
-@pytest.mark.xfail(strict=True, reason="BUG: splitting a bundle already used through another "
-                   "split ('T4 cannot be split: its classes are already in use') does not name the "
-                   "line of the first use")
 def test_split_after_indirect_use_names_both_lines(tmp_path):
     # spec: Precise rules → Classes: "(otherwise an error naming both lines)"
     report = compile_doc(tmp_path, "bundle W: real, rank 6", "bundle T4: real, rank 4",
@@ -265,8 +262,6 @@ def test_general_fiber_missing_integral_is_an_error(tmp_path):
     assert step_at(report, 2).status == "error" and "y^2" in step_at(report, 2).checks[-1].detail
 
 
-@pytest.mark.xfail(strict=True, reason="BUG: integrate over a fiber whose declaration failed "
-                   "crashes with KeyError (run.fibers[s.fiber]) instead of an error step")
 def test_integrate_over_a_failed_fiber_is_an_error_step(tmp_path):
     # spec: Precise rules → Checks: "A step that could not run (... a value that does not exist
     # because an earlier step failed) is error"
@@ -274,9 +269,6 @@ def test_integrate_over_a_failed_fiber_is_an_error_step(tmp_path):
     assert [s.status for s in report.steps] == ["error", "error"]
 
 
-@pytest.mark.xfail(strict=True, reason="BUG: a failed general fiber leaves its classes in the next "
-                   "fiber's group (_new_group counts only successful fibers), so a correct later "
-                   "fiber H errors with 'needs the integral of x, y'")
 def test_a_failed_fiber_does_not_break_the_next_one(tmp_path):
     # spec: Precise rules → Lexing and grammar: "After a failing statement the compiler goes on with
     # the next one"
@@ -373,6 +365,17 @@ def test_unknown_set_name_is_a_document_error(tmp_path):
     with pytest.raises(DocumentError) as info:
         compile_doc(tmp_path, *CONV, overrides={"nope": Fraction(1)})
     assert "nope" in info.value.message
+
+
+@pytest.mark.parametrize("front, name, expected", [("", "angular_integral", "4"),
+                                                   (CONV_FRONT, "kappa", "3")])
+def test_a_declared_convention_is_usable_before_its_statement(tmp_path, front, name, expected):
+    # spec: Precise rules → Names and order: "angular_integral is a built-in convention"; a
+    # "conventions: entry in the front matter declares a convention"; values "substituted eagerly"
+    report = compile_doc(tmp_path, f"let k = {name}", f"convention {name} = 4", f"let k2 = {name}",
+                         front=front)
+    assert report.passed
+    assert report.values["k"].text == report.values["k2"].text == expected
 
 
 # ---------------------------------------------------------------- time limit
