@@ -482,6 +482,8 @@ def _declare_fiber(run: Run, s, fiber, step: Step) -> None:
 
 def _surface(run: Run, s: n.SurfaceFiber, step: Step) -> None:
     genus = as_expr(run.evaluate(s.genus))
+    if genus.is_integer is not True:
+        raise run.fail(s.genus, f"the genus must be an integer or a symbol declared integer, not {expr_text(genus)}")
     group = _new_group(run)
     run.bundles.declare(s.tangent, "real", 2, group=group)
     run.bind(s.tangent, "bundle", s.tangent, s.line)
@@ -642,11 +644,14 @@ def _coefficients(run: Run, s: n.Coefficients, step: Step) -> None:
 
 
 def _written_monomial(run: Run, node) -> list:
-    """A monomial as the author wrote it, as (generator key, exponent) pairs.
+    """A monomial as the author wrote it, as (generator key, exponent) pairs
+    (``1`` is the empty monomial: the class-free part).
 
     Read from the syntax tree rather than from its value, because evaluating
     would already rewrite a non-normal monomial (``e(T4)^2`` into ``p2(T4)``)
     and hide the mistake."""
+    if isinstance(node, n.Num) and node.value == 1:
+        return []
     if isinstance(node, n.Binary) and node.op == "*":
         return _written_monomial(run, node.left) + _written_monomial(run, node.right)
     if isinstance(node, n.Binary) and node.op == "^":

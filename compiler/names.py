@@ -240,8 +240,11 @@ def resolve(path: str, statements, front_conventions, prose_refs) -> dict[str, D
     for s in statements:
         RULES[type(s)](table, s)
     for name, line, column in prose_refs:
-        if name not in table.names:
+        found = table.names.get(name)
+        if found is None:
             table.problem(line, column, f"@{{{name}}}: unknown name '{name}'{table.suggest(name)}")
+        elif found.kind in ("bundle", "fiber"):
+            table.problem(line, column, f"@{{{name}}}: '{name}' is a {found.kind}, which has no value to show")
     if table.problems:
         raise DocumentError.of(sorted(table.problems, key=lambda p: (p.location.line, p.location.column)))
     return table.names
