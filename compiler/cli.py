@@ -35,8 +35,7 @@ def rational(text: str) -> Fraction:
     text = text.strip()
     if not _RATIONAL.fullmatch(text):
         raise ValueError(f"'{text}' is not an exact rational (write 1/2, not 0.5)")
-    value = Fraction(text)
-    return value
+    return Fraction(text)
 
 
 def parser() -> argparse.ArgumentParser:

@@ -29,7 +29,7 @@ from .algebra.sampling import SymbolSpec
 from .cache import CODE, StepCache, digest, expr_from_data, expr_to_data, restore_step, step_entry
 from .checks import Context, claim, free_symbols, show, substitute
 from .document import Block, ProsePart, read_document
-from .errors import DocumentError, InternalError, Location, Problem
+from .errors import DocumentError, Location, Problem
 from .expressions import (Evaluator, Missing, MissingValue, Scope, Value, as_expr, from_expr,
                           is_class_free, rational_value)
 from .results import CheckResult, PlotData, Prose, Report, Step, TableData, ValueRecord

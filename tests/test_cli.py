@@ -88,7 +88,7 @@ def test_set_overrides_a_declared_convention(tmp_path):
     doc = write(tmp_path, "doc.md", "```derive\nconvention kappa = 2\ncheck kappa == 3\n```\n")
     assert anomark("check", str(doc), "--no-cache").returncode == 1
     assert anomark("check", str(doc), "--no-cache", "--set", "kappa=3").returncode == 0
-    proc = anomark("build", str(doc), "--no-cache", "--set", "kappa=3/1", "--format", "json")
+    assert anomark("build", str(doc), "--no-cache", "--set", "kappa=3/1", "--format", "json").returncode == 0
     assert json.loads((tmp_path / "doc.json").read_text())["conventions"]["kappa"] == "3"
 
 

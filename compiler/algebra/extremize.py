@@ -331,7 +331,7 @@ class _Problem:
                          f"{describe_point(point)} ({values})")
         return (f"different sample points pick different roots for the {_KIND[self.mode]} "
                 f"of {self.name}: " + "; ".join(parts) + "; restrict the parameters in "
-                f"their `symbol` declarations or " + self.range_hint())
+                "their `symbol` declarations or " + self.range_hint())
 
     def domain_text(self) -> str:
         parts = []
