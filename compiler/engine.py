@@ -139,7 +139,11 @@ class Run(Scope):
         self.evaluator = Evaluator(self, path)
         self.cache = StepCache(path, options.use_cache)
         self.keys: dict[str, str] = {}
-        self.step_key = digest("conventions", sorted(self.report_conventions().items()))
+        # The declarations so far (symbols, bundles, splits, fibers), the
+        # conventions and the truncation: the ring every value lives in.
+        self.ring_key = digest("ring", self.ring.truncate, sorted(self.report_conventions().items()),
+                               [d.source for d in statements if isinstance(d, n.SymbolDecl)])
+        self.step_key = self.ring_key
         for name, value in self.conventions.items():  # final values, in force from the start
             self.bind(name, "convention", self.ring.scalar(value), 0)
 
@@ -186,11 +190,24 @@ class Run(Scope):
 
     def bind(self, name: str, kind: str, value, line: int, shown: ValueRecord | None = None) -> None:
         self.bindings[name] = Binding(kind, value, line)
-        self.keys[name] = digest(self.step_key, name)
+        self.keys[name] = self.value_key(name, kind, value)
         if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
             if shown is None:
                 shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value)
             self.history.setdefault(name, []).append((line, shown))
+
+    def value_key(self, name: str, kind: str, value) -> str:
+        """A value's cache key is its content, so an edit that gives the same
+        value again recomputes nothing downstream; anything else is keyed by
+        the step that bound it."""
+        if kind == "value" and isinstance(value, Element):
+            return digest("element", self.ring_key, value.to_data())
+        if kind == "value" and isinstance(value, sympy.Expr):
+            try:
+                return digest("expr", self.ring_key, expr_to_data(value))
+            except ValueError:
+                pass
+        return digest(self.step_key, name)
 
     def evaluate(self, expr) -> Value:
         return self.evaluator.evaluate(expr)
@@ -249,14 +266,15 @@ class Run(Scope):
         """The cache key: statement, inputs' keys, conventions, truncation, version."""
         seeded = s.line if isinstance(s, (n.Check, n.Extremize)) else None
         inputs = [(name, self.keys.get(name)) for name in names_pass.references(s)]
-        return digest(__version__, CODE, self.ring.truncate, sorted(self.report_conventions().items()),
-                      s.kind, s.source, seeded, inputs)
+        return digest(__version__, CODE, self.ring_key, s.kind, s.source, seeded, inputs)
 
     def run_step(self, index: int, s) -> Step:
         step = self.new_step(index, s)
         self.step_key = self.key_of(s)
         start = time.perf_counter()
         cacheable = type(s) in CACHED
+        if not cacheable:
+            self.ring_key = digest(self.ring_key, self.step_key)
         entry = self.cache.get(self.step_key) if cacheable else None
         if entry is not None and self.restore(step, s, entry):
             self.cache.put(self.step_key, entry)
@@ -294,6 +312,9 @@ class Run(Scope):
             symbols = {spec.symbol.name: spec.symbol for spec in self.specs.values()}
             values = {name: self._cached_value(name, step.line, data, symbols)
                       for name, data in outputs.items()}
+            keys = _dict_of(entry["keys"])
+            if set(keys) != set(outputs) or not all(isinstance(k, str) for k in keys.values()):
+                return False
         except Exception:  # a corrupt entry can be anything: never trust, recompute
             return False
         for name in names_pass.references(s):
@@ -302,6 +323,9 @@ class Run(Scope):
         shown = {v.name: v for v in step.values}
         for name, value in values.items():
             self.bind(name, "value", value, step.line, shown.get(name))
+            # The key the value had when computed: a rebuilt sympy tree may
+            # differ in shape (sympy distributes numbers), never in value.
+            self.keys[name] = keys[name]
         return True
 
     def _cached_value(self, name: str, line: int, data, symbols):
@@ -327,7 +351,9 @@ class Run(Scope):
                     outputs[name] = {"expr": expr_to_data(value)}
         except ValueError:
             return
-        self.cache.put(self.step_key, step_entry(step, outputs))
+        entry = step_entry(step, outputs)
+        entry["keys"] = {name: self.keys[name] for name in outputs}
+        self.cache.put(self.step_key, entry)
 
     def note_failures(self, step: Step, s) -> None:
         for check in step.checks:
