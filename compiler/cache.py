@@ -108,7 +108,7 @@ def restore_step(step, entry: dict) -> None:
     step.remainder = _record(entry["remainder"]) if entry["remainder"] is not None else None
     table = entry["table"]
     if table is not None:
-        step.table = TableData(columns=_strings(table["columns"]),
+        step.table = TableData(names=_strings(table["names"]), columns=_strings(table["columns"]),
                                rows=[_strings(r) for r in _list(table["rows"])],
                                text_rows=[_strings(r) for r in _list(table["text_rows"])])
     plot = entry["plot"]

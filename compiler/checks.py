@@ -83,7 +83,21 @@ def claim(lhs: Value, op: str, rhs: Value, points: list[dict], ctx: Context,
 
 # ---------------------------------------------------------------- equality
 
+def _degree_clash(left: Value, right: Value) -> str:
+    """Two nonzero sides with no form degree in common cannot be compared."""
+    degrees = [set(v.degrees()) if isinstance(v, Element) else ({0} if v != 0 else set())
+               for v in (left, right)]
+    if degrees[0] and degrees[1] and not degrees[0] & degrees[1]:
+        show_degrees = [", ".join(map(str, sorted(d))) for d in degrees]
+        return (f"degree clash: the left side has degree {show_degrees[0]}, "
+                f"the right side degree {show_degrees[1]}")
+    return ""
+
+
 def _equal(left: Value, right: Value, ctx: Context):
+    clash = _degree_clash(left, right)
+    if clash:
+        return "error", clash
     if isinstance(left, Element) and isinstance(right, Element):
         difference = left - right
         if difference.is_zero:
@@ -101,7 +115,9 @@ def _equal(left: Value, right: Value, ctx: Context):
 def _approx(value: sympy.Expr, point=None) -> str:
     """A number for a failure message: exact when rational, else 20 digits."""
     value = value.subs(point) if point else value
-    return notation.text(value if value.is_Rational else evaluate(value, {}).round(20))
+    if value.is_Rational or value.free_symbols:
+        return notation.text(value)
+    return notation.text(evaluate(value, {}).round(20))
 
 
 def _witness(left: Element, right: Element, difference: Element, ctx: Context) -> str:

@@ -16,7 +16,7 @@ from typing import Union
 import yaml
 
 from compiler.errors import DocumentError, Location, Problem
-from compiler.markdown import make_markdown
+from compiler.markdown import MATH_TOKENS, make_markdown, math_refs
 from compiler.statements.nodes import STATEMENT_WORDS
 
 DEFAULT_TRUNCATE = 12
@@ -68,10 +68,15 @@ class ProsePart:
 
 @dataclass(frozen=True)
 class Block:
-    """A derive block's content; ``line`` is the file line of its first content line."""
+    """A derive block's content; ``line`` is the file line of its first content line.
+
+    ``offsets`` holds, per content line, the characters a container (list
+    item, block quote) took off its front: file column = text column + offset.
+    """
 
     text: str
     line: int
+    offsets: tuple[int, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -79,6 +84,14 @@ class Document:
     path: str
     front: FrontMatter
     parts: tuple[Union[ProsePart, Block], ...]
+
+
+def _offsets(content: str, source_lines: list[str]) -> tuple[int, ...]:
+    """How far each content line of a fence sits to the right in the file."""
+    offsets = []
+    for text, original in zip(content.split("\n"), source_lines):
+        offsets.append(len(original) - len(text) if text and original.endswith(text) else 0)
+    return tuple(offsets) if any(offsets) else ()
 
 
 def read_document(path: str, text: str) -> Document:
@@ -104,7 +117,7 @@ def read_document(path: str, text: str) -> Document:
             continue
         start, end = token.map
         _add_prose(parts, md, lines, prose_start, start)
-        parts.append(Block(token.content, start + 2))
+        parts.append(Block(token.content, start + 2, _offsets(token.content, lines[start + 1:end])))
         prose_start = end
     _add_prose(parts, md, lines, prose_start, len(lines))
     return Document(path, front, tuple(parts))
@@ -132,8 +145,16 @@ def _find_refs(md, chunk: list[str], first_line: int) -> tuple[Ref, ...]:
     on a content line is the k-th ``@{`` on the matching source line.
     """
     refs = []
+    claimed: set[tuple[int, int]] = set()
     for token in md.parse("\n".join(chunk)):
-        if token.type != "inline" or token.map is None:
+        if token.map is None:
+            continue
+        math = [token] if token.type in MATH_TOKENS else [
+            c for c in token.children or () if c.type in MATH_TOKENS]
+        for piece in math:
+            for name in math_refs(piece.content):
+                refs.append(_ref_in_lines(name, chunk, token.map, first_line, claimed))
+        if token.type != "inline":
             continue
         for child in token.children or ():
             if child.type != "value_ref":
@@ -144,7 +165,21 @@ def _find_refs(md, chunk: list[str], first_line: int) -> tuple[Ref, ...]:
             index = token.map[0] + row
             refs.append(Ref(child.meta["name"], first_line + index,
                             _kth_marker_column(chunk[index], k)))
-    return tuple(refs)
+    return tuple(sorted(refs, key=lambda r: (r.line, r.column)))
+
+
+def _ref_in_lines(name: str, chunk: list[str], span, first_line: int, claimed: set) -> Ref:
+    """Where ``@{NAME}`` inside math stands: its first unclaimed occurrence in
+    the token's source lines."""
+    marker = "@{" + name + "}"
+    for index in range(span[0], min(span[1], len(chunk))):
+        pos = chunk[index].find(marker)
+        while pos >= 0 and (index, pos) in claimed:
+            pos = chunk[index].find(marker, pos + 1)
+        if pos >= 0:
+            claimed.add((index, pos))
+            return Ref(name, first_line + index, pos + 1)
+    return Ref(name, first_line + span[0], 1)
 
 
 def _kth_marker_column(line: str, k: int) -> int:

@@ -78,7 +78,7 @@ def parse(path: str, text: str):
     for i, part in enumerate(document.parts):
         if isinstance(part, Block):
             try:
-                statements_by_block[i] = parse_block(part.text, part.line, path)
+                statements_by_block[i] = parse_block(part.text, part.line, path, part.offsets)
             except DocumentError as err:
                 problems.extend(err.problems)
     if problems:
@@ -234,7 +234,8 @@ class Run(Scope):
         final = [Prose(p.markdown, p.line, self._refs(p)) if p is not None else s for p, s in items]
         front = self.document.front
         values = {name: hist[-1][1] for name, hist in self.history.items()
-                  if self.bindings[name].kind == "value"}
+                  if self.bindings[name].kind == "value"
+                  and not isinstance(self.bindings[name].value, Missing)}
         report = Report(
             tool_name=TOOL_NAME, tool_version=__version__, document=self.path,
             title=front.title, authors=list(front.authors), date=front.date,
@@ -687,8 +688,8 @@ def _written_monomial(run: Run, node) -> list:
         return [(key, e * k) for key, e in _written_monomial(run, node.left)]
     value = _element(run, node, "coefficients")
     terms = value.terms()
-    if len(terms) == 1 and terms[0][1] == 1 and len(terms[0][0]) == 1 and terms[0][0][0][1] == 1:
-        return [terms[0][0][0]]
+    if len(terms) == 1 and terms[0][1] == 1 and terms[0][0]:
+        return list(terms[0][0])  # a class, or one written through others (p1 of a plane is e^2)
     raise run.fail(node, f"{value.to_text()} is not a single class: coefficients reads monomials "
                          "in the classes of the normal form")
 
@@ -754,7 +755,8 @@ def _table(run: Run, s: n.Table, step: Step) -> None:
         coords = [point[run.symbols_by_name[p].symbol] for p in params]
         rows.append([notation.latex(c) for c in coords] + [record("", c).latex for c in cells])
         text_rows.append([notation.text(c) for c in coords] + [show(c) for c in cells])
-    step.table = TableData(columns=columns, rows=rows, text_rows=text_rows)
+    names = params + [node.id if isinstance(node, n.Name) else "" for node in s.exprs]
+    step.table = TableData(columns=columns, rows=rows, text_rows=text_rows, names=names)
 
 
 def _plot(run: Run, s: n.Plot, step: Step) -> None:

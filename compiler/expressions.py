@@ -95,8 +95,19 @@ class Evaluator:
     def _eval_Binary(self, node: n.Binary) -> Value:
         if node.op == "^":
             return self._power(node)
-        left = self.evaluate(node.left)
-        right = self.evaluate(node.right)
+        # Walk a left-associative chain (a + b - c + ...) without recursing
+        # on its left spine, so long sums stay shallow.
+        family = ("+", "-") if node.op in ("+", "-") else ("*", "/")
+        chain = []
+        while isinstance(node, n.Binary) and node.op in family:
+            chain.append(node)
+            node = node.left
+        value = self.evaluate(node)
+        for link in reversed(chain):
+            value = self._apply(link, value, self.evaluate(link.right))
+        return value
+
+    def _apply(self, node: n.Binary, left: Value, right: Value) -> Value:
         if node.op == "/":
             return self._divide(node, left, right)
         left, right = unify(self.scope.ring, left, right)
@@ -246,6 +257,8 @@ def _sqrt(ev, node):
     value = ev.evaluate(node.args[0])
     if not is_class_free(value):
         raise ev.fail(node, "sqrt() of a value with classes")
+    if as_expr(value).is_negative:
+        raise ev.fail(node, f"sqrt() of a negative value: {notation.text(as_expr(value))}")
     root = tidy(sympy.sqrt(as_expr(value)), list(ev.scope.specs.values()))
     return from_expr(ev.scope.ring, root)
 

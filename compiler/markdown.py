@@ -37,6 +37,21 @@ def _value_ref_rule(state: StateInline, silent: bool) -> bool:
     return True
 
 
+#: Token types whose content is LaTeX, where ``@{NAME}`` is spliced in as math.
+MATH_TOKENS = ("math_inline", "math_inline_double", "math_block", "math_block_label")
+
+
+def math_refs(latex: str) -> list[str]:
+    """The names of the ``@{NAME}`` references inside a piece of math."""
+    return [m.group(1) for m in _VALUE_REF.finditer(latex)]
+
+
+def expand_refs(latex: str, refs: dict) -> str:
+    """Math with each ``@{NAME}`` replaced by ``refs[NAME]`` (LaTeX), as a group."""
+    return _VALUE_REF.sub(lambda m: "{" + refs[m.group(1)] + "}" if m.group(1) in refs
+                          else m.group(0), latex)
+
+
 def value_ref_plugin(md: MarkdownIt) -> None:
     """Register the ``@{NAME}`` rule (before ``text``, which stops at ``@``)."""
     md.inline.ruler.before("text", "value_ref", _value_ref_rule)

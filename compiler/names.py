@@ -35,6 +35,9 @@ class NameTable:
         self.path = path
         self.names: dict[str, Declared] = {}
         self.problems: list[Problem] = []
+        #: Built-in and front-matter conventions that one ``convention``
+        #: statement may restate (to give the default the document assumes).
+        self.restatable: set[str] = set()
 
     def problem(self, line: int, column: int, message: str) -> None:
         self.problems.append(Problem(Location(self.path, line, column), message))
@@ -54,7 +57,8 @@ class NameTable:
             return
         if old is not None:
             hint = "; use let! to rebind it on purpose" if old.kind == "value" else ""
-            self.problem(line, column, f"'{name}' is already bound at line {old.line}{hint}")
+            where = f"at line {old.line}" if old.line else "as a built-in convention"
+            self.problem(line, column, f"'{name}' is already bound {where}{hint}")
             return
         self.names[name] = Declared(name, kind, line, column)
 
@@ -70,15 +74,17 @@ class NameTable:
 
 
 def _names_in(obj):
-    """Every ``Name`` node inside a syntax tree, in order."""
-    if isinstance(obj, n.Name):
-        yield obj
-    elif isinstance(obj, tuple):
-        for item in obj:
-            yield from _names_in(item)
-    elif is_dataclass(obj):
-        for f in fields(obj):
-            yield from _names_in(getattr(obj, f.name))
+    """Every ``Name`` node inside a syntax tree, in order (without recursion:
+    a sum of a thousand terms is a tree a thousand deep)."""
+    stack = [obj]
+    while stack:
+        item = stack.pop()
+        if isinstance(item, n.Name):
+            yield item
+        elif isinstance(item, tuple):
+            stack.extend(reversed(item))
+        elif is_dataclass(item):
+            stack.extend(reversed([getattr(item, f.name) for f in fields(item)]))
 
 
 def references(statement) -> list[str]:
@@ -129,9 +135,9 @@ def _symbol(t: NameTable, s: n.SymbolDecl) -> None:
 
 
 def _convention(t: NameTable, s: n.ConventionDecl) -> None:
-    old = t.names.get(s.name)
-    if old is not None and old.kind == "convention" and old.line == 0:
-        return  # a built-in or front-matter convention given its default here
+    if s.name in t.restatable:
+        t.restatable.discard(s.name)  # a built-in or front-matter convention given its default here
+        return
     t.declare(s.name, "convention", s.line, s.column)
 
 
@@ -235,8 +241,8 @@ def resolve(path: str, statements, front_conventions, prose_refs) -> dict[str, D
     for name in BUILTIN_CONVENTIONS:
         table.names[name] = Declared(name, "convention", 0, 0)
     for name, line, column in front_conventions:
-        if name not in table.names:
-            table.names[name] = Declared(name, "convention", 0, 0)
+        table.names[name] = Declared(name, "convention", line, column)
+    table.restatable = set(table.names)
     for s in statements:
         RULES[type(s)](table, s)
     for name, line, column in prose_refs:

@@ -66,6 +66,11 @@ class _TextPrinter(sympy.printing.str.StrPrinter):
         return super()._print_Pow(expr, rational).replace("**", "^")
 
 
+    def _print_Abs(self, expr):
+        # |x| has no spelling of its own in the document syntax.
+        return f"sqrt(({self._print(expr.args[0])})^2)"
+
+
 def text(expr: sympy.Expr) -> str:
     """A class-free value in the document's own expression syntax."""
     return _TextPrinter({"order": None}).doprint(expr)

@@ -42,6 +42,7 @@ class TableData:
     columns: list[str]  # header cells as LaTeX (parameters, then values)
     rows: list[list[str]]  # cells as LaTeX
     text_rows: list[list[str]]  # the same cells in our expression syntax
+    names: list[str] = field(default_factory=list)  # header cells as written (a_star, N)
 
 
 @dataclass

@@ -180,13 +180,13 @@ def test_ref_positions_in_containers_and_headings():
         "\n"
         "    @{indented_code}\n"  # 11
         "\n"
-        "Math $@{m}$ and $$@{mm}$$ \\@{escaped} and @{g}.\n"  # 13
+        "Math $@{m}$ and $$@{mm}$$ \\@{escaped} and @{g}.\n"  # 13: math splices values too
         "Not a name: @{1x} @{ a } @{}\n"  # 14
     )
     (part,) = read(text).parts
     assert part.refs == (
         Ref("a", 1, 9), Ref("b", 3, 10), Ref("c", 3, 19), Ref("d", 5, 15), Ref("e", 6, 13),
-        Ref("f", 8, 8), Ref("g", 13, 43),
+        Ref("f", 8, 8), Ref("m", 13, 7), Ref("mm", 13, 19), Ref("g", 13, 43),
     )
 
 

@@ -13,7 +13,7 @@ from pathlib import Path
 import jinja2
 from markupsafe import Markup, escape
 
-from compiler.markdown import make_markdown
+from compiler.markdown import expand_refs, make_markdown
 from compiler.render.mathml import to_mathml
 from compiler.render.tex import TEMPLATES, aligned_body, degrees_text, name_latex, value_lines
 from compiler.results import STATUSES, PlotData, Report, Step, ValueRecord
@@ -25,21 +25,26 @@ GLYPHS = {"proven": "\u2713", "sampled": "\u2248", "failed": "\u2717", "error": 
 # markdown-it render rules: (renderer, tokens, idx, options, env) -> html.
 
 
+def _math(token, env) -> str:
+    """A math token's LaTeX with its @{NAME} values spliced in."""
+    return expand_refs(token.content.strip(), {k: v.latex for k, v in env["refs"].items()})
+
+
 def _math_inline(self, tokens, idx, options, env) -> str:
-    return to_mathml(tokens[idx].content)
+    return to_mathml(_math(tokens[idx], env))
 
 
 def _math_inline_double(self, tokens, idx, options, env) -> str:
-    return to_mathml(tokens[idx].content.strip(), display=True)
+    return to_mathml(_math(tokens[idx], env), display=True)
 
 
 def _math_block(self, tokens, idx, options, env) -> str:
-    return f'<div class="display">{to_mathml(tokens[idx].content.strip(), display=True)}</div>\n'
+    return f'<div class="display">{to_mathml(_math(tokens[idx], env), display=True)}</div>\n'
 
 
 def _math_block_label(self, tokens, idx, options, env) -> str:
     t = tokens[idx]
-    math = to_mathml(t.content.strip(), display=True)
+    math = to_mathml(_math(t, env), display=True)
     return f'<div class="display">{math}<span class="eqno">({escape(t.info)})</span></div>\n'
 
 

@@ -21,7 +21,7 @@ def _check(c: CheckResult) -> dict:
 
 
 def _table(t: TableData) -> dict:
-    return {"columns": list(t.columns), "rows": [list(r) for r in t.rows],
+    return {"names": list(t.names), "columns": list(t.columns), "rows": [list(r) for r in t.rows],
             "text_rows": [list(r) for r in t.text_rows]}
 
 

@@ -17,7 +17,7 @@ from typing import Callable
 import jinja2
 
 from compiler.errors import InternalError
-from compiler.markdown import make_markdown
+from compiler.markdown import expand_refs, make_markdown
 from compiler.notation import name_latex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 
@@ -85,6 +85,10 @@ class _TexWriter:
     def render(self, tokens) -> str:
         return "".join(RULES.get(t.type, _unknown)(self, t) for t in tokens)
 
+    def math(self, token) -> str:
+        """A math token's LaTeX with its @{NAME} values spliced in."""
+        return expand_refs(token.content, {k: v.latex for k, v in self.refs.items()})
+
 
 def _unknown(w: _TexWriter, t) -> str:
     raise InternalError(f"no LaTeX rule for Markdown token {t.type!r}")
@@ -146,8 +150,8 @@ RULES: dict[str, Rule] = {
     "fence": lambda w, t: code_lines(t.content) + "\n",
     "html_block": lambda w, t: code_lines(t.content) + "\n",
     "hr": lambda w, t: "\\par\\medskip\\noindent\\hrulefill\\par\\medskip\n\n",
-    "math_block": lambda w, t: _math_block(t.content),
-    "math_block_label": lambda w, t: _math_block(t.content, t.info),
+    "math_block": lambda w, t: _math_block(w.math(t)),
+    "math_block_label": lambda w, t: _math_block(w.math(t), t.info),
     "text": lambda w, t: escape_tex(t.content),
     "softbreak": lambda w, t: "\n",
     "hardbreak": lambda w, t: "\\\\\n",
@@ -160,8 +164,8 @@ RULES: dict[str, Rule] = {
     "link_close": _link_close,
     "image": lambda w, t: "[" + escape_tex(t.content or "image") + "]",
     "html_inline": lambda w, t: escape_tex(t.content),
-    "math_inline": lambda w, t: f"${t.content}$",
-    "math_inline_double": lambda w, t: "\\[" + t.content.strip() + "\\]",
+    "math_inline": lambda w, t: f"${w.math(t)}$",
+    "math_inline_double": lambda w, t: "\\[" + w.math(t).strip() + "\\]",
     "value_ref": _value_ref,
 }
 

@@ -89,7 +89,7 @@ def _glued_message(digits: str, word: str) -> str:
             f"multiplication; write {digits}*{word})")
 
 
-def tokenize_line(text: str, line: int) -> tuple[list[Token], bool, str]:
+def tokenize_line(text: str, line: int, offset: int = 0) -> tuple[list[Token], bool, str]:
     """Tokens of one physical line, whether it ends in ``\\``, and its code text.
 
     The code text is the line without its comment and continuation mark, as
@@ -101,7 +101,7 @@ def tokenize_line(text: str, line: int) -> tuple[list[Token], bool, str]:
     pos = 0
     while pos < len(code):
         ch = code[pos]
-        col = pos + 1
+        col = pos + 1 + offset
         if ch in " \t\f\v":
             pos += 1
             continue
@@ -157,7 +157,7 @@ def tokenize_line(text: str, line: int) -> tuple[list[Token], bool, str]:
     return tokens, continues, code.strip()
 
 
-def logical_lines(text: str, first_line: int) -> list[LogicalLine]:
+def logical_lines(text: str, first_line: int, offsets: tuple[int, ...] = ()) -> list[LogicalLine]:
     """Join physical lines; ``first_line`` is the file line of ``text``'s first line.
 
     Comment-only lines vanish; blank lines become ``blank`` markers.  A
@@ -170,7 +170,8 @@ def logical_lines(text: str, first_line: int) -> list[LogicalLine]:
     after_backslash = False
     for index, raw in enumerate(text.split("\n")):
         line = first_line + index
-        tokens, continues, code = tokenize_line(raw, line)
+        offset = offsets[index] if index < len(offsets) else 0
+        tokens, continues, code = tokenize_line(raw, line, offset)
         if current is None:
             if not tokens:
                 if not raw.strip():

@@ -39,8 +39,13 @@ def arity(func: str) -> int:
     return 2 if func in _TWO_ARGUMENTS else 1
 
 
-def parse_block(text: str, first_line: int, path: str) -> list[n.Statement]:
+def parse_block(text: str, first_line: int, path: str,
+                offsets: tuple[int, ...] = ()) -> list[n.Statement]:
     """Parse one derive block whose first line is line ``first_line`` of ``path``.
+
+    ``offsets[i]`` is how many characters the Markdown container (a list
+    item, a block quote) cut from the front of the block's line ``i``, so
+    columns stay file columns.
 
     Raises ``DocumentError`` listing one problem per bad statement.
     """
@@ -54,7 +59,7 @@ def parse_block(text: str, first_line: int, path: str) -> list[n.Statement]:
             statements.append(body.build())
         body = None
 
-    for logical in logical_lines(text, first_line):
+    for logical in logical_lines(text, first_line, offsets):
         if logical.blank:
             close_body()
             continue
