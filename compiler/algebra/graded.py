@@ -20,6 +20,7 @@ later-declared generators larger.
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Iterable, Mapping, Sequence
@@ -44,6 +45,22 @@ class LimitError(AlgebraError):
 
 
 MAX_TERMS = 200_000
+#: Largest product of coefficient sizes multiplied in one step (term pairs).
+MAX_PRODUCT = 20_000_000
+
+
+def _check_power_size(poly, n: int) -> None:
+    """Refuse a power of a coefficient polynomial that would have more than
+    MAX_TERMS terms, before sympy spends minutes building it.  The bound is
+    the number of monomials of that degree in the variables present."""
+    if n < 2 or len(poly) < 2:
+        return
+    present = sum(1 for i in range(poly.ring.ngens) if any(m[i] for m in poly.keys()))
+    degree = max(sum(m) for m in poly.keys())
+    bound = min(math.comb(n * degree + present, present), math.comb(len(poly) + n - 1, n))
+    if bound > MAX_TERMS:
+        raise LimitError(f"a power of a {len(poly)}-term polynomial to the {n} would have up to "
+                         f"{bound} terms (the limit is {MAX_TERMS})")
 
 # A monomial: ((generator index, exponent), ...) sorted by index, exponents > 0.
 Mono = tuple
@@ -793,6 +810,9 @@ class Element:
                 if p is None:
                     continue
                 s, m = p
+                if len(ca) * len(cb) > MAX_PRODUCT:
+                    raise LimitError(f"a product of coefficients with {len(ca)} and {len(cb)} "
+                                     f"terms is beyond the limit; simplify the input")
                 prod = ca * cb
                 if s < 0:
                     prod = -prod
@@ -835,6 +855,8 @@ class Element:
         if a.is_class_free():
             if a.is_zero:
                 return R.one() if n == 0 else a
+            for poly in (a._t[()], a._d):
+                _check_power_size(poly, n)
             return Element(R, *R._cancel({(): a._t[()] ** n}, a._d ** n))
         if () not in a._t and n * min(R._mdeg(m) for m in a._t) > R.truncate:
             return R.zero()
