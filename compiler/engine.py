@@ -631,6 +631,10 @@ def _single_generator(run: Run, node, value: Element):
 def _reduce(run: Run, s: n.Reduce, step: Step) -> None:
     target = _element(run, s.target, "reduce")
     relations = [_relation(run, r) for r in s.relations]
+    for node, relation in zip(s.relations, relations):
+        if relation.is_class_free() and not relation.is_zero:
+            raise run.fail(node, "a relation for reduce must involve classes; "
+                                 "to give a symbol a value use substitute or for")
     basis = run.ring.groebner(relations)
     result = run.ring.reduce(target, basis)
     again = run.ring.reduce(result, basis)
