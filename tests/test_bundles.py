@@ -4,13 +4,10 @@ from __future__ import annotations
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from compiler.algebra.bundles import BundleTable, Trivial
+from algebra_support import table, whitney_sum
+from compiler.algebra.bundles import Trivial
 from compiler.notation import name_latex
-from compiler.algebra.graded import AlgebraError, Ring
-
-
-def table(truncate=12):
-    return BundleTable(Ring([], truncate))
+from compiler.algebra.graded import AlgebraError
 
 
 def test_generators_follow_rank_conventions():
@@ -163,13 +160,7 @@ def test_nested_split_uses_the_deepest_parts():
 @given(st.lists(st.integers(1, 6), min_size=1, max_size=3))
 def test_pontryagin_is_multiplicative_on_splits(ranks):
     # Milnor–Stasheff 1974, Thm. 15.3: p(E + F) = p(E) p(F) modulo 2-torsion
-    t = table()
-    names = []
-    for k, r in enumerate(ranks):
-        t.declare(f"A{k}", "real", r)
-        names.append(f"A{k}")
-    t.declare("B", "real", sum(ranks))
-    t.split("B", names)
+    t, names = whitney_sum(ranks)
     prod = t.ring.one()
     for n in names:
         prod = prod * t.total_pontryagin(n)

@@ -6,14 +6,10 @@ from fractions import Fraction
 import sympy
 from hypothesis import given, settings, strategies as st
 
-from compiler.algebra.bundles import BundleTable, Trivial
+from algebra_support import table, whitney_sum
+from compiler.algebra.bundles import Trivial
 from compiler.algebra.genera import BundleValue, ahat, chern_character, hirzebruch_l, \
     multiplicative_sequence, todd
-from compiler.algebra.graded import Ring
-
-
-def table(truncate=12):
-    return BundleTable(Ring([], truncate))
 
 
 def pont(t, name):
@@ -177,13 +173,7 @@ def test_nested_construction_wedge_of_sum():
 @given(st.lists(st.integers(1, 5), min_size=2, max_size=3))
 def test_genera_multiplicative_on_whitney_sums(ranks):
     # Hirzebruch 1966, §1: multiplicative sequences satisfy K(p(E + F)) = K(p(E)) K(p(F))
-    t = table()
-    names = []
-    for k, r in enumerate(ranks):
-        t.declare(f"A{k}", "real", r)
-        names.append(f"A{k}")
-    t.declare("B", "real", sum(ranks))
-    t.split("B", names)
+    t, names = whitney_sum(ranks)
     for genus in (ahat, hirzebruch_l):
         prod = t.ring.one()
         for n in names:
