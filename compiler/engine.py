@@ -129,7 +129,6 @@ class Run(Scope):
                     declared.append(spec.symbol)
         self.ring = Ring(declared, document.front.truncate)
         self.bundles = bundles_mod.BundleTable(self.ring)
-        self.fibers: dict[str, object] = {}
         self.groups = 0
         self.bindings: dict[str, Binding] = {}
         self.history: dict[str, list[tuple[int, ValueRecord]]] = {}
@@ -152,11 +151,9 @@ class Run(Scope):
     def _conventions(self, statements) -> dict[str, Fraction]:
         """Convention values by precedence: --set, front matter, statement default."""
         values = dict(names_pass.BUILTIN_CONVENTIONS)
-        self._statement_conventions = {}
         for s in statements:
             if isinstance(s, n.ConventionDecl):
                 values[s.name] = s.value
-                self._statement_conventions[s.name] = s
         for entry in self.document.front.conventions:
             values[entry.name] = entry.value
         for name, value in self.options.overrides.items():
@@ -264,7 +261,8 @@ class Run(Scope):
                     rebind=getattr(s, "rebind", False))
 
     def key_of(self, s) -> str:
-        """The cache key: statement, inputs' keys, conventions, truncation, version."""
+        """The cache key: the statement, its inputs' keys, the ring so far
+        (declarations, conventions, truncation) and the tool's code."""
         seeded = s.line if isinstance(s, (n.Check, n.Extremize)) else None
         inputs = [(name, self.keys.get(name)) for name in names_pass.references(s)]
         return digest(__version__, CODE, self.ring_key, s.kind, s.source, seeded, inputs)
@@ -500,7 +498,6 @@ def _new_group(run: Run) -> int:
 
 
 def _declare_fiber(run: Run, s, fiber, step: Step) -> None:
-    run.fibers[s.name] = fiber
     run.bind(s.name, "fiber", fiber, s.line)
     integrals = ", ".join(f"∫ {run.ring.monomial(m).to_text()} = {v.to_text()}"
                           for m, v in fiber.integrals.items())
