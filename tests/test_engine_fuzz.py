@@ -61,14 +61,21 @@ class Gen:
         self.bundles: dict[str, tuple[str, int]] = {}  # name -> (kind, real rank)
         self.fibers: dict[str, list[str]] = {}  # name -> its fiber-class atoms
         self.values: list[str] = []
+        self.gens: list[tuple[str, int]] = []  # (class, degree) usable in homogeneous forms
         self.counter = 0
+        # Most documents stay tame (valid kinds, degrees, ranks); wild ones
+        # try the wrong thing much more often.
+        self.wildness = draw(st.sampled_from([0.0, 0.0, 0.3, 1.0]))
 
     # -- helpers
     def pick(self, xs):
         return self.draw(st.sampled_from(list(xs)))
 
     def chance(self, p: float) -> bool:
-        return self.draw(st.floats(0, 1)) < p
+        return self.draw(st.integers(0, 999)) < p * 1000
+
+    def wild(self, p: float) -> bool:
+        return self.wildness > 0 and self.chance(p * self.wildness)
 
     def fresh(self, prefix: str) -> str:
         self.counter += 1
@@ -86,7 +93,7 @@ class Gen:
     # -- expressions
     def bundle_of(self, kinds=None):
         names = [b for b, (k, _) in self.bundles.items() if kinds is None or k in kinds]
-        if not names or self.chance(0.05):
+        if not names or self.wild(0.05):
             names = list(self.bundles) or ["Nope"]
         return self.pick(names)
 
@@ -111,8 +118,10 @@ class Gen:
             return self.pick(self.symbols or ["1"])
         fn = self.pick(["p1", "p2", "p3", "e", "c1", "c2", "c3", "p", "c", "Ahat", "L",
                         "td", "ch", "chc"])
+        if self.gens and fn in ("p1", "p2", "p3", "e", "c1", "c2", "c3") and not self.wild(0.5):
+            return self.pick(self.gens)[0]
         if fn in ("p1", "p2", "p3", "e", "p", "Ahat", "L"):
-            b = self.bundle_of(["real", "complex", "line"] if self.chance(0.2) else ["real"])
+            b = self.bundle_of(["real", "complex", "line"] if self.wild(0.3) else ["real"])
             return f"{fn}({b})"
         if fn == "chc":
             return f"ch({self.construction(2)})"
@@ -134,10 +143,41 @@ class Gen:
             return self.pick(self.values)
         if kind == "fiber":
             return self.pick(fiber_atoms)
+        if self.gens and not self.wild(0.5):
+            return self.pick(self.gens)[0]
         return self.class_atom()
 
+    def monomial(self, degree: int):
+        """A product of generators of exactly ``degree``, or None."""
+        parts, left = [], degree
+        for _ in range(6):
+            fits = [(t, d) for t, d in self.gens if d <= left]
+            if left == 0 or not fits:
+                break
+            t, d = self.pick(fits)
+            parts.append(t)
+            left -= d
+        return "*".join(parts) if left == 0 and parts else None
+
+    def homogeneous(self, degree: int) -> str:
+        """A sum of a few monomials of one degree with scalar coefficients."""
+        terms = []
+        for _ in range(self.small(1, 3)):
+            m = self.monomial(degree) if degree else "1"
+            if m is not None:
+                terms.append(f"({self.scalar(1)})*{m}" if self.chance(0.5) else m)
+        return " + ".join(terms) or "0"
+
+    def add_gens(self, bundle: str, kind: str, rank: int) -> None:
+        if kind == "real":
+            self.gens += [(f"p{k}({bundle})", 4 * k) for k in range(1, rank // 2 + 1)]
+            if rank % 2 == 0:
+                self.gens.append((f"e({bundle})", rank))
+        else:
+            self.gens += [(f"c{k}({bundle})", 2 * k) for k in range(1, rank // 2 + 1)]
+
     def exponent(self) -> str:
-        r = self.draw(st.floats(0, 1))
+        r = self.draw(st.integers(0, 999)) / 1000
         if r < 0.75:
             return str(self.draw(st.integers(0, 3)))
         if r < 0.9:
@@ -154,10 +194,12 @@ class Gen:
         if form in ("+", "-", "*"):
             return f"{self.expr(depth - 1)} {form} {self.expr(depth - 1)}"
         if form == "/":
-            den = self.expr(depth - 1) if self.chance(0.4) else self.pick(
-                (self.symbols or []) + ["2", "3", "0", "(1 - 1)"])
+            den = self.expr(depth - 1) if self.wild(0.5) else self.pick(
+                (self.symbols or []) + ["2", "3"] + (["0", "(1 - 1)"] if self.wild(0.5) else []))
             return f"{self.expr(depth - 1)}/({den})"
         if form == "^":
+            if not self.wild(0.5):
+                return f"({self.expr(depth - 1)})^{self.draw(st.integers(0, 3))}"
             return f"({self.expr(depth - 1)})^{self.exponent()}"
         if form == "neg":
             return f"-{self.expr(depth - 1)}"
@@ -166,8 +208,9 @@ class Gen:
         if form == "part":
             return f"part({self.expr(depth - 1)}, {self.pick([0, 2, 4, 6, 8, 3, -2, 100])})"
         if form == "degree":
-            return f"degree({self.expr(depth - 1)})"
-        return f"sqrt({self.expr(depth - 1)})"
+            inner = self.expr(depth - 1) if self.wild(0.5) else self.homogeneous(self.pick([2, 4]))
+            return f"degree({inner})"
+        return f"sqrt({self.expr(depth - 1) if self.wild(0.5) else self.scalar(1)})"
 
     def scalar(self, depth: int = 2) -> str:
         """A class-free expression of the symbols (for extremization)."""
@@ -221,6 +264,7 @@ class Gen:
             rank = r if kind == "real" else 2 * r
         for name in names:
             self.bundles[name] = (kind if kind == "real" else "complex", rank)
+            self.add_gens(name, kind, rank)
 
     def split(self):
         reals = [b for b, (k, _) in self.bundles.items()]
@@ -240,17 +284,31 @@ class Gen:
         kind = self.pick(["surface", "sphere", "general"])
         name = self.fresh("F")
         if kind == "surface":
-            genus = self.pick(self.symbols) if self.symbols and self.chance(0.7) else str(self.small(0, 3))
+            ints = [x for x in self.symbols if x.startswith(("N", "g"))]
+            genus = self.pick(ints) if ints and self.chance(0.7) else str(self.small(0, 3))
+            if self.wild(0.2):
+                genus = self.pick(self.symbols + ["1/2", "-1"])
             ts = self.fresh("TS")
             self.lines.append(f"fiber {name}: surface, genus {genus}, tangent {ts}")
             self.bundles[ts] = ("real", 2)
             self.fibers[name] = [f"e({ts})"]
+            self.gens.append((f"e({ts})", 2))
         elif kind == "sphere":
             odd = [b for b, (k, r) in self.bundles.items() if k == "real" and r % 2 == 1]
-            b = self.pick(odd) if odd and self.chance(0.85) else self.bundle_of()
+            if not odd:
+                odd = [self.fresh("NW")]
+                self.lines.append(f"bundle {odd[0]}: real, rank {self.pick([3, 5, 5])}")
+                self.bundles[odd[0]] = ("real", 5)
+                self.add_gens(odd[0], "real", 5)
+            b = self.pick(odd) if not self.wild(0.3) else self.bundle_of()
             ang = self.fresh("a")
             self.lines.append(f"fiber {name}: sphere of {b}, angular {ang}")
             self.fibers[name] = [ang]
+            if b in odd:
+                self.gens.append((ang, self.bundles[b][1] - 1))
+        elif not self.wild(0.5):
+            self.lines += self.tame_fiber(name)
+            self.lines.append("")
         else:
             dim = self.pick([2, 2, 4, 3])
             classes = [self.fresh("u") for _ in range(self.small(1, 2))]
@@ -268,42 +326,95 @@ class Gen:
             self.lines.append("")  # a blank line ends the body
             self.fibers[name] = classes
 
+    def tame_fiber(self, name: str) -> list[str]:
+        """A consistent general fiber: P^1, P^2, P^1 x P^1, or twisted P^1."""
+        shape = self.pick(["P1", "P2", "P1xP1", "twisted"])
+        u, w = self.fresh("u"), self.fresh("w")
+        if shape == "P1":
+            body = [f"dimension 2", f"class {u}: 2", f"relation {u}^2 = 0",
+                    f"integral {u} = {self.rational()}"]
+            self.fibers[name] = [u]
+            self.gens.append((u, 2))
+        elif shape == "P2":
+            body = [f"dimension 4", f"class {u}: 2", f"relation {u}^3 = 0", f"integral {u}^2 = 1"]
+            self.fibers[name] = [u]
+            self.gens.append((u, 2))
+        elif shape == "P1xP1":
+            body = [f"dimension 4", f"class {u}: 2", f"class {w}: 2", f"relation {u}^2 = 0",
+                    f"relation {w}^2 = 0", f"integral {u}*{w} = 1"]
+            self.fibers[name] = [u, w]
+            self.gens += [(u, 2), (w, 2)]
+        else:
+            rel = self.homogeneous(4) if self.gens else "0"
+            body = [f"dimension 2", f"class {u}: 2", f"relation {u}^2 = {rel}",
+                    f"integral {u} = 1"]
+            self.fibers[name] = [u]
+            self.gens.append((u, 2))
+        return [f"fiber {name}: {body[0]}"] + [f"  {b}" for b in body[1:]]
+
     # -- statements
     def let(self):
+        if self.gens and self.chance(0.4):
+            rhs = self.homogeneous(self.pick([2, 4, 4, 6, 8]))
+            if self.chance(0.5):
+                rhs += f" + {self.expr(2)}"
+            self.lines.append(f"let {self.value_name()} = {rhs}")
+            return
         if self.values and self.chance(0.1):
             self.lines.append(f"let! {self.pick(self.values)} = {self.expr()}")
             return
-        self.lines.append(f"let {self.value_name()} = {self.expr()}")
+        rhs = self.expr()
+        self.lines.append(f"let {self.value_name()} = {rhs}")
 
     def substitute(self):
         pairs = []
         for _ in range(self.small(1, 2)):
-            lhs = self.pick([self.class_atom()] + self.symbols[:3])
-            pairs.append(f"{lhs} = {self.expr(2)}")
-        self.lines.append(f"substitute {self.operand()}: {', '.join(pairs)} -> {self.value_name()}")
+            if self.gens and not self.wild(0.5):
+                lhs, d = self.pick(self.gens)
+                pairs.append(f"{lhs} = {self.homogeneous(d)}")
+            elif self.symbols and self.chance(0.5):
+                pairs.append(f"{self.pick(self.symbols)} = {self.scalar(1)}")
+            else:
+                pairs.append(f"{self.pick([self.class_atom()] + self.symbols[:3])} = {self.expr(2)}")
+        x = self.operand()
+        self.lines.append(f"substitute {x}: {', '.join(pairs)} -> {self.value_name()}")
 
     def reduce(self):
-        rels = [self.expr(1) + (f" = {self.expr(1)}" if self.chance(0.5) else "")
-                for _ in range(self.small(1, 2))]
-        self.lines.append(f"reduce {self.operand()} modulo {', '.join(rels)} -> {self.value_name()}")
+        if self.gens and not self.wild(0.5):
+            rels = []
+            for _ in range(self.small(1, 2)):
+                d = self.pick([2, 4, 4, 6])
+                rels.append(self.homogeneous(d) + (f" = {self.homogeneous(d)}" if self.chance(0.5) else ""))
+        else:
+            rels = [self.expr(1) + (f" = {self.expr(1)}" if self.chance(0.5) else "")
+                    for _ in range(self.small(1, 2))]
+        x = self.operand()
+        self.lines.append(f"reduce {x} modulo {', '.join(rels)} -> {self.value_name()}")
 
     def integrate(self):
+        if not self.fibers:
+            self.fiber()
         fiber = self.pick(list(self.fibers)) if self.fibers and self.chance(0.97) else self.fresh("Q")
-        self.lines.append(f"integrate {self.operand()} over {fiber} -> {self.value_name()}")
+        x = self.operand()
+        self.lines.append(f"integrate {x} over {fiber} -> {self.value_name()}")
 
     def coefficients(self):
         monos = []
         for _ in range(self.small(1, 2)):
+            if self.gens and not self.wild(0.5):
+                monos.append(self.monomial(self.pick([2, 4, 6, 8])) or self.pick(self.gens)[0])
+                continue
             m = self.class_atom()
             if self.chance(0.4):
                 m = f"{m}^{self.small(1, 3)}"
             if self.chance(0.3):
                 m = f"{m}*{self.class_atom()}"
             monos.append(m)
+        x = self.operand()
         outs = [self.value_name() for _ in monos]
-        if self.chance(0.1):
+        if self.wild(0.1):
             outs = outs[:-1] or [self.value_name(), self.value_name()]
-        self.lines.append(f"coefficients {self.operand()} of {', '.join(monos)} -> {', '.join(outs)}")
+        self.lines.append(f"coefficients {x} of {', '.join(monos)} -> {', '.join(outs)}")
 
     def extremum(self):
         word = self.pick(["maximize", "minimize", "extremize"])
@@ -317,9 +428,13 @@ class Gen:
         if nvars == 1 and self.chance(0.3):
             lo, hi = self.small(-3, 0), self.small(0, 3)
             over += f" in ({lo}, {hi})"
+        if not self.wild(0.5):
+            sign = {"maximize": "-", "minimize": ""}.get(word, self.pick(["-", ""]))
+            terms = [f"{sign}({v} - {self.rational()})^2*({self.scalar(1)})^2" for v in variables]
+            f = " + ".join(terms) + f" + {self.scalar(1)}"
         pts = [self.value_name() for _ in range(nvars)]
         point = pts[0] if nvars == 1 else f"({', '.join(pts)})"
-        if self.chance(0.1):  # wrong shape of outputs
+        if self.wild(0.1):  # wrong shape of outputs
             point = f"({pts[0]})" if nvars == 1 else ", ".join(pts)
         self.lines.append(f"{word} {f} over {over} -> {point}, {self.value_name()}")
 
@@ -340,13 +455,24 @@ class Gen:
         if form == "degree":
             self.lines.append(f"check degree({self.operand()}) == {self.pick([0, 2, 4, 6, 8])}")
             return
+        if self.gens and self.chance(0.5):
+            d = self.pick([0, 2, 4, 6, 8])
+            rhs = self.homogeneous(d)
+            lhs = self.operand() if self.chance(0.5) else self.homogeneous(d)
+            self.lines.append(f"check {lhs} {self.pick(OPS[:2])} {rhs}{self.for_clauses()}")
+            return
+        if self.chance(0.4):
+            self.lines.append(f"check {self.scalar(2)} {self.pick(OPS)} {self.scalar(2)}{self.for_clauses()}")
+            return
         self.lines.append(f"check {self.operand()} {self.pick(OPS)} {self.expr(2)}{self.for_clauses()}")
 
     def show(self):
         self.lines.append(f"show {self.operand()}")
 
     def table(self):
-        names = [self.pick(self.values or ["x"]) for _ in range(self.small(1, 2))]
+        if not self.values:
+            return self.let()
+        names = [self.pick(self.values) for _ in range(self.small(1, 2))]
         self.lines.append(f"table {', '.join(names)}{self.for_clauses()}")
 
     def plot(self):
@@ -413,7 +539,7 @@ def documents(draw) -> str:
     for _ in range(draw(st.integers(1, 8))):
         getattr(g, draw(st.sampled_from(STATEMENTS)))()
     lines = g.lines
-    if draw(st.booleans()) and draw(st.booleans()):
+    if g.wildness and draw(st.booleans()):
         lines = mutate(draw, lines)
     front = f"---\ntitle: fuzz\ntruncate: {draw(st.sampled_from([4, 6, 8, 8]))}\n---\n\n"
     refs = ""
