@@ -24,6 +24,9 @@ DEFAULT_TRUNCATE = 12
 _IDENTIFIER = re.compile(r"[A-Za-z][A-Za-z0-9_]*")
 _RATIONAL = re.compile(r"\s*([+-]?\d+)\s*(?:/\s*(\d+))?\s*")
 _FRONT_MATTER_OPEN = re.compile(r"-{3,}[ \t]*")
+#: The highest truncation degree accepted: the genera's polynomials grow
+#: quickly with the degree, and physics stops at twelve-forms or so.
+MAX_TRUNCATE = 40
 _FRONT_MATTER_KEYS = ("title", "authors", "date", "abstract", "truncate", "conventions")
 
 
@@ -271,6 +274,9 @@ def _read_truncate(node, where) -> int:
     value = yaml.SafeLoader("").construct_object(node)
     if value <= 0 or value % 2:
         raise DocumentError(where(node), f"'truncate' must be an even positive integer, not {value}")
+    if value > MAX_TRUNCATE:
+        raise DocumentError(where(node), f"'truncate' is at most {MAX_TRUNCATE} (form degrees "
+                                         f"beyond that are beyond any anomaly computation)")
     return value
 
 

@@ -37,6 +37,8 @@ from .statements import nodes as n
 from .statements.parser import parse_block
 
 TOOL_NAME = "anomark"
+#: Most points a ``for`` list may expand to (every combination is computed).
+MAX_POINTS = 10_000
 
 
 @dataclass(frozen=True)
@@ -397,6 +399,9 @@ class Run(Scope):
             spec = self.symbols_by_name[c.name]
             if c.range is not None:
                 low, high = c.range
+                if high - low >= MAX_POINTS:
+                    raise DocumentError(Location(self.path, c.line, c.column),
+                                        f"the range {low}..{high} has more than {MAX_POINTS} values")
                 if low > high:
                     raise DocumentError(Location(self.path, c.line, c.column),
                                         f"empty range {low}..{high}")
@@ -412,6 +417,12 @@ class Run(Scope):
                     raise DocumentError(Location(self.path, c.line, c.column),
                                         f"{c.name} = {fraction_text(v)} breaks its declaration ({spec.describe()})")
             axes.append([(spec.symbol, sympy.Rational(v.numerator, v.denominator)) for v in values])
+        total = 1
+        for axis in axes:
+            total *= len(axis)
+        if total > MAX_POINTS:
+            raise DocumentError(Location(self.path, clauses[0].line, clauses[0].column),
+                                f"the for ranges give {total} points; at most {MAX_POINTS} are checked")
         return [dict(combo) for combo in itertools.product(*axes)] if axes else []
 
 
@@ -553,12 +564,11 @@ def _general(run: Run, s: n.GeneralFiber, step: Step) -> None:
 
 
 def _relation(run: Run, eq: n.Equation) -> Element:
-    value = run.evaluate(eq.lhs)
-    if eq.rhs is not None:
-        value = value - run.evaluate(eq.rhs)
-    if not isinstance(value, Element):
-        raise run.fail(eq, "a relation must be a polynomial in the classes")
-    return value
+    sides = [run.evaluate(side) for side in (eq.lhs, eq.rhs) if side is not None]
+    if not all(isinstance(side, Element) for side in sides):
+        raise run.fail(eq, "a relation must be a polynomial in the classes with "
+                           "rational-function coefficients")
+    return sides[0] - sides[1] if len(sides) == 2 else sides[0]
 
 
 def _let(run: Run, s: n.Let, step: Step) -> None:
@@ -607,6 +617,8 @@ def _substitute(run: Run, s: n.Substitute, step: Step) -> None:
         # An irrational value (an extremum) put into a class-free expression.
         exact = as_expr(target).subs({k: as_expr(v) for k, v in mapping.items()})
         result = tidy(exact, list(run.specs.values()))
+        if result.has(sympy.I):
+            raise run.fail(s, f"the substitution makes the value complex: {expr_text(result)}")
     else:
         raise run.fail(s, "an irrational value can only be substituted into a class-free expression")
     step.checks.append(degree_check(result))
@@ -689,8 +701,8 @@ def _written_monomial(run: Run, node) -> list:
         return [(key, e * k) for key, e in _written_monomial(run, node.left)]
     value = _element(run, node, "coefficients")
     terms = value.terms()
-    if len(terms) == 1 and terms[0][1] == 1 and terms[0][0]:
-        return list(terms[0][0])  # a class, or one written through others (p1 of a plane is e^2)
+    if len(terms) == 1 and terms[0][1] == 1 and len(terms[0][0]) == 1:
+        return list(terms[0][0])  # a class, or a power of one (p1 of a plane is e^2)
     raise run.fail(node, f"{value.to_text()} is not a single class: coefficients reads monomials "
                          "in the classes of the normal form")
 

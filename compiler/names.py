@@ -53,7 +53,8 @@ class NameTable:
             if old is None:
                 self.problem(line, column, f"let! rebinds '{name}', but it is not bound yet; use let")
             elif old.kind != "value":
-                self.problem(line, column, f"let! cannot rebind the {old.kind} '{name}' (declared at line {old.line})")
+                where = f"declared at line {old.line}" if old.line else "built in"
+                self.problem(line, column, f"let! cannot rebind the {old.kind} '{name}' ({where})")
             return
         if old is not None:
             hint = "; use let! to rebind it on purpose" if old.kind == "value" else ""

@@ -471,10 +471,18 @@ class _Signer:
         return True
 
     def sign_of_content(self, content):
-        """Sign of the content away from its zeros (a factor >= 0 counts as > 0)."""
-        coeff, factors = sympy.factor_list(content)
+        """Sign of the content away from its zeros (a factor >= 0 counts as > 0).
+
+        The content may be a rational function of the parameters: numerator
+        and denominator factors count alike (a sign is a sign either way)."""
+        num, den = sympy.fraction(sympy.together(content))
+        (cn, fn), (cd, fd) = sympy.factor_list(num), sympy.factor_list(den)
+        coeff = cn / cd
+        if not coeff.is_real:
+            raise ExtremizeError(f"the function has a complex coefficient ({coeff}); "
+                                 "only real functions can be extremized")
         total = 1 if coeff > 0 else -1
-        for base, mult in factors:
+        for base, mult in fn + fd:
             b = base.xreplace(self.subs)
             if any(form.is_nonnegative for form in (b, sympy.expand(b), sympy.factor(b))):
                 continue
@@ -598,6 +606,8 @@ def _pull_squares(expr, signer):
         return e.is_Pow and e.exp.is_Rational and e.exp.q == 2
 
     def pull(part):
+        if part.is_number:
+            return sympy.Integer(1), part
         coeff, factors = sympy.factor_list(part)
         outside, inside = sympy.Integer(1), coeff
         for base, mult in factors:
