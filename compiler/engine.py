@@ -11,6 +11,7 @@ document goes on, so one bad line does not hide the rest of the report.
 from __future__ import annotations
 
 import itertools
+import math
 import signal
 import time
 from contextlib import contextmanager
@@ -417,9 +418,7 @@ class Run(Scope):
                     raise DocumentError(Location(self.path, c.line, c.column),
                                         f"{c.name} = {fraction_text(v)} breaks its declaration ({spec.describe()})")
             axes.append([(spec.symbol, sympy.Rational(v.numerator, v.denominator)) for v in values])
-        total = 1
-        for axis in axes:
-            total *= len(axis)
+        total = math.prod(len(axis) for axis in axes)
         if total > MAX_POINTS:
             raise DocumentError(Location(self.path, clauses[0].line, clauses[0].column),
                                 f"the for ranges give {total} points; at most {MAX_POINTS} are checked")
@@ -438,15 +437,11 @@ def fraction_text(value: Fraction) -> str:
     return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
 
 
-def expr_text(expr: sympy.Expr) -> str:
-    return notation.text(expr)
-
-
 def record(name: str, value: Value) -> ValueRecord:
     """A value as the renderers see it."""
     if isinstance(value, Element):
         return ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
-    return ValueRecord(name, expr_text(value), notation.latex(value), [] if value == 0 else [0])
+    return ValueRecord(name, notation.text(value), notation.latex(value), [] if value == 0 else [0])
 
 
 def degree_check(value: Value) -> CheckResult:
@@ -492,12 +487,10 @@ def _split(run: Run, s: n.SplitDecl, step: Step) -> None:
     parts = [p.name if p.name is not None else bundles_mod.Trivial(p.trivial) for p in s.parts]
     run.bundles.split(s.bundle, parts)
     run.keys[s.bundle] = digest(run.keys.get(s.bundle), run.step_key)
-    sizes = [str(run.bundles.real_rank(p)) if isinstance(p, str) else str(p.rank) for p in parts]
-    unit = "complex" if run.bundles.kind(s.bundle) == "complex" else "real"
-    total = run.bundles.rank(s.bundle)
-    if unit == "complex":
-        sizes = [str(run.bundles.rank(p)) for p in parts]
-    account = f"{unit} rank {total} = {' + '.join(sizes)}"
+    unit = run.bundles.kind(s.bundle)
+    size = run.bundles.rank if unit == "complex" else run.bundles.real_rank
+    sizes = [str(size(p)) if isinstance(p, str) else str(p.rank) for p in parts]
+    account = f"{unit} rank {run.bundles.rank(s.bundle)} = {' + '.join(sizes)}"
     step.checks.append(CheckResult(f"ranks add up: {account}", "proven"))
 
 
@@ -518,7 +511,7 @@ def _declare_fiber(run: Run, s, fiber, step: Step) -> None:
 def _surface(run: Run, s: n.SurfaceFiber, step: Step) -> None:
     genus = as_expr(run.evaluate(s.genus))
     if genus.is_integer is not True:
-        raise run.fail(s.genus, f"the genus must be an integer or a symbol declared integer, not {expr_text(genus)}")
+        raise run.fail(s.genus, f"the genus must be an integer or a symbol declared integer, not {notation.text(genus)}")
     group = _new_group(run)
     run.bundles.declare(s.tangent, "real", 2, group=group)
     run.bind(s.tangent, "bundle", s.tangent, s.line)
@@ -558,7 +551,8 @@ def _general(run: Run, s: n.GeneralFiber, step: Step) -> None:
     for c in s.classes:
         run.bind(c.name, "class", classes[c.name], c.line)
     relations = [_relation(run, r) for r in s.relations]
-    integrals = [(run.evaluate(eq.lhs), run.evaluate(eq.rhs)) for eq in s.integrals]
+    integrals = [(_element(run, eq.lhs, "an integral"), _element(run, eq.rhs, "an integral"))
+                 for eq in s.integrals]
     fiber = fibers_mod.general_fiber(s.name, run.ring, group, s.dimension, relations, integrals)
     _declare_fiber(run, s, fiber, step)
 
@@ -580,7 +574,7 @@ def _let(run: Run, s: n.Let, step: Step) -> None:
 def _element(run: Run, node, what: str) -> Element:
     value = run.evaluate(node)
     if not isinstance(value, Element):
-        raise run.fail(node, f"{what} needs a polynomial in the classes, not {expr_text(value)}")
+        raise run.fail(node, f"{what} needs a polynomial in the classes, not {notation.text(value)}")
     return value
 
 
@@ -618,7 +612,7 @@ def _substitute(run: Run, s: n.Substitute, step: Step) -> None:
         exact = as_expr(target).subs({k: as_expr(v) for k, v in mapping.items()})
         result = tidy(exact, list(run.specs.values()))
         if result.has(sympy.I):
-            raise run.fail(s, f"the substitution makes the value complex: {expr_text(result)}")
+            raise run.fail(s, f"the substitution makes the value complex: {notation.text(result)}")
     else:
         raise run.fail(s, "an irrational value can only be substituted into a class-free expression")
     step.checks.append(degree_check(result))
