@@ -383,7 +383,7 @@ def test_a_declared_convention_is_usable_before_its_statement(tmp_path, front, n
 def test_time_limit_turns_a_heavy_step_into_an_error(tmp_path):
     # spec: Checks table: "error: the check could not run (..., time limit)"; the build goes on
     report = compile_doc(tmp_path, "symbol a, b, c, d, f",
-                         "let x = (a + b + c + d + f + 1)^9*(a - b + c - d + f - 1)^9", "let y = 1",
+                         "let x = (a + b + c + d + f + 1)^10*(a - b + c - d + f - 1)^10", "let y = 1",
                          time_limit=0.2)
     heavy, after = report.steps[-2:]
     assert heavy.status == "error" and "time limit" in heavy.checks[-1].detail
