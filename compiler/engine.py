@@ -57,8 +57,12 @@ class StepTimeout(Exception):
 
 @contextmanager
 def time_limit(seconds: float):
-    """Interrupt a runaway step (only where signals work: the main thread)."""
+    """Interrupt a runaway step (only where signals work: the main thread).
+
+    The alarm re-arms itself: an exception raised while Python is running a
+    garbage-collection callback is swallowed, so one alarm is not enough."""
     def expire(signum, frame):
+        signal.setitimer(signal.ITIMER_REAL, 0.05)
         raise StepTimeout()
     try:
         previous = signal.signal(signal.SIGALRM, expire)
