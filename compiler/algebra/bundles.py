@@ -210,11 +210,7 @@ class BundleTable:
             return ring.one() + sum((prod.part(4 * k) * (-1) ** k for k in range(1, b.rank + 1)),
                                     ring.zero())
         if b.parts is not None:
-            total = ring.one()
-            for p in b.parts:
-                if isinstance(p, str):
-                    total = total * self.total_pontryagin(p)
-            return total
+            return self._over_parts(b, self.total_pontryagin)
         self._touch(b)
         if b.rank == 2:
             e = self._gen(f"e({name})")
@@ -269,17 +265,22 @@ class BundleTable:
                                f"so its Chern classes are c1..c{b.rank}")
         return self.total_chern(name).part(2 * i)
 
+    def _over_parts(self, b: Bundle, total) -> Element:
+        """Whitney product formula: a split bundle's total class is the product
+        of its parts' (trivial summands contribute 1)."""
+        out = self.ring.one()
+        for p in b.parts:
+            if isinstance(p, str):
+                out = out * total(p)
+        return out
+
     def total_chern(self, name: str) -> Element:
         b = self.get(name)
         if b.kind != COMPLEX:
             raise AlgebraError(f"c({name}) does not exist: {name} is a real bundle")
         ring = self.ring
         if b.parts is not None:
-            total = ring.one()
-            for p in b.parts:
-                if isinstance(p, str):
-                    total = total * self.total_chern(p)
-            return total
+            return self._over_parts(b, self.total_chern)
         self._touch(b)
         total = ring.one()
         for k in range(1, b.rank + 1):

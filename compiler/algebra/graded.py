@@ -753,20 +753,14 @@ class Element:
             return NotImplemented
         a, b = self._fresh(), other._fresh()
         R = a._ring
-        if a._d == b._d:
-            terms = dict(a._t)
-            for m, c in b._t.items():
-                v = terms.get(m, R._pzero) + c
-                if v:
-                    terms[m] = v
-                else:
-                    terms.pop(m, None)
-            return Element(R, *R._cancel(terms, a._d))
-        g = a._d.gcd(b._d)
-        fa, fb = b._d.exquo(g), a._d.exquo(g)
-        terms = {m: c * fa for m, c in a._t.items()}
+        if a._d == b._d:  # the common case: no rescaling
+            fa = fb = R._pone
+        else:
+            g = a._d.gcd(b._d)
+            fa, fb = b._d.exquo(g), a._d.exquo(g)
+        terms = dict(a._t) if fa == R._pone else {m: c * fa for m, c in a._t.items()}
         for m, c in b._t.items():
-            v = terms.get(m, R._pzero) + c * fb
+            v = terms.get(m, R._pzero) + (c if fb == R._pone else c * fb)
             if v:
                 terms[m] = v
             else:
