@@ -1,30 +1,28 @@
-"""Coefficients of ring elements: polynomials over QQ in the document's symbols.
+"""Coefficients of ring elements: polynomials over QQ in the document's symbols, on FLINT.
 
-Every operation the ring needs on coefficients lives here, so the
-polynomial kernel is one module: exact rationals in, cancelled numerator
-terms over one monic common denominator out.
+Every operation the ring needs on coefficients lives here, so the polynomial
+kernel is one module.  Coefficients are ``flint.fmpq_mpoly`` in lexicographic
+order (symbols in declaration order), the order that fixes which coefficient
+of a denominator is made 1.  Sympy is imported only to read expressions in.
 """
 from __future__ import annotations
 
 import math
 from fractions import Fraction
 
-import sympy
-from sympy import QQ
-from sympy.polys.fields import FracField
+import flint
 
 from .errors import AlgebraError, LimitError, NotRational
 
 
 class Coefficients:
-    """The polynomial ring QQ[symbols] and its fraction field."""
+    """The polynomial ring QQ[symbols]; fractions (``Frac``) for Gröbner work."""
 
     def __init__(self, symbols):
         self.symbols = tuple(symbols)
-        self.field = FracField(self.symbols, QQ)
-        self.ring = self.field.ring
-        self.one = self.ring.one
-        self.zero = self.ring.zero
+        self.ctx = flint.fmpq_mpoly_ctx.get(tuple(f"s{i}" for i in range(len(self.symbols))), "lex")
+        self.one = self.ctx.constant(1)
+        self.zero = self.ctx.constant(0)
         self.position = {s: i for i, s in enumerate(self.symbols)}
 
     def rational(self, value):
@@ -32,41 +30,49 @@ class Coefficients:
         if isinstance(value, bool):
             raise AlgebraError(f"not a number: {value!r}")
         if isinstance(value, int):
-            q = QQ(value)
-        elif isinstance(value, Fraction):
-            q = QQ(value.numerator, value.denominator)
-        elif isinstance(value, sympy.Rational):
-            q = QQ(int(value.p), int(value.q))
-        else:
-            raise AlgebraError(f"not an exact rational number: {value!r}")
-        return self.ring.ground_new(q)
+            return self.ctx.constant(value)
+        if isinstance(value, Fraction):
+            return self.ctx.constant(flint.fmpq(value.numerator, value.denominator))
+        if type(value).__module__.startswith("sympy"):
+            import sympy
+            if isinstance(value, sympy.Rational):
+                return self.ctx.constant(flint.fmpq(int(value.p), int(value.q)))
+        raise AlgebraError(f"not an exact rational number: {value!r}")
 
     def symbol(self, position: int):
-        return self.ring.gens[position]
+        return self.ctx.gen(position)
 
     def from_expr(self, expr):
         """(numerator, denominator) of a sympy expression rational in the symbols."""
+        import sympy
+        from sympy import QQ
+        from sympy.polys.fields import FracField
         if not isinstance(expr, sympy.Expr) or expr.has(sympy.Float):
             raise NotRational(f"not an exact rational function of the declared symbols: {expr}")
         try:
-            frac = self.field.from_expr(expr)
+            frac = FracField(self.symbols, QQ).from_expr(expr)
         except (ValueError, TypeError, sympy.PolynomialError, sympy.CoercionFailed):
             raise NotRational(f"not a rational function of the declared symbols: {expr}") from None
-        return frac.numer, frac.denom
+        return self._from_sympy(frac.numer), self._from_sympy(frac.denom)
+
+    def _from_sympy(self, poly):
+        return self.ctx.from_dict({exps: flint.fmpq(int(c.numerator), int(c.denominator))
+                                   for exps, c in poly.items()})
 
     def from_items(self, items):
         """A polynomial from {exponent tuple: Fraction}."""
-        out = {exps: QQ(c.numerator, c.denominator) for exps, c in items.items() if c}
-        return self.ring.from_dict(out) if out else self.zero
+        return self.ctx.from_dict({exps: flint.fmpq(c.numerator, c.denominator)
+                                   for exps, c in items.items() if c})
 
     @staticmethod
     def items(poly):
-        """(exponent tuple, Fraction) pairs of a polynomial."""
-        return [(exps, Fraction(int(c.numerator), int(c.denominator))) for exps, c in poly.items()]
+        """(exponent tuple of ints, Fraction) pairs of a polynomial."""
+        return [(tuple(map(int, exps)), Fraction(int(c.p), int(c.q)))
+                for exps, c in zip(poly.monoms(), poly.coeffs())]
 
     @staticmethod
     def is_constant(p) -> bool:
-        return p.is_ground
+        return p.is_constant()
 
     @staticmethod
     def gcd(a, b):
@@ -74,40 +80,10 @@ class Coefficients:
 
     @staticmethod
     def exquo(a, b):
-        return a.exquo(b)
+        return a / b
 
     def lcm(self, a, b):
-        return a if a == b else a * b.exquo(a.gcd(b))
-
-    def cancel(self, terms: dict, den):
-        """Make gcd(den, numerators) = 1 and den monic (1 when constant)."""
-        one = self.one
-        if not terms:
-            return {}, one
-        if den == one:
-            return terms, one
-        if den.is_ground:
-            c = den.LC
-            return {m: n.quo_ground(c) for m, n in terms.items()}, one
-        g = den
-        for n in terms.values():
-            g = g.gcd(n)
-            if g.is_ground:
-                break
-        if not g.is_ground:
-            den = den.exquo(g)
-            terms = {m: n.exquo(g) for m, n in terms.items()}
-        c = den.LC
-        if den.is_ground:
-            return {m: n.quo_ground(c) for m, n in terms.items()}, one
-        if c != 1:
-            den = den.quo_ground(c)
-            terms = {m: n.quo_ground(c) for m, n in terms.items()}
-        return terms, den
-
-    @staticmethod
-    def size(poly) -> int:
-        return len(poly)
+        return a if a == b else a * (b / a.gcd(b))
 
     def check_power_size(self, poly, n: int, limit: int) -> None:
         """Refuse a power that would have more than ``limit`` terms, before
@@ -115,7 +91,7 @@ class Coefficients:
         the variables present."""
         if n < 2 or len(poly) < 2:
             return
-        exps = list(poly.keys())
+        exps = [tuple(map(int, m)) for m in poly.monoms()]
         present = sum(1 for i in range(len(self.symbols)) if any(m[i] for m in exps))
         degree = max(sum(m) for m in exps)
         bound = min(math.comb(n * degree + present, present), math.comb(len(poly) + n - 1, n))
@@ -124,12 +100,48 @@ class Coefficients:
                              f"{bound} terms (the limit is {limit})")
 
     # -------------------------------------------------- fractions (Gröbner)
-    def frac(self, num, den=None):
-        return self.field.new(num, self.one if den is None else den)
+    def frac(self, num, den=None) -> "Frac":
+        return Frac(num, self.one if den is None else den)
 
     def frac_parts(self, terms: dict):
-        """{monomial: fraction} -> (numerator terms, common denominator)."""
+        """{monomial: Frac} -> (numerator terms, common denominator)."""
         den = self.one
         for c in terms.values():
             den = self.lcm(den, c.denom)
-        return {m: c.numer * den.exquo(c.denom) for m, c in terms.items() if c}, den
+        return {m: c.numer * (den / c.denom) for m, c in terms.items() if c}, den
+
+
+class Frac:
+    """A rational function num/den, cancelled, den with leading coefficient 1."""
+
+    __slots__ = ("numer", "denom")
+
+    def __init__(self, num, den):
+        g = num.gcd(den)
+        if not g.is_constant():
+            num, den = num / g, den / g
+        c = den.leading_coefficient()
+        if c != 1:
+            num, den = num / c, den / c
+        self.numer, self.denom = num, den
+
+    def __bool__(self):
+        return bool(self.numer)
+
+    def __eq__(self, other):
+        return self.numer == other.numer and self.denom == other.denom
+
+    def __neg__(self):
+        return Frac(-self.numer, self.denom)
+
+    def __add__(self, other):
+        return Frac(self.numer * other.denom + other.numer * self.denom, self.denom * other.denom)
+
+    def __sub__(self, other):
+        return Frac(self.numer * other.denom - other.numer * self.denom, self.denom * other.denom)
+
+    def __mul__(self, other):
+        return Frac(self.numer * other.numer, self.denom * other.denom)
+
+    def __truediv__(self, other):
+        return Frac(self.numer * other.denom, self.denom * other.numer)

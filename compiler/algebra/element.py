@@ -1,9 +1,10 @@
 """Elements of the graded ring: exact arithmetic and queries on normal forms.
 
-An element holds ``_t`` {monomial: numerator polynomial} over ``_d``, one
-monic common denominator polynomial in the symbols, cancelled against the
-numerators.  Elements are immutable; one built before a rule was added is
-re-normalised on first use (``_fresh``).
+An element holds ``_p``, one FLINT polynomial over symbols and classes, over
+``_d``, a denominator in the symbols (see ``kernel``), always in normal form.
+Elements are immutable; one built before a generator or rule was added is
+moved and re-normalised on first use (``_fresh``).  Queries that need terms
+by class monomial unpack once and keep the result (``_t``, ``_den``).
 """
 from __future__ import annotations
 
@@ -14,32 +15,48 @@ from . import printing, serial
 from .errors import AlgebraError, LimitError
 from .monomials import Mono
 
+#: Most terms (over classes and symbols together) a product may have.
 MAX_TERMS = 200_000
-#: Largest product of coefficient sizes multiplied in one step (term pairs).
+#: Most term pairs multiplied in one product (after skipping truncated components).
 MAX_PRODUCT = 20_000_000
 
 
 class Element:
     """An immutable element of a Ring, always in normal form."""
 
-    __slots__ = ("_ring", "_t", "_d", "_epoch")
+    __slots__ = ("_ring", "_p", "_d", "_epoch", "_view")
     __hash__ = None  # type: ignore[assignment]
 
-    def __init__(self, ring, terms: dict, den):
+    def __init__(self, ring, p, d):
         self._ring = ring
-        self._t = terms
-        self._d = den
+        self._p = p
+        self._d = d
         self._epoch = ring._epoch
+        self._view = None
 
     @property
     def ring(self):
         return self._ring
 
     def _fresh(self) -> "Element":
-        """Re-normalise if rules were added since this element was built."""
+        """Move to the current context and re-normalise if generators or
+        rules were added since this element was built."""
         if self._epoch == self._ring._epoch:
             return self
-        return self._ring._make(dict(self._t), self._d)
+        return self._ring._renew(self._p, self._d)
+
+    @property
+    def _t(self) -> dict:
+        """{monomial: numerator polynomial in the symbols}, unpacked once."""
+        if self._view is None:
+            L = self._ring.layout
+            self._view = (L.unpack(self._p), L.symbols_part(self._d))
+        return self._view[0]
+
+    @property
+    def _den(self):
+        self._t
+        return self._view[1]
 
     # ------------------------------------------------------------ arithmetic
     def __add__(self, other):
@@ -48,26 +65,18 @@ class Element:
         except AlgebraError:
             return NotImplemented
         a, b = self._fresh(), other._fresh()
-        R, C = a._ring, a._ring.coeffs
+        L = a._ring.layout
         if a._d == b._d:  # the common case: no rescaling
-            fa = fb = C.one
-        else:
-            g = C.gcd(a._d, b._d)
-            fa, fb = C.exquo(b._d, g), C.exquo(a._d, g)
-        terms = dict(a._t) if fa == C.one else {m: c * fa for m, c in a._t.items()}
-        for m, c in b._t.items():
-            v = terms.get(m, C.zero) + (c if fb == C.one else c * fb)
-            if v:
-                terms[m] = v
-            else:
-                terms.pop(m, None)
-        return R._cancelled(terms, a._d * fa)
+            return Element(a._ring, *L.cancel(a._p + b._p, a._d))
+        g = a._d.gcd(b._d)
+        fa, fb = b._d / g, a._d / g
+        return Element(a._ring, *L.cancel(a._p * fa + b._p * fb, a._d * fa))
 
     __radd__ = __add__
 
     def __neg__(self):
         a = self._fresh()
-        return Element(a._ring, {m: -c for m, c in a._t.items()}, a._d)
+        return Element(a._ring, -a._p, a._d)
 
     def __sub__(self, other):
         try:
@@ -86,33 +95,18 @@ class Element:
             return NotImplemented
         a, b = self._fresh(), other._fresh()
         R = a._ring
-        T, size = R.truncate, R.coeffs.size
-        deg, mmul = R.monos.degree, R.monos.mul
-        bt = sorted(((deg(m), m, c) for m, c in b._t.items()), key=lambda t: t[0])
-        raw: dict = {}
-        get = raw.get
-        for ma, ca in a._t.items():
-            da = deg(ma)
-            for db, mb, cb in bt:
-                if da + db > T:
-                    break
-                p = mmul(ma, mb)
-                if p is None:
-                    continue
-                s, m = p
-                if size(ca) * size(cb) > MAX_PRODUCT:
-                    raise LimitError(f"a product of coefficients with {size(ca)} and {size(cb)} "
-                                     f"terms is beyond the limit; simplify the input")
-                prod = ca * cb
-                if s < 0:
-                    prod = -prod
-                old = get(m)
-                raw[m] = prod if old is None else old + prod
-            if len(raw) > MAX_TERMS:
-                raise LimitError(f"a product grew beyond {MAX_TERMS} terms; simplify the input "
-                                 f"or lower truncate")
-        raw = {m: c for m, c in raw.items() if c}
-        return Element(R, *R.rewriter.normalize(raw, a._d * b._d))
+        L = R.layout
+        if L.has_odd(a._p) and L.has_odd(b._p):
+            raw = L.product_signed(a._t, b._t)
+            return R._make(raw, a._den * b._den)
+        pairs = _factor_pairs(L, a._p, b._p)
+        if sum(len(x) * len(y) for x, y in pairs) > MAX_PRODUCT:
+            raise LimitError(f"a product of polynomials with {len(a._p)} and {len(b._p)} "
+                             f"terms is beyond the limit; simplify the input")
+        p = pairs[0][0] * pairs[0][1]
+        for x, y in pairs[1:]:
+            p += x * y
+        return R._normal(_capped(p), a._d * b._d)
 
     __rmul__ = __mul__
 
@@ -127,8 +121,7 @@ class Element:
         if other.is_zero:
             raise AlgebraError("division by zero")
         a = self._fresh()
-        num = other._t[()]
-        return a._ring._cancelled({m: c * other._d for m, c in a._t.items()}, a._d * num)
+        return Element(a._ring, *a._ring.layout.cancel(a._p * other._d, a._d * other._p))
 
     def __rtruediv__(self, other):
         return self._ring._coerce(other) / self
@@ -138,16 +131,20 @@ class Element:
             return NotImplemented
         a = self._fresh()
         R = a._ring
+        L = R.layout
         if n < 0:
             return (R.one() / a) ** (-n)
         if a.is_class_free():
             if a.is_zero:
                 return R.one() if n == 0 else a
-            for poly in (a._t[()], a._d):
+            for poly in (a._p, a._d):
                 R.coeffs.check_power_size(poly, n, MAX_TERMS)
-            return R._cancelled({(): a._t[()] ** n}, a._d ** n)
-        if () not in a._t and n * min(R.monos.degree(m) for m in a._t) > R.truncate:
+            return Element(R, *L.cancel(a._p ** n, a._d ** n))
+        low = min(k for k, _ in L.degree_parts(a._p))
+        if n * low > R.truncate:
             return R.zero()
+        if n * L.top_degree(a._p) <= R.truncate and not L.has_odd(a._p):
+            return R._normal(_capped(a._p ** n), a._d ** n)   # nothing to truncate: one FLINT power
         result, base = R.one(), a
         while n:
             if n & 1:
@@ -163,7 +160,7 @@ class Element:
         except AlgebraError:
             return NotImplemented
         a, b = self._fresh(), other._fresh()
-        return a._d == b._d and a._t == b._t
+        return a._d == b._d and a._p == b._p
 
     def __ne__(self, other):
         eq = self.__eq__(other)
@@ -172,22 +169,24 @@ class Element:
     # -------------------------------------------------------------- queries
     @property
     def is_zero(self) -> bool:
-        return not self._fresh()._t
+        return not self._fresh()._p
 
     def is_class_free(self) -> bool:
-        return all(m == () for m in self._fresh()._t)
+        a = self._fresh()
+        return a._ring.layout.top_degree(a._p) <= 0
 
     def degrees(self) -> list[int]:
         a = self._fresh()
-        return sorted({a._ring.monos.degree(m) for m in a._t})
+        return sorted(k for k, _ in a._ring.layout.degree_parts(a._p))
 
     def is_homogeneous(self) -> bool:
         return len(self.degrees()) <= 1
 
     def part(self, k: int) -> "Element":
         a = self._fresh()
-        deg = a._ring.monos.degree
-        return a._ring._cancelled({m: c for m, c in a._t.items() if deg(m) == k}, a._d)
+        L = a._ring.layout
+        parts = dict(L.degree_parts(a._p))
+        return Element(a._ring, *L.cancel(parts.get(k, L.zero), a._d))
 
     def _lead_mono(self) -> Mono:
         return self._ring.monos.leading(self._t)
@@ -204,7 +203,7 @@ class Element:
         R = a._ring
         out = []
         for m, c in a._sorted():
-            s, x, y, P, Q = printing.scalar_parts(R.coeffs, c, a._d)
+            s, x, y, P, Q = printing.scalar_parts(R.coeffs, c, a._den)
             coef = sympy.Integer(s) * sympy.Rational(x, y) * printing.prim_expr(P, R.symbols) \
                 / printing.prim_expr(Q, R.symbols)
             out.append((R.monos.pairs(m), coef))
@@ -217,7 +216,7 @@ class Element:
             raise AlgebraError("zero has no leading term")
         m = a._lead_mono()
         R = a._ring
-        return Element(R, {m: R.coeffs.one}, R.coeffs.one), R._cancelled({(): a._t[m]}, a._d)
+        return R._make({m: R.coeffs.one}, R.coeffs.one), R._make({(): a._t[m]}, a._den)
 
     def coefficient(self, monomial) -> "Element":
         """Class-free coefficient of an exact normal-form monomial (an Element or key pairs)."""
@@ -226,7 +225,7 @@ class Element:
         if isinstance(monomial, Element):
             monomial = monomial._fresh()
             items = list(monomial._t.items())
-            if len(items) != 1 or monomial._d != R.coeffs.one or items[0][1] != R.coeffs.one:
+            if len(items) != 1 or monomial._den != R.coeffs.one or items[0][1] != R.coeffs.one:
                 raise AlgebraError(f"{monomial.to_text()} is not a monomial")
             m = items[0][0]
         else:
@@ -236,7 +235,7 @@ class Element:
         c = a._t.get(m)
         if c is None:
             return R.zero()
-        return R._cancelled({(): c}, a._d)
+        return R._make({(): c}, a._den)
 
     def by_group(self, group: int) -> list[tuple[tuple[tuple[str, int], ...], "Element"]]:
         """Split as sum of (monomial in ``group`` classes) * (coefficient free of them)."""
@@ -249,22 +248,18 @@ class Element:
             r = tuple((i, e) for i, e in m if gens[i].group != group)
             sign, _ = R.monos.mul(f, r)
             collected.setdefault(f, {})[r] = c if sign > 0 else -c
-        return [(R.monos.pairs(f), R._cancelled(collected[f], a._d))
+        return [(R.monos.pairs(f), R._make(collected[f], a._den))
                 for f in sorted(collected, key=R.monos.key)]
 
     def generator_keys(self) -> set[str]:
         a = self._fresh()
         gens = a._ring.monos.gens
-        return {gens[i].key for m in a._t for i, _ in m}
+        return {gens[i].key for i in a._ring.layout.variable_degrees(a._p)[1]}
 
     def free_symbols(self) -> set:
         a = self._fresh()
-        syms = a._ring.symbols
-        found = set()
-        for p in list(a._t.values()) + [a._d]:
-            for exps, _ in a._ring.coeffs.items(p):
-                found.update(s for s, e in zip(syms, exps) if e)
-        return found
+        L, syms = a._ring.layout, a._ring.symbols
+        return {syms[i] for p in (a._p, a._d) for i in L.variable_degrees(p)[0]}
 
     def to_scalar(self):
         """The value as a sympy expression; it must be class-free."""
@@ -303,7 +298,7 @@ class Element:
 
         def scalar(poly) -> Element:
             if not sym_vals:
-                return R._cancelled({(): poly}, C.one)
+                return R._make({(): poly}, C.one)
             total = R.zero()
             for exps, c in C.items(poly):
                 rest = [0] * len(exps)
@@ -314,11 +309,11 @@ class Element:
                     else:
                         rest[j] = e
                 if any(rest):
-                    term = term * Element(R, {(): C.from_items({tuple(rest): Fraction(1)})}, C.one)
+                    term = term * R._make({(): C.from_items({tuple(rest): Fraction(1)})}, C.one)
                 total = total + term
             return total
 
-        den = scalar(a._d)
+        den = scalar(a._den)
         if not den.is_class_free() or den.is_zero:
             raise AlgebraError("the substitution makes a denominator vanish or contain classes")
         result = R.zero()
@@ -331,7 +326,7 @@ class Element:
                 else:
                     kept.append((i, e))
             if kept:
-                term = term * Element(R, {tuple(kept): C.one}, C.one)
+                term = term * R._make({tuple(kept): C.one}, C.one)
             result = result + term
         return result / den
 
@@ -339,7 +334,7 @@ class Element:
     def _printed_terms(self):
         a = self._fresh()
         C = a._ring.coeffs
-        return [(m, printing.scalar_parts(C, c, a._d)) for m, c in a._sorted()]
+        return [(m, printing.scalar_parts(C, c, a._den)) for m, c in a._sorted()]
 
     def to_text(self) -> str:
         """Deterministic text in the document's own expression syntax (re-readable)."""
@@ -354,4 +349,21 @@ class Element:
     def to_data(self) -> dict:
         """The exact value as plain JSON data, for the build cache (``serial``)."""
         a = self._fresh()
-        return serial.to_data(a._ring, a._sorted(), a._d)
+        return serial.to_data(a._ring, a._sorted(), a._den)
+
+
+def _capped(p):
+    if len(p) > MAX_TERMS:
+        raise LimitError(f"a product grew beyond {MAX_TERMS} terms; simplify the input "
+                         f"or lower truncate")
+    return p
+
+
+def _factor_pairs(L, p, q) -> list:
+    """What to multiply for p*q: the whole, or, when the product passes the
+    truncation, the pairs of degree components that stay within it."""
+    if L.top_degree(p) + L.top_degree(q) <= L.truncate or len(p) == 1 or len(q) == 1:
+        return [(p, q)]
+    qs = L.degree_parts(q)
+    pairs = [(x, y) for dp, x in L.degree_parts(p) for dq, y in qs if dp + dq <= L.truncate]
+    return pairs or [(L.zero, L.zero)]

@@ -23,6 +23,7 @@ from . import printing, serial
 from .coefficients import Coefficients
 from .element import Element
 from .errors import AlgebraError, LimitError, NotRational
+from .kernel import Layout
 from .monomials import Generator, Mono, Monomials
 from .rewriting import Rewriter
 
@@ -41,6 +42,7 @@ class Ring:
         self.coeffs = Coefficients(self.symbols)
         self.monos = Monomials()
         self.rewriter = Rewriter(self.monos, self.coeffs, self.truncate)
+        self.layout = Layout(self.coeffs, self.monos, self.truncate)
         self._epoch = 0
 
     # ----------------------------------------------------------- generators
@@ -61,6 +63,8 @@ class Ring:
         if isinstance(group, bool) or not isinstance(group, int) or group < 0:
             raise AlgebraError(f"group must be a non-negative integer, got {group!r}")
         self.monos.add(key, degree, text, latex, group)
+        self.layout.add_generator()
+        self._epoch += 1
         return self.gen(key)
 
     def gen(self, key: str) -> "Element":
@@ -78,7 +82,7 @@ class Ring:
 
     # -------------------------------------------------------------- scalars
     def zero(self) -> "Element":
-        return Element(self, {}, self.coeffs.one)
+        return Element(self, self.layout.zero, self.layout.one)
 
     def one(self) -> "Element":
         return self.scalar(1)
@@ -91,13 +95,13 @@ class Ring:
         q = self.coeffs.rational(value)
         if not q:
             return self.zero()
-        return Element(self, {(): q}, self.coeffs.one)
+        return Element(self, self.layout.embed(q), self.layout.one)
 
     def symbol(self, sym) -> "Element":
         pos = self.coeffs.position.get(sym)
         if pos is None:
             raise AlgebraError(f"{sym} is not a declared symbol")
-        return Element(self, {(): self.coeffs.symbol(pos)}, self.coeffs.one)
+        return Element(self, self.layout.embed(self.coeffs.symbol(pos)), self.layout.one)
 
     def from_scalar_expr(self, expr) -> "Element":
         """Convert a sympy expression that is a rational function of the symbols."""
@@ -118,7 +122,7 @@ class Ring:
         m = self._mono_from_pairs(pairs)
         if not self.rewriter.is_normal(m):
             raise AlgebraError(f"{self.monos.text(m)} is not a monomial of the normal form")
-        return Element(self, {m: self.coeffs.one}, self.coeffs.one)
+        return Element(self, self.layout.mono(m), self.layout.one)
 
     def monomial_text(self, pairs: Iterable[tuple[str, int]]) -> str:
         """A monomial as written, in or out of normal form, for messages."""
@@ -146,7 +150,7 @@ class Ring:
         monomial, replacement = monomial._fresh(), self._coerce(replacement)._fresh()
         C, monos = self.coeffs, self.monos
         items = list(monomial._t.items())
-        if len(items) != 1 or monomial._d != C.one or items[0][1] != C.one or not items[0][0]:
+        if len(items) != 1 or monomial._den != C.one or items[0][1] != C.one or not items[0][0]:
             raise AlgebraError("the left side of a rule must be a single class monomial with coefficient 1")
         lhs = items[0][0]
         deg = monos.degree(lhs)
@@ -154,7 +158,7 @@ class Ring:
             raise AlgebraError(f"rule {monos.text(lhs)} -> {replacement.to_text()} is not homogeneous")
         new = {lhs: C.frac(C.one)}
         for m, c in replacement._t.items():
-            new[m] = new.get(m, C.frac(C.zero)) - C.frac(c, replacement._d)
+            new[m] = new.get(m, C.frac(C.zero)) - C.frac(c, replacement._den)
         self.rewriter.set_rules(self.rewriter.rule_polys() + [{m: c for m, c in new.items() if c}])
         self._epoch += 1
 
@@ -182,7 +186,7 @@ class Ring:
         """Normal form of ``x`` modulo the ideal of ``basis``: unique, order-independent."""
         x = self._coerce(x)._fresh()
         gb = self.rewriter.groebner(self._relation_polys(basis))
-        raw = {m: self.coeffs.frac(c, x._d) for m, c in x._t.items()}
+        raw = {m: self.coeffs.frac(c, x._den) for m, c in x._t.items()}
         return self._make(*self.coeffs.frac_parts(self.rewriter.reduce(raw, gb)))
 
     def _relation_polys(self, relations) -> list[dict]:
@@ -194,17 +198,24 @@ class Ring:
                                    f"(degrees {rel.degrees()})")
             if rel.is_zero:
                 continue
-            polys.append({m: self.coeffs.frac(c, rel._d) for m, c in rel._t.items()})
+            polys.append({m: self.coeffs.frac(c, rel._den) for m, c in rel._t.items()})
         return polys
 
     # ------------------------------------------------------------- internal
     def _make(self, raw: dict, den) -> "Element":
+        """The normal form of {monomial: polynomial in the symbols} over ``den``."""
         deg, T = self.monos.degree, self.truncate
-        raw = {m: c for m, c in raw.items() if c and deg(m) <= T}
-        return Element(self, *self.rewriter.normalize(raw, den))
+        packed = self.layout.pack({m: c for m, c in raw.items() if c and deg(m) <= T})
+        return self._normal(packed, self.layout.embed(den))
 
-    def _cancelled(self, terms: dict, den) -> "Element":
-        return Element(self, *self.coeffs.cancel(terms, den))
+    def _normal(self, p, d) -> "Element":
+        """The normal form of p/d, both in the layout's current context."""
+        rules, limits = self.rewriter.packed(self.layout)
+        return Element(self, *self.layout.normalize(p, d, rules, limits))
+
+    def _renew(self, p, d) -> "Element":
+        """An element built before the latest generator or rule, brought up to date."""
+        return self._normal(self.layout.move(p), self.layout.move(d))
 
     def _coerce(self, x) -> "Element":
         if isinstance(x, Element):

@@ -1,20 +1,20 @@
-"""Rewriting to normal form: the ring's rules as a reduced Gröbner basis, and reduction.
+"""The ring's rules as a reduced Gröbner basis, degree limits, and reduction modulo relations.
 
 Rules (e^2 -> p_n, fiber relations) are kept as a reduced Gröbner basis in
 the block order of ``monomials`` so that normal forms are unique however the
 rules were added; degree limits per group (a fiber class of degree above the
-fiber's dimension vanishes) are applied with them.  Polynomials here are
-dicts ``{monomial: fraction}`` (Gröbner work) or ``{monomial: numerator}``
-over a common denominator (normal forms of elements).
+fiber's dimension vanishes) are applied with them by ``kernel``.  Gröbner
+polynomials here are dicts ``{monomial: Frac}``.
 """
 from __future__ import annotations
 
 from .errors import AlgebraError
+from .kernel import minimal_beyond
 from .monomials import Mono
 
 
 class Rewriter:
-    """Rules and limits of one ring, with the cached normal form of each monomial."""
+    """Rules and limits of one ring, and Buchberger's algorithm in its order."""
 
     def __init__(self, monos, coeffs, truncate: int):
         self.monos = monos
@@ -22,7 +22,8 @@ class Rewriter:
         self.truncate = truncate
         self.rules: list[tuple[Mono, dict, object]] = []   # (lhs, rhs terms, rhs den)
         self.limits: dict[int, int] = {}
-        self._nf: dict[Mono, object] = {}
+        self._version = 0
+        self._packed: tuple = (None, None)
 
     # ------------------------------------------------------------ rules
     def set_rules(self, polys: list[dict]) -> None:
@@ -34,12 +35,12 @@ class Rewriter:
             rhs = {m: -c for m, c in g.items() if m != lead}
             terms, den = self.coeffs.frac_parts(rhs)
             self.rules.append((lead, terms, den))
-        self._nf.clear()
+        self._version += 1
 
     def limit(self, group: int, degree: int) -> None:
         old = self.limits.get(group)
         self.limits[group] = degree if old is None else min(old, degree)
-        self._nf.clear()
+        self._version += 1
 
     def rule_polys(self) -> list[dict]:
         """The current rules as fraction polynomials lhs - rhs."""
@@ -53,69 +54,30 @@ class Rewriter:
         return out
 
     # ------------------------------------------------------ normal form
-    def nf_mono(self, m: Mono):
-        """None if m is in normal form, else (terms, den) of its normal form."""
-        if m in self._nf:
-            return self._nf[m]
-        monos = self.monos
-        result = None
-        for lhs, rterms, rden in self.rules:
-            q = monos.div(m, lhs)
-            if q is None:
-                continue
-            sign, _ = monos.mul(lhs, q)
-            raw: dict = {}
-            for mr, c in rterms.items():
-                p = monos.mul(mr, q)
-                if p is None:
-                    continue
-                s, mm = p
-                v = raw.get(mm, self.coeffs.zero) + (c if s * sign > 0 else -c)
-                if v:
-                    raw[mm] = v
-                else:
-                    raw.pop(mm, None)
-            result = self.normalize(raw, rden)
-            break
-        else:
-            if any(monos.group_degree(m, g) > lim for g, lim in self.limits.items()):
-                result = ({}, self.coeffs.one)
-        self._nf[m] = result
-        return result
-
-    def normalize(self, raw: dict, den):
-        """Apply rules and limits to a truncated raw term map; returns cancelled (terms, den)."""
-        C = self.coeffs
-        if self.rules or self.limits:
-            out: dict = {}
-            extra = []
-            for m, c in raw.items():
-                r = self.nf_mono(m)
-                if r is None:
-                    out[m] = out.get(m, C.zero) + c
-                elif r[0]:
-                    extra.append((c, r))
-            if extra:
-                lcm = C.one
-                for _, (_, d) in extra:
-                    lcm = C.lcm(lcm, d)
-                if lcm != C.one:
-                    out = {m: c * lcm for m, c in out.items()}
-                    den = den * lcm
-                for c, (rt, d) in extra:
-                    scale = c if d == lcm else c * C.exquo(lcm, d)
-                    for mm, cc in rt.items():
-                        out[mm] = out.get(mm, C.zero) + scale * cc
-            raw = {m: c for m, c in out.items() if c}
-        return C.cancel(raw, den)
-
     def is_normal(self, m: Mono) -> bool:
+        """No rule applies to m, it is within the limits and the truncation,
+        and no odd class appears squared."""
         monos = self.monos
         if monos.degree(m) > self.truncate:
             return False
         if any(e > 1 and monos.gens[i].degree % 2 for i, e in m):
             return False
-        return self.nf_mono(m) is None
+        if any(monos.div(m, lhs) is not None for lhs, _, _ in self.rules):
+            return False
+        return all(monos.group_degree(m, g) <= lim for g, lim in self.limits.items())
+
+    def packed(self, layout):
+        """(rules as (lhs, rhs, den), limit monomials) in ``layout``'s context, cached."""
+        key = (layout.version, self._version)
+        if self._packed[0] != key:
+            rules = [(layout.mono(lhs), layout.pack(terms), layout.embed(den))
+                     for lhs, terms, den in self.rules]
+            limits = []
+            for group, limit in sorted(self.limits.items()):
+                degrees = {g.index: g.degree for g in self.monos.gens if g.group == group}
+                limits.extend(layout.mono(m) for m in minimal_beyond(degrees, limit))
+            self._packed = (key, (rules, limits))
+        return self._packed[1]
 
     # ------------------------------------------------------------ Gröbner
     def reduce(self, f: dict, basis: list[dict]) -> dict:
