@@ -504,3 +504,19 @@ def test_minimal_monomials_beyond_a_limit():
     from compiler.algebra.kernel import minimal_beyond
     assert sorted(minimal_beyond({0: 2, 1: 4}, 4)) == [((0, 1), (1, 1)), ((0, 3),), ((1, 2),)]
     assert minimal_beyond({0: 4}, 4) == [((0, 2),)]
+
+
+def test_the_ring_imports_neither_sympy_nor_matplotlib():
+    # issue 11, item 4: a build whose algebra needs no sympy does not pay for importing it
+    import os
+    import subprocess
+    import sys
+    from pathlib import Path
+    root = Path(__file__).resolve().parent.parent
+    code = ("import sys, compiler.algebra.graded, compiler.algebra.bundles, "
+            "compiler.algebra.genera, compiler.algebra.fibers; "
+            "print(sorted(m for m in ('sympy', 'matplotlib') if m in sys.modules))")
+    env = dict(os.environ, PYTHONPATH=str(root))
+    out = subprocess.run([sys.executable, "-c", code], cwd=root, env=env,
+                         capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "[]"

@@ -17,7 +17,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Sequence, Union
 
-from ..notation import name_latex
 from .graded import AlgebraError, Element, Ring
 
 REAL, COMPLEX = "real", "complex"
@@ -76,6 +75,7 @@ class BundleTable:
         return b
 
     def _register(self, b: Bundle) -> list[str]:
+        from ..notation import name_latex   # here, so that importing the algebra needs no sympy
         ring, n, tex = self.ring, b.name, name_latex(b.name)
         keys = []
 
