@@ -168,7 +168,8 @@ def plural(n: int, word: str) -> str:
 def summary(path: str, report, written=()) -> str:
     """``doc.md: passed — 46 checks: 43 proven, 3 sampled (50 steps); wrote out/doc.html``."""
     total = sum(len(s.checks) for s in report.steps)
-    counts = ", ".join(f"{report.count(s)} {s}" for s in STATUSES if report.count(s))
+    counts = ", ".join(plural(report.count(s), s) if s == "error" else f"{report.count(s)} {s}"
+                       for s in STATUSES if report.count(s))
     line = (f"{path}: {VERDICTS[status_of(report)]} \u2014 {plural(total, 'check')}"
             f"{': ' + counts if counts else ''} ({plural(len(report.steps), 'step')})")
     return line + (f"; wrote {', '.join(str(p) for p in written)}" if written else "")
