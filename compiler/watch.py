@@ -36,8 +36,9 @@ RELOAD_SCRIPT = """<script>/* anomark watch: live reload, in the served copy onl
 """
 
 PLACEHOLDER = ("<!DOCTYPE html><html lang=\"en\"><head><meta charset=\"utf-8\"><title>anomark watch</title>"
-               "</head><body><p>No report yet: the document could not be compiled. The problems are "
-               "on the terminal; this page reloads when a build succeeds.</p></body></html>")
+               "</head><body><p>No report yet: the first build is still running, or the document could "
+               "not be compiled (the problems are on the terminal). This page reloads when a build "
+               "finishes.</p></body></html>")
 
 
 class Site:
