@@ -440,7 +440,10 @@ def test_every_statement_word_has_a_form():
     ("symbol x: y > 0", 1, 11, "a bound on 'y', which this statement does not declare"),
     ("symbol x: 0 < x > 1", 1, 17, "a chained bound runs one way, as in 0 < x < 1"),
     ("symbol x: x == 0", 1, 13, "a bound compares with <, <=, > or >=, found '=='"),
-    ("symbol x: x > y", 1, 15, "expected a rational number such as 2, -3 or 1/2, found 'y'"),
+    # (``x > y`` is a relation since symbols may be related; a nonlinear side is refused)
+    ("symbol x: x > y^2", 1, 16, "a relation between symbols is linear: rational multiples of "
+                                 "symbols, added (such as 3*Nc or Nc/2 + 1)"),
+    ("symbol x: x > 2*3", 1, 15, "expected a rational number such as 2, -3 or 1/2, found '2'"),
     ("symbol x: x > 1/0", 1, 16, "division by zero"),
     ("symbol x, x", 1, 11, "'x' appears twice"),
     ("bundle B: real", 1, 11, "a real bundle needs its rank, as in 'real, rank 4'"),
