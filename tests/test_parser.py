@@ -10,7 +10,7 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from compiler.errors import DocumentError
-from compiler.statements import nodes as n
+from compiler.statements import nodes as n, words
 from compiler.statements.parser import parse_block
 
 
@@ -390,8 +390,8 @@ def test_every_statement_word_has_a_form():
         plot a over x in 0..1
     """
     kinds = [s.kind for s in parse(block)]
-    assert set(kinds) == n.STATEMENT_WORDS
-    assert len(kinds) == len(n.STATEMENT_WORDS)
+    assert set(kinds) == words.STATEMENT_WORDS
+    assert len(kinds) == len(words.STATEMENT_WORDS)
 
 
 # ---------------------------------------------------------------- errors
@@ -550,7 +550,7 @@ def _parses_or_reports(text: str) -> None:
             assert p.location.path == "doc.md" and p.location.line >= 1
             assert p.location.column >= 1 and p.message
         return
-    assert all(s.kind in n.STATEMENT_WORDS for s in statements)
+    assert all(s.kind in words.STATEMENT_WORDS for s in statements)
 
 
 @settings(max_examples=400, deadline=None)

@@ -12,7 +12,7 @@ from fractions import Fraction
 from typing import NoReturn, Optional
 
 from compiler.errors import DocumentError, Location
-from compiler.statements import nodes as n
+from compiler.statements import nodes as n, words
 from compiler.statements.lexer import LogicalLine, Token
 from compiler.statements.tree import Ident
 
@@ -117,7 +117,7 @@ class Cursor:
         token = self.peek()
         if token.kind != "name":
             self.expected(what)
-        if token.text in n.STATEMENT_WORDS:
+        if token.text in words.STATEMENT_WORDS:
             self.fail(token, f"'{token.text}' is a statement word and cannot be a name")
         self.next()
         return Ident(token.text, token.line, token.column)
@@ -234,9 +234,9 @@ def _name_or_call(c: Cursor) -> n.Expr:
     name = c.name()
     if not c.at("("):
         return n.Name(name, name.line, name.column)
-    if not n.is_builtin_function(name):
+    if not words.is_builtin_function(name):
         c.fail(token, f"'{name}' is not a built-in function"
-               + did_you_mean(name, n.BUILTIN_FUNCTIONS))
+               + did_you_mean(name, words.BUILTIN_FUNCTIONS))
     c.next()
     args = [expr(c)]
     while c.accept(","):

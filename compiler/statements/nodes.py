@@ -9,7 +9,6 @@ package never imports sympy.
 """
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Optional, Union
@@ -362,23 +361,3 @@ Statement = Union[
     SphereFiber, GeneralFiber, Let, Substitute, Reduce, Integrate,
     Coefficients, Extremize, Check, Show, Table, Plot,
 ]
-
-#: Words that begin a statement; they cannot be used as names.
-STATEMENT_WORDS = frozenset({
-    "symbol", "convention", "bundle", "split", "fiber", "let", "substitute",
-    "reduce", "integrate", "coefficients", "maximize", "minimize",
-    "extremize", "check", "show", "table", "plot",
-})
-
-#: Built-in functions; a name is a function only in call position.
-BUILTIN_FUNCTIONS = frozenset({
-    "p", "c", "e", "Ahat", "L", "td", "ch", "S", "dual", "wedge", "sym",
-    "part", "degree", "sqrt", "trivial",
-})
-
-_INDEXED_CLASS = re.compile(r"[pc][1-9][0-9]*")
-
-
-def is_builtin_function(name: str) -> bool:
-    """True for ``p``, ``ch``, ... and the indexed classes ``p1``, ``c12``."""
-    return name in BUILTIN_FUNCTIONS or _INDEXED_CLASS.fullmatch(name) is not None

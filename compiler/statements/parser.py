@@ -12,7 +12,7 @@ from __future__ import annotations
 from typing import Optional
 
 from compiler.errors import DocumentError, Location, Problem
-from compiler.statements import nodes as n
+from compiler.statements import nodes as n, words
 from compiler.statements.core import Cursor, did_you_mean
 from compiler.statements.fibers import BODY_WORDS, FiberBody, GeneralHeader, body_line
 from compiler.statements.lexer import Token, logical_lines
@@ -97,4 +97,4 @@ def _unknown_statement(word: str, after: Token) -> str:
     message = f"unknown statement '{word}'"
     if after.kind == "op" and after.text == "=":
         return message + f"; did you mean 'let {word} = ...'?"
-    return message + did_you_mean(word, n.STATEMENT_WORDS)
+    return message + did_you_mean(word, words.STATEMENT_WORDS)
