@@ -20,6 +20,9 @@ _FRONT_MATTER_OPEN = re.compile(r"-{3,}[ \t]*")
 #: Longer lines are refused before any parsing (a formula or a paragraph
 #: line is far shorter; a runaway line would cost time and memory).
 MAX_LINE_LENGTH = 10_000
+#: Characters in the whole file, for the same reason (the largest bundled
+#: derivation has about ten thousand).
+MAX_DOCUMENT_SIZE = 1_000_000
 #: Lines in derive blocks, counted before parsing: every statement takes at
 #: least one, so this bounds the statements of a document too.
 MAX_STATEMENT_LINES = 10_000
@@ -79,7 +82,7 @@ def read_document(path: str, text: str) -> Document:
     """Split ``text`` (the contents of ``path``) into front matter, prose and blocks."""
     text = text.replace("\r\n", "\n").replace("\r", "\n").removeprefix("\ufeff")
     lines = text.split("\n")
-    _check_line_lengths(path, lines)
+    _check_sizes(path, lines)
     tokens = make_markdown().enable("front_matter").parse(text)
     md = make_markdown()  # as the renderers will parse each prose run
 
@@ -116,12 +119,19 @@ def _is_derive(info: str) -> bool:
     return bool(words) and words[0] == "derive"
 
 
-def _check_line_lengths(path: str, lines: list[str]) -> None:
+def _check_sizes(path: str, lines: list[str]) -> None:
+    """Refuse a runaway line or file at the line where it passes its limit."""
+    size = 0
     for number, line in enumerate(lines, 1):
         if len(line) > MAX_LINE_LENGTH:
             raise DocumentError(Location(path, number, MAX_LINE_LENGTH + 1),
                                 f"line longer than {MAX_LINE_LENGTH} characters (the limit "
                                 f"on line length)")
+        size += len(line) + 1
+        if size > MAX_DOCUMENT_SIZE:
+            raise DocumentError(Location(path, number, 1),
+                                f"document longer than {MAX_DOCUMENT_SIZE} characters (the "
+                                f"limit on document size)")
 
 
 def _count_statement_lines(path: str, fence, counted: int) -> int:

@@ -16,6 +16,8 @@ from .errors import DocumentError, Location, Problem
 from .statements import nodes as n
 from .statements.tree import Ident, walk
 
+#: "Did you mean" is searched for this many problems, then no more.
+MAX_SUGGESTIONS = 20
 #: Conventions every document has, with their defaults.
 BUILTIN_CONVENTIONS = {"angular_integral": 2}
 
@@ -45,6 +47,10 @@ class NameTable:
         self.problems.append(Problem(Location(self.path, line, column), message))
 
     def suggest(self, name: str) -> str:
+        """A close name in force, for the first few problems only: each
+        search costs time in the number of names."""
+        if len(self.problems) >= MAX_SUGGESTIONS:
+            return ""
         close = difflib.get_close_matches(name, list(self.names), n=1)
         return f" (did you mean '{close[0]}'?)" if close else ""
 

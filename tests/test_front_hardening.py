@@ -13,7 +13,8 @@ from fractions import Fraction
 import pytest
 
 from compiler import names
-from compiler.document import MAX_LINE_LENGTH, MAX_STATEMENT_LINES, read_document
+from compiler.document import (MAX_DOCUMENT_SIZE, MAX_LINE_LENGTH, MAX_STATEMENT_LINES,
+                               read_document)
 from compiler.errors import DocumentError
 from compiler.front_matter import MAX_YAML_DEPTH, MAX_YAML_DIGITS
 from compiler.statements import nodes as n, words
@@ -106,9 +107,15 @@ def test_a_long_line_is_refused_before_parsing():
 
 
 def test_too_many_statements_are_refused_before_parsing():
-    body = "".join(f"let a{i} = {i}\n" for i in range(100_000))
-    (found,) = problems("text\n\n```derive\n" + body + "```\n")
+    (found,) = problems("text\n\n```derive\n" + "show 1\n" * 100_000 + "```\n")
     assert found[:2] == (4 + MAX_STATEMENT_LINES, 1) and "limit on statements" in found[2]
+
+
+def test_a_huge_document_is_refused_before_parsing():
+    line = "x" * (MAX_LINE_LENGTH - 1) + "\n"
+    (found,) = problems(line * (MAX_DOCUMENT_SIZE // len(line) + 5))
+    assert found[:2] == (MAX_DOCUMENT_SIZE // len(line) + 1, 1)
+    assert "limit on document size" in found[2]
 
 
 def test_a_huge_rank_is_refused_at_parse_time():
@@ -118,6 +125,24 @@ def test_a_huge_rank_is_refused_at_parse_time():
                                "not 99999999999999")
     (bundle,) = parse_block(f"bundle T: complex, rank {MAX_RANK}", 1, "doc.md")
     assert bundle.rank == MAX_RANK
+
+
+@pytest.mark.parametrize("text, column, limit", [
+    ("fiber F: dimension 100000", 20, "the fiber dimension is at most 64"),
+    ("split T = trivial(100000)", 19, f"the rank of trivial(k) is at most {MAX_RANK}"),
+])
+def test_other_declared_sizes_are_bounded(text, column, limit):
+    with pytest.raises(DocumentError) as info:
+        parse_block(text, 1, "doc.md")
+    assert info.value.location.column == column and info.value.message.startswith(limit)
+
+
+def test_did_you_mean_stops_after_the_first_problems():
+    text = "symbol kappa\n" + "".join(f"let a{i} = kapa\n" for i in range(names.MAX_SUGGESTIONS + 5))
+    with pytest.raises(DocumentError) as info:
+        names.resolve("doc.md", parse_block(text, 1, "doc.md"), [], [])
+    hinted = ["did you mean" in p.message for p in info.value.problems]
+    assert hinted == [True] * names.MAX_SUGGESTIONS + [False] * 5
 
 
 # ---------------------------------------------------------------- identifiers and tables

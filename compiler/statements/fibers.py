@@ -16,7 +16,8 @@ from compiler.statements.lexer import LogicalLine
 from compiler.statements.tree import Ident
 
 BODY_WORDS = ("class", "relation", "integral")
-#: A fiber of higher dimension is beyond any anomaly computation.
+#: A fiber of higher dimension (or a class of higher degree) is beyond any
+#: anomaly computation.
 MAX_FIBER_DIMENSION = 64
 
 
@@ -131,7 +132,7 @@ def body_line(c: Cursor) -> tuple[str, list]:
 def _body_class(c: Cursor) -> tuple[str, list]:
     names = c.name_list("a class name")
     c.expect(":")
-    degree = c.positive_integer("the degree")
+    degree = c.positive_integer("the degree", MAX_FIBER_DIMENSION)
     return "classes", [n.FiberClass(name, degree, name.line, name.column) for name in names]
 
 
