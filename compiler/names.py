@@ -85,6 +85,13 @@ class NameTable:
                          f"'{name}' is a {found.kind} (line {found.line}), but a {what} is needed here")
 
 
+def _idents(statement, field: str) -> Iterator[tuple[Ident, object]]:
+    """The identifiers in one field of a statement, each with its parent node."""
+    for item, parent in walk(getattr(statement, field)):
+        if isinstance(item, Ident):
+            yield item, parent
+
+
 @dataclass(frozen=True)
 class Use:
     """The names in field ``field`` are read.  A name written on its own (a
@@ -96,13 +103,8 @@ class Use:
     role: str = ""
     expr_kinds: Optional[tuple[str, ...]] = None
 
-    def idents(self, statement) -> Iterator[tuple[Ident, object]]:
-        for item, parent in walk(getattr(statement, self.field)):
-            if isinstance(item, Ident):
-                yield item, parent
-
     def __call__(self, table: "NameTable", statement) -> None:
-        for name, parent in self.idents(statement):
+        for name, parent in _idents(statement, self.field):
             in_expression = isinstance(parent, n.Name)
             table.use(name, name.line, name.column,
                       self.expr_kinds if in_expression else self.kinds,
@@ -118,13 +120,9 @@ class Bind:
     field: str
     kind: str
 
-    def idents(self, statement) -> Iterator[tuple[Ident, object]]:
-        for item, parent in walk(getattr(statement, self.field)):
-            if isinstance(item, Ident):
-                yield item, parent or statement
-
     def __call__(self, table: "NameTable", statement) -> None:
-        for name, site in self.idents(statement):
+        for name, parent in _idents(statement, self.field):
+            site = parent or statement
             table.declare(name, self.kind, site.line, site.column,
                           rebind=getattr(statement, "rebind", False))
 
@@ -143,8 +141,7 @@ def _relations_not_evaluated(table: "NameTable", s: n.SymbolDecl) -> None:
                                         "not evaluated yet; bound each symbol by numbers")
 
 
-_VALUE = "value"
-_OUT = (Bind("outputs", _VALUE),)
+_OUT = (Bind("outputs", "value"),)
 _FOR = Use("clauses", ("symbol",), "symbol to substitute")
 
 #: What each statement reads and binds: callables ``(table, statement)``
@@ -161,13 +158,13 @@ RULES: dict[type, tuple] = {
     n.SphereFiber: (Use("bundle", ("bundle",)), Bind("name", "fiber"), Bind("angular", "class")),
     n.GeneralFiber: (Bind("name", "fiber"), Bind("classes", "class"),
                      Use("relations"), Use("integrals")),
-    n.Let: (Use("expr"), Bind("name", _VALUE)),
+    n.Let: (Use("expr"), Bind("name", "value")),
     n.Substitute: (Use("target"), Use("pairs"), *_OUT),
     n.Reduce: (Use("target"), Use("relations"), *_OUT),
     n.Integrate: (Use("target"), Use("fiber", ("fiber",)), *_OUT),
     n.Coefficients: (Use("target"), Use("monomials"), *_OUT),
     n.Extremize: (Use("target"), Use("variables", ("symbol",), "declared symbol to vary"),
-                  Bind("point", _VALUE), Bind("value", _VALUE)),
+                  Bind("point", "value"), Bind("value", "value")),
     n.Check: (Use("lhs"), Use("rhs"), _FOR),
     n.Show: (Use("exprs"),),
     n.Table: (Use("exprs"), _FOR),
@@ -178,14 +175,14 @@ RULES: dict[type, tuple] = {
 def references(statement) -> list[Ident]:
     """Every name a statement reads, in order: the inputs of its result."""
     found = [name for entry in RULES[type(statement)] if isinstance(entry, Use)
-             for name, _ in entry.idents(statement)]
+             for name, _ in _idents(statement, entry.field)]
     return list(dict.fromkeys(found))
 
 
 def bound_names(statement) -> list[Ident]:
     """Every name a statement binds (so a failed one can mark them missing)."""
     return [name for entry in RULES[type(statement)] if isinstance(entry, Bind)
-            for name, _ in entry.idents(statement)]
+            for name, _ in _idents(statement, entry.field)]
 
 
 def resolve(path: str, statements, front_conventions, prose_refs) -> dict[str, Declared]:
