@@ -211,3 +211,33 @@ def test_a_relation_is_not_silently_ignored(tmp_path):
     assert [f[:2] for f in found] == [(3, 21), (3, 30), (3, 35)]
     assert all("not evaluated yet" in f[2] for f in found[:2])
     assert "unknown name 'M'" in found[2][2]
+
+
+# ---------------------------------------------------------------- layering
+
+
+def _imports(path) -> set[str]:
+    import ast
+
+    tree = ast.parse(path.read_text())
+    found = set()
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Import):
+            found |= {alias.name for alias in node.names}
+        elif isinstance(node, ast.ImportFrom):
+            found.add(node.module or "")
+    return found
+
+
+def test_the_front_end_keeps_its_import_directions():
+    # architecture: statements never import sympy; the document reader does not
+    # reach into the statement nodes (only the reserved words)
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parent.parent / "compiler"
+    for path in (root / "statements").glob("*.py"):
+        assert not any(m.split(".")[0] == "sympy" for m in _imports(path)), path
+    for name in ("document.py", "front_matter.py", "markdown.py"):
+        imported = _imports(root / name)
+        assert not any(m.startswith("compiler.statements") and m != "compiler.statements.words"
+                       for m in imported), name
