@@ -110,7 +110,7 @@ def group(family: str, n=None) -> Group:
 
 def _unknown(name: str):
     known = list(CLASSICAL) + list(_EXCEPTIONAL)
-    close = difflib.get_close_matches(name, known, n=1)
+    close = [k for k in known if k.lower() == name.lower()] or difflib.get_close_matches(name, known, n=1)
     hint = f"did you mean {close[0]}?" if close else f"known groups: {', '.join(known)}"
     raise GroupError(f"unknown group '{name}'; {hint}")
 

@@ -19,10 +19,11 @@ from functools import lru_cache
 
 from compiler.algebra import adams
 from compiler.algebra.groups import (
-    CLASSICAL, Group, Normalisation, Rep, casimir_degrees, omega, representation)
-from compiler.algebra.weights import GroupError, RootSystem, weight_system
+    CLASSICAL, Group, Normalisation, Rep, casimir_degrees, dimension, omega, representation)
+from compiler.algebra.weights import MAX_WEIGHTS, GroupError, RootSystem, weight_system
 
 MAX_DEGREE = 12          # highest k of tr F^k
+MAX_POWER = 12           # highest symmetric or antisymmetric power at symbolic rank
 EXTRA_POINTS = 4         # evaluation points beyond the number of unknowns, as a check
 
 
@@ -171,6 +172,10 @@ def _traces(g: Group, rep: Rep, degree: int) -> tuple:
 def traces(g: Group, rep: Rep, degree: int) -> dict[tuple[Invariant, ...], Fraction]:
     """tr_rep F^degree as {monomial in invariant_basis(g): coefficient}; zero terms omitted."""
     _check_degree(degree)
+    dim = dimension(g, rep)
+    if dim > MAX_WEIGHTS:
+        raise GroupError(f"this representation of {g} has dimension {dim}, above the limit of "
+                         f"{MAX_WEIGHTS} weights for a weight system; choose a smaller representation")
     return dict(_traces(g, rep, degree))
 
 
@@ -202,8 +207,8 @@ def symbolic_traces(g: Group, name: str, degree: int, power: int | None = None):
     traces: coefficients in ascending powers of N}.  Valid where tr F^2 .. tr F^degree are
     independent (N >= degree for SU(N)); at smaller N use `traces`."""
     _check_degree(degree)
-    if name in ("antisymmetric", "symmetric") and power is not None and power < 1:
-        raise GroupError(f"{name} {power}: the power must be at least 1")
+    if power is not None and not 1 <= power <= MAX_POWER:
+        raise GroupError(f"{name} {power}: at symbolic rank the power must be from 1 to {MAX_POWER}")
     key = _symbolic_key(g, name)
     raw = adams.rank_traces(g.family, key, 2 if power is None else power, degree)
     return {tuple(Invariant(d, "tr", g.base) for d in mono): coeffs for mono, coeffs in raw.items()}

@@ -188,8 +188,8 @@ def _check_size(rs: RootSystem, labels) -> None:
     dim = dimension(rs, labels)
     if dim > MAX_WEIGHTS:
         raise GroupError(
-            f"the representation {list(labels)} of {rs.name} has dimension {dim}, above the "
-            f"limit of {MAX_WEIGHTS} weights for a weight system; choose a smaller representation")
+            f"the representation {list(labels)} of the Lie algebra {rs.name} has dimension {dim}, "
+            f"above the limit of {MAX_WEIGHTS} weights for a weight system; choose a smaller one")
 
 
 @lru_cache(maxsize=256)
