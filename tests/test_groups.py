@@ -6,7 +6,8 @@ from fractions import Fraction as Q
 import pytest
 
 from compiler.algebra.groups import (
-    Group, Rep, casimir_degrees, dimension, dual_coxeter, group, index, normalisation, representation)
+    Group, Rep, casimir_degrees, dimension, dual_coxeter, group, index, normalisation,
+    quadratic_casimir, representation)
 from compiler.algebra.traces import (
     MAX_DEGREE, Invariant, invariant_basis, npoly_value, symbolic_normalisation, symbolic_traces, traces)
 from compiler.algebra.weights import MAX_WEIGHTS, GroupError, dominant_weights, weight_system
@@ -87,6 +88,15 @@ def test_classical_dimensions(family, n, names):
     g = group(family, n)
     for name, dim in names.items():
         assert dimension(g, representation(g, name)) == dim, name
+
+
+def test_quadratic_casimir_of_the_fundamental():
+    # C_2(fund) = (N^2 - 1)/(2N) with tr(T^a T^b) = delta/2 (common practice, no source); twice that
+    # with long roots of length squared 2, where the adjoint has C_2 = 2N
+    for n in (2, 3, 7):
+        g = group("SU", n)
+        assert quadratic_casimir(g, representation(g, "fundamental").summands[0]) == Q(n * n - 1, n)
+        assert quadratic_casimir(g, representation(g, "adjoint").summands[0]) == 2 * n
 
 
 def test_antisymmetric_powers_of_so_even():
@@ -226,6 +236,10 @@ def test_spinor_traces_of_so10():
     so10 = group("SO", 10)
     assert rep_traces(so10, "spinor+", 2) == {mono(2, rep="vector"): 2}
     assert rep_traces(so10, "spinor+", 4) == {mono(4, rep="vector"): -1, mono(2, 2, rep="vector"): Q(3, 4)}
+    # ch(S+) - ch(S-) = prod_i (e^{x_i/2} - e^{-x_i/2}) = e + ...: at degree 5 the difference of
+    # the traces is 5! times the Pfaffian (common practice, no source)
+    pf = (Invariant(5, "pf", "vector"),)
+    assert rep_traces(so10, "spinor+", 5)[pf] - rep_traces(so10, "spinor-", 5)[pf] == 120
     # the two chiralities differ only by terms odd in the Pfaffian (common practice, no source)
     for k in range(2, 9):
         plus, minus = rep_traces(so10, "spinor+", k), rep_traces(so10, "spinor-", k)
@@ -312,6 +326,8 @@ def test_normalisations():
     (lambda: representation(group("SU", 5), (1, 0)), "give 4 non-negative integer Dynkin labels"),
     (lambda: representation(group("SU", 5), "antisymmetric", 5), "1 <= k <= 4"),
     (lambda: representation(group("E8"), "symmetric", 2), "give Dynkin labels"),
+    (lambda: representation(group("E8"), "adjoint", 2), "a power goes with"),
+    (lambda: representation(group("SU", 3), (1, True)), "non-negative integer"),
     (lambda: representation(group("SU"), "adjoint"), "symbolic rank"),
     (lambda: symbolic_traces(group("E8"), "adjoint", 2), "fixed rank"),
     (lambda: symbolic_traces(group("SO"), "spinor", 2), "needs a numeric rank"),

@@ -19,7 +19,8 @@ from compiler.algebra import weights
 
 CLASSICAL = ("SU", "SO", "Sp")
 _EXCEPTIONAL = {"G2": ("G", 2), "F4": ("F", 4), "E6": ("E", 6), "E7": ("E", 7), "E8": ("E", 8)}
-_SMALLEST = {"G2": 0, "F4": 3, "E6": 0, "E7": 6, "E8": 7}   # node of the smallest representation
+# nodes of the smallest representation and of its conjugate, exceptional groups
+_SMALLEST = {"G2": (0, 0), "F4": (3, 3), "E6": (0, 5), "E7": (6, 6), "E8": (7, 7)}
 
 
 @dataclass(frozen=True)
@@ -153,12 +154,12 @@ def _spinor(chirality: str):
 
 
 def _fundamental(g: Group, k) -> tuple[tuple[int, ...], ...]:
-    return (omega(g.series[1], _SMALLEST.get(g.family, 0)),)
+    return (omega(g.series[1], _SMALLEST.get(g.family, (0, 0))[0]),)
 
 
 def _antifundamental(g: Group, k) -> tuple[tuple[int, ...], ...]:
     series, r = g.series
-    return (omega(r, r - 1 if series == "A" else 5 if g.family == "E6" else _SMALLEST.get(g.family, 0)),)
+    return (omega(r, r - 1 if series == "A" else _SMALLEST.get(g.family, (0, 0))[1]),)
 
 
 def _vector(g: Group, k) -> tuple[tuple[int, ...], ...]:
@@ -202,6 +203,8 @@ def representation(g: Group, spec, power: int | None = None) -> Rep:
         raise GroupError(f"{g} has a symbolic rank: use symbolic_traces, or give a numeric rank "
                          f"for Dynkin labels")
     rank = g.series[1]
+    if power is not None and spec not in ("antisymmetric", "symmetric"):
+        raise GroupError(f"a power goes with antisymmetric or symmetric, not with {spec}")
     if isinstance(spec, str):
         if spec not in NAMES:
             close = difflib.get_close_matches(spec, list(NAMES), n=1)
@@ -209,7 +212,7 @@ def representation(g: Group, spec, power: int | None = None) -> Rep:
             raise GroupError(f"unknown representation '{spec}' of {g}; {hint} (or give {rank} Dynkin labels)")
         return Rep(NAMES[spec](g, 2 if power is None else power))
     labels = tuple(spec)
-    if len(labels) != rank or not all(isinstance(x, int) and x >= 0 for x in labels):
+    if len(labels) != rank or not all(type(x) is int and x >= 0 for x in labels):
         raise GroupError(f"{g} has rank {rank}: give {rank} non-negative integer Dynkin labels, "
                          f"got {list(labels)}")
     return Rep((labels,))

@@ -29,12 +29,17 @@ EXTRA_POINTS = 4         # evaluation points beyond the number of unknowns, as a
 
 @dataclass(frozen=True, order=True)
 class Invariant:
-    """A basis invariant: tr_rep F^degree (kind "tr") or the Pfaffian of SO(2n) (kind "pf")."""
+    """A basis invariant: tr_rep F^degree (kind "tr") or the Pfaffian of SO(2n) (kind "pf").
+
+    On the Cartan subalgebra the Pfaffian is prod_i x_i, x_i = (e_i, x) for the vector
+    weights e_i, the same roots in which tr_vector F^2 = 2 sum x_i^2.  It is oriented so
+    that tr_{spinor+} F^n - tr_{spinor-} F^n = n! pf, as in
+    ch(S+) - ch(S-) = prod_i (e^{x_i/2} - e^{-x_i/2}).
+    """
 
     degree: int
     kind: str
     rep: str
-
 
 
 # ---------------------------------------------------------------- traces at numeric rank
