@@ -54,12 +54,12 @@ def _points(rank: int, count: int) -> tuple[tuple[int, ...], ...]:
 @lru_cache(maxsize=512)
 def _power_sums(rs: RootSystem, labels: tuple[int, ...], count: int) -> tuple[tuple[int, ...], ...]:
     """For each point, the power sums sum_w m_w (w . c)^k for k = 0 .. MAX_DEGREE."""
-    system = weight_system(rs, labels)
+    system = [([(i, a) for i, a in enumerate(w) if a], m) for w, m in weight_system(rs, labels)]
     out = []
     for c in _points(rs.rank, count):
         values: dict[int, int] = {}
         for w, m in system:
-            v = sum(a * b for a, b in zip(w, c))
+            v = sum(a * c[i] for i, a in w)
             values[v] = values.get(v, 0) + m
         out.append(tuple(sum(m * v ** k for v, m in values.items()) for k in range(MAX_DEGREE + 1)))
     return tuple(out)

@@ -101,6 +101,8 @@ class RootSystem:
         # cartan[i][j] = 2 (alpha_i, alpha_j) / (alpha_j, alpha_j): row i is alpha_i in Dynkin labels
         self.cartan = tuple(tuple(int(2 * form[i][j] / form[j][j]) for j in range(rank))
                             for i in range(rank))
+        # nonzero entries of each row: a simple reflection moves only the node and its neighbours
+        self.sparse_rows = tuple(tuple((j, x) for j, x in enumerate(row) if x) for row in self.cartan)
         half = [form[i][i] / 2 for i in range(rank)]
         # (omega_i, omega_j) = (A^-1)_ij |alpha_j|^2 / 2
         inverse = _invert(self.cartan)
@@ -109,6 +111,7 @@ class RootSystem:
         self.scale = lcm(*(x.denominator for x in half))
         self.half = tuple(int(h * self.scale) for h in half)
         self.positive = self._positive_roots()      # in the simple-root basis
+        self.positive_labels = tuple(self.labels_of_root(a) for a in self.positive)
 
     def _positive_roots(self) -> tuple[tuple[int, ...], ...]:
         r = self.rank
@@ -134,7 +137,19 @@ class RootSystem:
         return tuple(sorted(found, key=lambda a: (sum(a), a)))
 
     def labels_of_root(self, a) -> tuple[int, ...]:
-        return tuple(sum(a[i] * self.cartan[i][j] for i in range(self.rank)) for j in range(self.rank))
+        labels = [0] * self.rank
+        for i, coefficient in enumerate(a):
+            if coefficient:
+                for j, x in self.sparse_rows[i]:
+                    labels[j] += coefficient * x
+        return tuple(labels)
+
+    def reflect(self, weight, i: int) -> tuple[int, ...]:
+        """The simple reflection s_i: weight - weight_i alpha_i."""
+        w, x = list(weight), weight[i]
+        for j, a in self.sparse_rows[i]:
+            w[j] -= x * a
+        return tuple(w)
 
     def pair(self, weight, root) -> int:
         """scale * (weight, root), weight in Dynkin labels, root in the simple-root basis."""
@@ -146,16 +161,15 @@ class RootSystem:
                     for i in range(self.rank) for j in range(self.rank)), Fraction(0))
 
     def highest_root(self) -> tuple[int, ...]:
-        return self.labels_of_root(self.positive[-1])
+        return self.positive_labels[-1]
 
     def reflect_to_dominant(self, weight) -> tuple[int, ...]:
-        w = list(weight)
+        w = tuple(weight)
         while True:
             i = next((i for i, x in enumerate(w) if x < 0), None)
             if i is None:
-                return tuple(w)
-            x = w[i]
-            w = [w[j] - x * self.cartan[i][j] for j in range(self.rank)]
+                return w
+            w = self.reflect(w, i)
 
     def exponents(self) -> tuple[int, ...]:
         """The exponents, from the numbers of positive roots of each height (Kostant)."""
@@ -202,8 +216,8 @@ def dominant_weights(rs: RootSystem, labels: tuple[int, ...]) -> dict[tuple[int,
     while layer:
         nxt = []
         for mu in layer:
-            for a in rs.positive:
-                nu = tuple(m - x for m, x in zip(mu, rs.labels_of_root(a)))
+            for a, step in zip(rs.positive, rs.positive_labels):
+                nu = tuple(m - x for m, x in zip(mu, step))
                 if min(nu) >= 0 and nu not in depth:
                     depth[nu] = tuple(c + x for c, x in zip(depth[mu], a))
                     nxt.append(nu)
@@ -211,13 +225,13 @@ def dominant_weights(rs: RootSystem, labels: tuple[int, ...]) -> dict[tuple[int,
     order = sorted(depth, key=lambda mu: sum(depth[mu]))
     two_rho_plus = tuple(x + 2 for x in labels)
     mult = {labels: 1}
-    norms = [rs.pair(rs.labels_of_root(a), a) for a in rs.positive]
+    norms = [rs.pair(step, a) for a, step in zip(rs.positive, rs.positive_labels)]
     for mu in order[1:]:
         # (lambda+rho)^2 - (mu+rho)^2 = (lambda - mu, lambda + mu + 2 rho)
         gap = sum(c * h * (x + m) for c, h, x, m in zip(depth[mu], rs.half, two_rho_plus, mu))
         total = 0
-        for a, norm in zip(rs.positive, norms):
-            step, base = rs.labels_of_root(a), rs.pair(mu, a)
+        for a, step, norm in zip(rs.positive, rs.positive_labels, norms):
+            base = rs.pair(mu, a)
             k, nu = 1, mu
             while True:
                 nu = tuple(x + s for x, s in zip(nu, step))
@@ -241,7 +255,7 @@ def orbit(rs: RootSystem, dominant: tuple[int, ...]) -> set[tuple[int, ...]]:
         for w in layer:
             for i, x in enumerate(w):
                 if x > 0:
-                    v = tuple(w[j] - x * rs.cartan[i][j] for j in range(rs.rank))
+                    v = rs.reflect(w, i)
                     if v not in seen:
                         seen.add(v)
                         nxt.append(v)
