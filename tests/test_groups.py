@@ -231,6 +231,32 @@ def test_two_index_tensors_symbolic():
     assert symbolic_traces(su, "antifundamental", 3) == {mono(3): (-1,)}
 
 
+def test_adjoint_sextics_of_so_and_sp():
+    # van Ritbergen, Schellekens and Vermaseren, Int. J. Mod. Phys. A14 (1999) 41 (from memory):
+    # SO(N) Tr F^6 = (N - 32) tr F^6 + 15 tr F^2 tr F^4, Sp(N) Tr F^6 = (2N + 32) tr F^6 + 15 tr F^2 tr F^4
+    so, sp = group("SO"), group("Sp")
+    assert symbolic_traces(so, "adjoint", 6) == {mono(6, rep="vector"): (-32, 1), mono(2, 4, rep="vector"): (15,)}
+    assert symbolic_traces(sp, "adjoint", 6) == {mono(6): (32, 2), mono(2, 4): (15,)}
+
+
+def test_quadratic_trace_is_the_index_ratio():
+    # tr_rho F^2 / tr_base F^2 = index(rho) / index(base): the weight sums against the quadratic
+    # Casimir (Dynkin's index theorem; common practice, no source); odd traces of a real or
+    # pseudo-real representation vanish and conjugation flips them (common practice, no source)
+    cases = [(group("SU", 4), (1, 1, 0)), (group("SO", 7), (0, 0, 1)), (group("SO", 8), (0, 0, 1, 1)),
+             (group("Sp", 2), (1, 1)), (group("G2"), (1, 1)), (group("F4"), (0, 0, 1, 0)),
+             (group("E6"), (0, 0, 1, 0, 0, 0)), (group("E7"), (0, 0, 0, 0, 0, 1, 0))]
+    for g, labels in cases:
+        rep, base = representation(g, labels), representation(g, g.base)
+        two = traces(g, rep, 2)
+        assert two == {(tr(2, g.base),): index(g, rep) / index(g, base)}, g
+        assert traces(g, rep, 1) == {}
+    su4 = group("SU", 4)
+    for k in (3, 5):
+        plus, minus = traces(su4, representation(su4, (1, 1, 0)), k), traces(su4, representation(su4, (0, 1, 1)), k)
+        assert plus and minus == {m: -c for m, c in plus.items()}
+
+
 def test_spinor_traces_of_so10():
     # 16 of SO(10): tr F^2 = 2 tr F^2, tr F^4 = -tr F^4 + 3/4 (tr F^2)^2 (Erler 1994, from memory)
     so10 = group("SO", 10)
