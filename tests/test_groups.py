@@ -194,9 +194,9 @@ def test_e8_from_so16_adjoint_plus_spinor():
 # ---------------------------------------------------------------- classical trace identities
 
 def test_so32_adjoint_identities():
-    # Green, Schwarz and Witten, Superstring Theory vol. 2 (1987): for SO(32), Tr F^2 = 30 tr F^2,
-    # Tr F^4 = 24 tr F^4 + 3 (tr F^2)^2, Tr F^6 = 15 tr F^2 tr F^4 (no tr F^6 term: the coefficient
-    # N - 32 vanishes, which is what lets the anomaly factorize)
+    # Green, Schwarz and Witten, Superstring Theory vol. 2 (1987), from memory: for SO(32),
+    # Tr F^2 = 30 tr F^2, Tr F^4 = 24 tr F^4 + 3 (tr F^2)^2, Tr F^6 = 15 tr F^2 tr F^4 (no tr F^6
+    # term: its coefficient N - 32 vanishes, which is what lets the anomaly factorize)
     so32 = group("SO", 32)
     assert rep_traces(so32, "adjoint", 2) == {mono(2, rep="vector"): 30}
     assert rep_traces(so32, "adjoint", 4) == {mono(4, rep="vector"): 24, mono(2, 2, rep="vector"): 3}
@@ -321,7 +321,7 @@ def test_normalisations():
     # Tr_adj F^2 = 2N tr F^2 (SU), (N-2) tr_v F^2 (SO), (2N+2) tr F^2 (Sp); the index of the
     # vector of SO(N) is 2 and of the fundamental of Sp(N) is 1 in the normalisation where the
     # fundamental of SU(N) has index 1; E8: Tr = 60 tr_norm, the trace Tr/(2 h^vee)
-    # (Green, Schwarz and Witten vol. 2, 1987: Tr = 30 tr for E8 with tr = 2 tr_norm)
+    # (Green, Schwarz and Witten vol. 2, 1987, define tr = Tr/30 for E8, which is 2 tr_norm; from memory)
     families = {"SU": ((0, 2), 1), "SO": ((-2, 1), 2), "Sp": ((2, 2), 1)}
     for family, (ratio, base_index) in families.items():
         sym = symbolic_normalisation(group(family))

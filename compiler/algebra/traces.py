@@ -214,9 +214,13 @@ def symbolic_traces(g: Group, name: str, degree: int, power: int | None = None):
     _check_degree(degree)
     if power is not None and not 1 <= power <= MAX_POWER:
         raise GroupError(f"{name} {power}: at symbolic rank the power must be from 1 to {MAX_POWER}")
-    key = _symbolic_key(g, name)
-    raw = adams.rank_traces(g.family, key, 2 if power is None else power, degree)
-    return {tuple(Invariant(d, "tr", g.base) for d in mono): coeffs for mono, coeffs in raw.items()}
+    return dict(_symbolic(g.family, g.base, _symbolic_key(g, name), 2 if power is None else power, degree))
+
+
+@lru_cache(maxsize=1024)
+def _symbolic(family: str, base: str, name: str, power: int, degree: int) -> tuple:
+    raw = adams.rank_traces(family, name, power, degree)
+    return tuple((tuple(Invariant(d, "tr", base) for d in mono), coeffs) for mono, coeffs in raw.items())
 
 
 def symbolic_normalisation(g: Group) -> Normalisation:
