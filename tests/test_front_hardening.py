@@ -193,7 +193,10 @@ def test_symbol_relations_are_parsed_beside_literal_bounds():
     ("symbol q: q < p*r", 16, "a relation between symbols is linear"),
     ("symbol q: q < sqrt(p)", 15, "a relation between symbols is linear"),
     ("symbol q: p < 2*r", 11, "a bound on 'p', which this statement does not declare"),
-    ("symbol q: q < p/r", 16, "a relation between symbols is linear"),
+    ("symbol q: q < p/r", 16, "a relation between symbols divides only by a number"),
+    ("symbol q: q < p/0", 16, "division by zero"),
+    ("symbol q: 2 < 3", 11, "a bound needs a symbol"),
+    ("symbol q: q < 1 < p", 19, "a bound on 'p', which this statement does not declare"),
 ])
 def test_bad_relations_are_located(text, column, start):
     with pytest.raises(DocumentError) as info:

@@ -51,8 +51,10 @@ class Cursor:
         self.span = dict(line=first.line, column=first.column,
                          end_line=logical.end_line, source=logical.source)
 
-    def fail(self, token: Token, message: str) -> NoReturn:
-        raise DocumentError(Location(self.path, token.line, token.column), message)
+    def fail(self, at, message: str) -> NoReturn:
+        """Stop this statement with a problem at ``at``: a token, an
+        ``Ident`` or a node (anything with ``line`` and ``column``)."""
+        raise DocumentError(Location(self.path, at.line, at.column), message)
 
     def peek(self, offset: int = 0) -> Token:
         index = self.pos + offset
@@ -133,8 +135,7 @@ class Cursor:
         seen = set()
         for name in names:
             if name in seen:
-                raise DocumentError(Location(self.path, name.line, name.column),
-                                    f"'{name}' appears twice")
+                self.fail(name, f"'{name}' appears twice")
             seen.add(name)
 
     def outputs(self, count: Optional[int] = None, what: str = "") -> tuple[Ident, ...]:

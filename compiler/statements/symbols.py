@@ -63,12 +63,6 @@ def _comparison(c: Cursor, declared: set, bounds: list, relations: list) -> None
             c.fail(token, "a chained bound runs one way, as in 0 < x < 1")
         ops.append((c.next(), token.text))
         sides.append((c.peek(), expr(c)))
-    own = [_own_symbol(side, declared) for _, side in sides]
-    if not any(own) and not any(_symbols(side) for _, side in sides):
-        c.fail(first, "a bound needs a symbol, as in g >= 2")
-    if not any(own):
-        stray = next(name for _, side in sides for name in _symbols(side))
-        c.fail(stray, f"a bound on '{stray}', which this statement does not declare")
     for index, (_, op) in enumerate(ops):
         (left_token, left), (right_token, right) = sides[index], sides[index + 1]
         bound = _as_bound(c, left, op, right_token, right, declared) or \
@@ -76,8 +70,8 @@ def _comparison(c: Cursor, declared: set, bounds: list, relations: list) -> None
         if bound is not None:
             bounds.append(n.Bound(bound[0], bound[1], bound[2], first.line, first.column))
             continue
-        for token, side in ((left_token, left), (right_token, right)):
-            _require_linear(c, token, side)
+        _require_linear(c, left)
+        _require_linear(c, right)
         if not any(name in declared for side in (left, right) for name in _symbols(side)):
             stray = next(iter(_symbols(left) or _symbols(right)), None)
             if stray is None:
@@ -118,29 +112,31 @@ def _rational_literal(c: Cursor, side: n.Expr) -> Optional[Fraction]:
         if not isinstance(numerator, n.Num):
             return None
         if side.right.value == 0:
-            c.fail(_at(side), "division by zero")
+            c.fail(side, "division by zero")
         return sign * numerator.value / side.right.value
     if isinstance(side, n.Num):
         return sign * side.value
     return None
 
 
-def _at(node) -> Token:
-    return Token("op", "", node.line, node.column, node.column)
-
-
 def _symbols(side: n.Expr) -> list[Ident]:
     return [item for item, _ in walk(side) if isinstance(item, Ident)]
 
 
-def _require_linear(c: Cursor, token: Token, side: n.Expr) -> None:
+def _require_linear(c: Cursor, side: n.Expr) -> None:
     """A side of a relation: sums of rational multiples of symbols."""
     for node, _ in walk(side):
         if isinstance(node, n.Call):
-            c.fail(_at(node), f"a relation between symbols is linear: '{node.func}(...)' "
-                              "cannot appear in it")
-        if isinstance(node, n.Binary) and (
-                node.op == "^" or (node.op == "*" and _symbols(node.left) and _symbols(node.right))
-                or (node.op == "/" and _symbols(node.right))):
-            c.fail(_at(node), "a relation between symbols is linear: rational multiples of "
-                              "symbols, added (such as 3*Nc or Nc/2 + 1)")
+            c.fail(node, f"a relation between symbols is linear: '{node.func}(...)' "
+                         "cannot appear in it")
+        if not isinstance(node, n.Binary):
+            continue
+        if node.op == "/":
+            divisor = _rational_literal(c, node.right)
+            if divisor is None:
+                c.fail(node, "a relation between symbols divides only by a number, as in Nc/2")
+            if divisor == 0:
+                c.fail(node, "division by zero")
+        if node.op == "^" or (node.op == "*" and _symbols(node.left) and _symbols(node.right)):
+            c.fail(node, "a relation between symbols is linear: rational multiples of "
+                         "symbols, added (such as 3*Nc or Nc/2 + 1)")
