@@ -99,6 +99,23 @@ def test_warnings_a_build_carries_print_located(capsys):
     assert capsys.readouterr().err == "doc.md:3:1: warning: fence 'Derive' is not a derive block\n"
 
 
+def test_a_near_miss_fence_is_a_located_warning_before_the_error_it_explains(tmp_path, capsys):
+    doc = write(tmp_path, "doc.md", "# T\n\n```Derive\nsymbol N\n```\n\n```derive\nlet a = N\n```\n")
+    status, _, err = run(capsys, "check", str(doc), "--no-cache")
+    assert status == 2
+    assert err.splitlines() == [f"{doc}:3:4: warning: the fence 'Derive' is shown as code, not compiled; "
+                                "did you mean 'derive'?", f"{doc}:8:9: unknown name 'N'"]
+
+
+def test_a_warning_leaves_a_passing_document_passing(tmp_path, capsys):
+    doc = write(tmp_path, "doc.md", "```drive\nsymbol N\n```\n\n" + GOOD)
+    status, _, err = run(capsys, "build", str(doc), "--no-cache")
+    assert status == 0
+    warning, summary_line = err.splitlines()
+    assert warning.startswith(f"{doc}:1:4: warning: the fence 'drive'")
+    assert SUMMARY.match(summary_line)["verdict"] == "passed"
+
+
 def test_a_closed_pipe_ends_quietly(tmp_path, capsys):
     # common practice, no source: `anomark diff a b | head -1` ends like `cat` would, by SIGPIPE's status
     old, new = tmp_path / "old", tmp_path / "new"

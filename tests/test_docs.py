@@ -19,8 +19,8 @@ import pytest
 from markdown_it import MarkdownIt
 
 from compiler import cli
-from compiler.document import _FRONT_MATTER_KEYS
-from compiler.statements.nodes import BUILTIN_FUNCTIONS, STATEMENT_WORDS
+from compiler.front_matter import KEYS as FRONT_MATTER_KEYS
+from compiler.statements.words import BUILTIN_FUNCTIONS, STATEMENT_WORDS
 
 ROOT = Path(__file__).resolve().parent.parent
 DOCS = ROOT / "docs"
@@ -89,7 +89,7 @@ def test_every_built_in_function_is_called_in_a_passing_example():
 
 def test_every_front_matter_key_is_documented():
     page = (DOCS / "front-matter.md").read_text(encoding="utf-8")
-    missing = [key for key in _FRONT_MATTER_KEYS if f"`{key}`" not in page]
+    missing = [key for key in FRONT_MATTER_KEYS if f"`{key}`" not in page]
     assert not missing, missing
 
 
