@@ -25,22 +25,20 @@ class Coefficients:
         self.zero = self.ctx.constant(0)
         self.position = {s: i for i, s in enumerate(self.symbols)}
 
-    def rational(self, value):
-        """An exact rational (int, Fraction, sympy Rational) as a constant polynomial."""
+    @staticmethod
+    def rational(value) -> flint.fmpq:
+        """An exact rational (int, Fraction, sympy Rational) as a FLINT rational."""
         if isinstance(value, bool):
             raise AlgebraError(f"not a number: {value!r}")
         if isinstance(value, int):
-            return self.ctx.constant(value)
+            return flint.fmpq(value)
         if isinstance(value, Fraction):
-            return self.ctx.constant(flint.fmpq(value.numerator, value.denominator))
+            return flint.fmpq(value.numerator, value.denominator)
         if type(value).__module__.startswith("sympy"):
             import sympy
             if isinstance(value, sympy.Rational):
-                return self.ctx.constant(flint.fmpq(int(value.p), int(value.q)))
+                return flint.fmpq(int(value.p), int(value.q))
         raise AlgebraError(f"not an exact rational number: {value!r}")
-
-    def symbol(self, position: int):
-        return self.ctx.gen(position)
 
     def from_expr(self, expr):
         """(numerator, denominator) of a sympy expression rational in the symbols."""

@@ -95,13 +95,13 @@ class Ring:
         q = self.coeffs.rational(value)
         if not q:
             return self.zero()
-        return Element(self, self.layout.embed(q), self.layout.one)
+        return Element(self, self.layout.ctx.constant(q), self.layout.one)
 
     def symbol(self, sym) -> "Element":
         pos = self.coeffs.position.get(sym)
         if pos is None:
             raise AlgebraError(f"{sym} is not a declared symbol")
-        return Element(self, self.layout.embed(self.coeffs.symbol(pos)), self.layout.one)
+        return Element(self, self.layout.ctx.gen(pos), self.layout.one)
 
     def from_scalar_expr(self, expr) -> "Element":
         """Convert a sympy expression that is a rational function of the symbols."""

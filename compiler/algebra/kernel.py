@@ -43,6 +43,7 @@ class Layout:
         self.one = ctx.constant(1)
         self.zero = ctx.constant(0)
         self.t = ctx.gen(self.nsym)
+        self._symbols = ctx.gens()[:self.nsym]
         self.cut = self.t ** (self.truncate + 1)
         self._mono: dict[Mono, object] = {}
         self._odd = [self.nsym + 1 + g.index for g in self.monos.gens if g.degree % 2]
@@ -66,10 +67,14 @@ class Layout:
 
     def embed(self, poly):
         """A polynomial in the symbols (``coefficients``) into this context."""
-        return poly.project_to_context(self.ctx)
+        if poly.is_constant():
+            return self.ctx.constant(poly.leading_coefficient()) if poly else self.zero
+        return poly.compose(*self._symbols, ctx=self.ctx)
 
     def symbols_part(self, poly):
         """A class-free polynomial of this context back in the symbols' context."""
+        if poly.is_constant():
+            return self.coeffs.ctx.constant(poly.leading_coefficient()) if poly else self.coeffs.zero
         return poly.project_to_context(self.coeffs.ctx)
 
     def move(self, poly):
