@@ -14,7 +14,7 @@ import stat
 
 import pytest
 
-from compiler.cache import CACHE_DIR
+from compiler.engine.cache import CACHE_DIR
 from compiler.engine import BuildOptions, build
 from compiler.render.html import to_html
 from compiler.render.json import to_json
