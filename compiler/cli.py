@@ -8,6 +8,7 @@ status 2, and keeps Python tracebacks for anomark's own bugs (``--debug``).
 from __future__ import annotations
 
 import argparse
+import contextlib
 import os
 import re
 import sys
@@ -49,8 +50,10 @@ def parser() -> argparse.ArgumentParser:
         p.add_argument("--allow-html", action="store_true", help="pass raw HTML in prose through")
         p.add_argument("--no-cache", action="store_true", help="recompute every step")
         p.add_argument("--quiet", action="store_true", help="no progress lines")
-        p.add_argument("--time-limit", type=float, default=120.0, metavar="SECONDS",
-                       help="longest a single step may run (default 120)")
+        p.add_argument("--time-limit", type=float, default=30.0, metavar="SECONDS",
+                       help="longest a single step may run (default 30)")
+        p.add_argument("--build-time-limit", type=float, default=300.0, metavar="SECONDS",
+                       help="longest a whole build may run (default 300)")
         p.add_argument("--debug", action="store_true", help="show tracebacks of internal errors")
 
     b = sub.add_parser("build", help="compile a document into reports")
@@ -62,6 +65,8 @@ def parser() -> argparse.ArgumentParser:
 
     c = sub.add_parser("check", help="compile without writing files; exit status only")
     c.add_argument("files", nargs="+")
+    c.add_argument("--recompute", action="store_true",
+                   help="recompute every step and report where the cache disagrees")
     common(c)
 
     d = sub.add_parser("diff", help="what changed between two JSON records")
@@ -105,7 +110,8 @@ def options(args, path: str) -> BuildOptions:
             raise DocumentError(Location(path, 1, 1), f"--set {name.strip()}: {exc}") from None
     return BuildOptions(overrides=overrides, allow_html=args.allow_html,
                         use_cache=not args.no_cache, time_limit=args.time_limit,
-                        progress=progress_printer(args))
+                        build_time_limit=args.build_time_limit,
+                        recompute=getattr(args, "recompute", False), progress=progress_printer(args))
 
 
 def progress_printer(args):
@@ -155,16 +161,17 @@ def write_whole(files: dict[Path, bytes]) -> None:
         for target, data in files.items():
             target.parent.mkdir(parents=True, exist_ok=True)
             fd, tmp = tempfile.mkstemp(dir=target.parent, prefix=f".{target.name}.")
+            staged.append((tmp, target))
             with os.fdopen(fd, "wb") as handle:
                 handle.write(data)
             os.chmod(tmp, 0o666 & ~umask)
-            staged.append((tmp, target))
-    except BaseException:
+        while staged:
+            os.replace(*staged[0])
+            staged.pop(0)
+    finally:  # on any failure, no temporary file is left behind
         for tmp, _ in staged:
-            os.unlink(tmp)
-        raise
-    for tmp, target in staged:
-        os.replace(tmp, target)
+            with contextlib.suppress(OSError):
+                os.unlink(tmp)
 
 
 def cmd_build(args) -> int:
@@ -174,9 +181,12 @@ def cmd_build(args) -> int:
         print(f"anomark: unknown format {', '.join(unknown)} (choose from {', '.join(FORMATS)})",
               file=sys.stderr)
         return 2
-    report = compile_file(args, args.file)
     source = Path(args.file)
     out = Path(args.output) if args.output else source.parent
+    if out.exists() and not out.is_dir():
+        print(f"anomark: {out}: not a folder (-o names the output folder)", file=sys.stderr)
+        return 2
+    report = compile_file(args, args.file)
     stem = source.stem
     files: dict[Path, bytes] = {}
     if "html" in formats:
@@ -187,7 +197,16 @@ def cmd_build(args) -> int:
         files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone).encode("utf-8")
         for name, data in plot_files(report).items():
             files[out / name] = data
-    write_whole(files)
+    clash = [target for target in files if target.resolve() == source.resolve()]
+    if clash:
+        print(f"anomark: {clash[0]}: the output would overwrite the document itself; "
+              "choose another folder with -o", file=sys.stderr)
+        return 2
+    try:
+        write_whole(files)
+    except OSError as exc:
+        print(f"anomark: cannot write into {out}: {exc.strerror or exc}", file=sys.stderr)
+        return 2
     return status_of(report)
 
 

@@ -132,7 +132,8 @@ class Run:
         self.follow_ons: dict[int, int] = {}
         #: Lines of steps already accounted for as follow-ons.
         self.counted: set[int] = set()
-        self.out_of_time: Optional[Problem] = None
+        #: The line of the step that ran out of build time; later steps do not run.
+        self.out_of_time: Optional[int] = None
 
     # ------------------------------------------------------------ running
 
@@ -198,9 +199,11 @@ class Run:
 
     def _compute(self, s, step: Step) -> None:
         """Run the handler under the limits; turn what it raises into an error step."""
-        if self.out_of_time is not None:
-            return self._step_error(step, s, self.out_of_time, follow_on=True)
         where = Location(self.path, s.line, s.column)
+        if self.out_of_time is not None:
+            return self._step_error(step, s, Problem(where, f"not run: the build time limit was "
+                                                            f"reached at line {self.out_of_time}"),
+                                    follow_on=True, origin=self.out_of_time)
         try:
             with budget.deadline(self.options.time_limit, self.step_limit), _alarm():
                 HANDLERS[type(s)](self.scope, s, step)
@@ -210,10 +213,9 @@ class Run:
         except DocumentError as err:
             self._step_error(step, s, err.problems[0])
         except budget.BudgetExceeded as exc:
-            problem = Problem(where, f"{exc.limit} exceeded")
             if exc.limit != self.step_limit:  # the build's own limit: the rest cannot run
-                self.out_of_time = Problem(where, f"not run: {exc.limit} was reached at line {s.line}")
-            self._step_error(step, s, problem)
+                self.out_of_time = s.line
+            self._step_error(step, s, Problem(where, f"{exc.limit} exceeded"))
         except (AlgebraError, ExtremizeError, fibers_mod.FiberError, ValueError, ZeroDivisionError) as exc:
             self._step_error(step, s, Problem(where, str(exc)))
         except RecursionError:
@@ -226,7 +228,7 @@ class Run:
         self.scope.bind_missing(names_pass.bound_names(s), s.line)
         if not follow_on:
             return
-        root = self.roots.get(origin, origin)  # None: the build ran out of time
+        root = self.roots.get(origin, origin)
         self.roots[s.line] = root
         if root in self.follow_ons:
             self.problems[self.follow_ons[root]][1] += 1
@@ -248,6 +250,8 @@ class Run:
             else:
                 continue
             self.problems.append([Problem(Location(self.path, s.line, s.column), message), 0])
+        if s.line == self.out_of_time:  # the steps it keeps from running are counted on its line
+            self.follow_ons[s.line] = len(self.problems) - 1
 
     def _diagnostics(self) -> list[str]:
         lines = []
