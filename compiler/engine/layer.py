@@ -15,6 +15,10 @@ from .cache import StepCache
 from .entries import restore_step, step_entry, value_from_data, value_to_data
 
 
+#: The check a step gets when recomputing it disagrees with its cache entry.
+DISAGREES = "recomputed, the step disagrees with the cache"
+
+
 class CacheLayer:
     def __init__(self, scope, cache: StepCache, recompute: bool):
         self.scope = scope
@@ -42,7 +46,7 @@ class CacheLayer:
         if self.recompute and entry is not None:
             disagreement = _disagreement(json.loads(json.dumps(fresh)), entry)
             if disagreement:
-                step.checks.append(CheckResult("agrees with the cache", "error",
+                step.checks.append(CheckResult(DISAGREES, "error",
                                                f"the cache holds a different {disagreement}"))
         return step
 

@@ -32,10 +32,12 @@ from ..statements import nodes as n
 from ..statements.parser import parse_block
 from .cache import CODE, StepCache, digest
 from .handlers import CACHED, HANDLERS
-from .layer import CacheLayer
+from .layer import DISAGREES, CacheLayer
 from .scope import DocScope
 
 TOOL_NAME = "anomark"
+#: The check of a step that could not run.
+STEP_RUNS = "step runs"
 
 
 @dataclass(frozen=True)
@@ -224,7 +226,7 @@ class Run:
     def _step_error(self, step: Step, s, problem: Problem, follow_on: bool = False,
                     origin: int | None = None) -> None:
         """An error step: everything the statement would have bound has no value."""
-        step.checks.append(CheckResult("step runs", "error", problem.message))
+        step.checks.append(CheckResult(STEP_RUNS, "error", problem.message))
         self.scope.bind_missing(names_pass.bound_names(s), s.line)
         if not follow_on:
             return
@@ -242,13 +244,10 @@ class Run:
         if s.line in self.counted:
             return
         for check in step.checks:
-            if check.status == "failed":
-                message = f"check failed: {check.what}" + (f": {check.detail}" if check.detail else "")
-            elif check.status == "error":
-                message = check.detail if check.what == "step runs" else \
-                    f"could not decide {check.what}" + (f": {check.detail}" if check.detail else "")
-            else:
+            if check.status not in ("failed", "error"):
                 continue
+            form = MESSAGES.get((check.status, check.what), MESSAGES[check.status])
+            message = form.format(what=check.what, detail=check.detail).removesuffix(": ")
             self.problems.append([Problem(Location(self.path, s.line, s.column), message), 0])
         if s.line == self.out_of_time:  # the steps it keeps from running are counted on its line
             self.follow_ons[s.line] = len(self.problems) - 1
@@ -259,6 +258,16 @@ class Run:
             lines.append(str(problem) + (f" (and {more} later step{'s' if more != 1 else ''} "
                                          "for the same reason)" if more else ""))
         return lines
+
+
+#: How a failed or errored check is told on the command line, by status (and by the
+#: engine's own check names); anything else is a claim.
+MESSAGES = {
+    "failed": "check failed: {what}: {detail}",
+    "error": "could not decide {what}: {detail}",
+    ("error", STEP_RUNS): "{detail}",
+    ("error", DISAGREES): "{what}: {detail}",
+}
 
 
 def _outputs(s) -> list[str]:

@@ -71,10 +71,10 @@ def to_record(report: Report) -> dict:
         "tool": {"name": report.tool_name, "version": report.tool_version},
         "document": report.document,
         "passed": report.passed,
-        "cached_steps": report.cached_steps,
         "conventions": dict(report.conventions),
         "steps": [step_record(s) for s in report.steps],
         "values": {name: _value(v) for name, v in report.values.items()},
+        "cached_steps": report.cached_steps,
     }
 
 
