@@ -11,7 +11,7 @@ import re
 
 import pytest
 
-from compiler.statements.nodes import BUILTIN_FUNCTIONS, STATEMENT_WORDS
+from compiler.statements.words import BUILTIN_FUNCTIONS, STATEMENT_WORDS
 from test_derivations import DERIVATIONS, build, find_step
 
 SETTLED = {"proven", "sampled"}
