@@ -43,6 +43,7 @@ class MissingValue(DocumentError):
     def __init__(self, location: Location, name: str, line: int):
         super().__init__(location, f"'{name}' has no value: the step at line {line} did not produce it")
         self.name = name
+        self.line = line  # the step that did not produce it
 
 
 class Scope:

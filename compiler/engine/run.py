@@ -210,8 +210,7 @@ class Run:
             with budget.deadline(self.options.time_limit, self.step_limit), _alarm():
                 HANDLERS[type(s)](self.scope, s, step)
         except MissingValue as err:
-            self._step_error(step, s, err.problems[0], follow_on=True,
-                             origin=self.scope.bindings[err.name].value.line)
+            self._step_error(step, s, err.problems[0], follow_on=True, origin=err.line)
         except DocumentError as err:
             self._step_error(step, s, err.problems[0])
         except budget.BudgetExceeded as exc:

@@ -12,7 +12,7 @@ from ...algebra import fibers as fibers_mod
 from ...algebra.extremize import ExtremizeError, extremize, tidy
 from ...algebra.graded import Element
 from ...checks import free_symbols
-from ...expressions import Missing, as_expr, is_class_free
+from ...expressions import as_expr, is_class_free
 from ...results import CheckResult, Step
 from ...statements import nodes as n
 from ..scope import record
