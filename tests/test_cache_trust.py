@@ -143,3 +143,15 @@ def test_recompute_reports_a_disagreement_at_the_steps_location(tmp_path):
     located = [d for d in report.diagnostics if d.startswith(f"{tmp_path / 'doc.md'}:4:1:")]
     assert any("cache holds a different check outcome (proven; recomputed: failed)" in d
                for d in located), report.diagnostics
+
+
+def test_a_full_disk_while_saving_leaves_no_temporary_file(tmp_path, monkeypatch):
+    # issue 10: "temporary files are removed on every failure path"; the cache is never needed
+    from compiler.engine import cache as cache_module
+
+    def full(*args, **kwargs):
+        raise OSError(28, "No space left on device")
+    monkeypatch.setattr(cache_module.json, "dump", full)
+    report = build_at(tmp_path)
+    assert [s.status for s in report.steps] == ["proven", "proven", "failed", "proven"]
+    assert list((tmp_path / CACHE_DIR).iterdir()) == []
