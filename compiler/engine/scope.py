@@ -24,7 +24,7 @@ from ..expressions import Evaluator, Missing, MissingValue, Scope, Value, from_e
 from ..results import ValueRecord
 from ..statements import nodes as n
 from .cache import digest
-from .entries import expr_to_data
+from .entries import value_to_data
 
 #: Most points a ``for`` list may expand to (every combination is computed).
 MAX_POINTS = 10_000
@@ -113,12 +113,10 @@ class DocScope(Scope):
         """A value's cache key is its content, so an edit that gives the same
         value again recomputes nothing downstream; anything else is keyed by
         the step that bound it."""
-        if kind == "value" and isinstance(value, Element):
-            return digest("element", self.ring_key, value.to_data())
-        if kind == "value" and isinstance(value, sympy.Expr):
+        if kind == "value" and not isinstance(value, Missing):
             try:
-                return digest("expr", self.ring_key, expr_to_data(value))
-            except ValueError:
+                return digest(self.ring_key, value_to_data(value))
+            except ValueError:  # a value the cache cannot keep
                 pass
         return digest(self.step_key, name)
 
