@@ -155,3 +155,14 @@ def test_a_full_disk_while_saving_leaves_no_temporary_file(tmp_path, monkeypatch
     report = build_at(tmp_path)
     assert [s.status for s in report.steps] == ["proven", "proven", "failed", "proven"]
     assert list((tmp_path / CACHE_DIR).iterdir()) == []
+
+
+def test_a_plot_beyond_float_range_is_simply_not_cached(tmp_path):
+    # 10^400 x^2 overflows a float at every sample but 0: such a step is recomputed, never a crash
+    text = "```derive\nsymbol x\nlet f = 10^400*x^2\nplot f over x in 0..1\n```\n"
+    path = tmp_path / "doc.md"
+    path.write_text(text)
+    cold = build(str(path), text, BuildOptions())
+    warm = build(str(path), text, BuildOptions())
+    assert [s.cached for s in warm.steps] == [False, True, False]
+    assert warm.steps[-1].plot == cold.steps[-1].plot

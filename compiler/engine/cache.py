@@ -122,8 +122,12 @@ class StepCache:
         return entry if good and isinstance(entry, dict) else None
 
     def put(self, key: str, entry: dict) -> None:
-        if self.enabled:
+        if not self.enabled:
+            return
+        try:
             self.new[key] = {"mac": sign(self.secret, key, entry), "entry": entry}
+        except ValueError:  # a plot point out of float range: not kept, recomputed next time
+            pass
 
     def save(self) -> None:
         """Write the entries of this build whole, or leave the old file."""

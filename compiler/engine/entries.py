@@ -13,6 +13,7 @@ import sympy
 from ..algebra.graded import Element
 from ..expressions import Missing
 from ..results import STATUSES, CheckResult, PlotData, TableData, ValueRecord
+
 # ---------------------------------------------------------------- step parts
 
 def step_entry(step, outputs: dict) -> dict:
