@@ -102,17 +102,26 @@ def build(path: str, text: str, options: BuildOptions = BuildOptions()) -> Repor
     with budget.deadline(options.build_time_limit, limit):
         try:
             with _alarm():
-                document, statements_by_block = parse(path, text)
-                statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
-                refs = [(r.name, r.line, r.column) for part in document.parts
-                        if isinstance(part, ProsePart) for r in part.refs]
-                front_conventions = [(c.name, c.line, c.column) for c in document.front.conventions]
-                names_pass.resolve(path, statements, front_conventions, refs)
-                run = Run(path, document, statements, options)
+                run, statements_by_block = _prepare(path, text, options)
         except budget.BudgetExceeded as exc:
             raise DocumentError(Location(path, 1, 1),
                                 f"{exc.limit} exceeded while reading the document") from None
         return run.execute(statements_by_block)
+
+
+def _prepare(path: str, text: str, options: BuildOptions):
+    """Parse, resolve names and set up the run: everything before the first step."""
+    document, statements_by_block = parse(path, text)
+    statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
+    refs = [(r.name, r.line, r.column) for part in document.parts
+            if isinstance(part, ProsePart) for r in part.refs]
+    front_conventions = [(c.name, c.line, c.column) for c in document.front.conventions]
+    try:
+        names_pass.resolve(path, statements, front_conventions, refs)
+        return Run(path, document, statements, options), statements_by_block
+    except DocumentError as err:  # a near-miss fence often explains an unknown name
+        err.warnings = document.warnings
+        raise
 
 
 class Run:
@@ -166,7 +175,7 @@ class Run:
             abstract=front.abstract, conventions=scope.report_conventions(),
             truncate=front.truncate, items=items, values=values,
             allow_html=self.options.allow_html, diagnostics=self._diagnostics(),
-            cached_steps=self.layer.restored)
+            warnings=list(self.document.warnings), cached_steps=self.layer.restored)
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
         """Each @{NAME}: the binding in force at that line, else the first one."""
