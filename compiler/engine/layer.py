@@ -20,6 +20,8 @@ DISAGREES = "recomputed, the step disagrees with the cache"
 
 
 class CacheLayer:
+    """Steps of the cached statement kinds pass through here; ``restored`` counts replays."""
+
     def __init__(self, scope, cache: StepCache, recompute: bool):
         self.scope = scope
         self.cache = cache
