@@ -520,3 +520,15 @@ def test_the_ring_imports_neither_sympy_nor_matplotlib():
     out = subprocess.run([sys.executable, "-c", code], cwd=root, env=env,
                          capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "[]"
+
+
+def test_long_ring_loops_poll_the_deadline():
+    # issue 10: the time limit works in any thread, so the ring's loops poll the budget
+    from compiler.algebra import budget
+    ring, a, b, c = make_ring()
+    with budget.deadline(0, "a test deadline"):
+        with pytest.raises(budget.BudgetExceeded):
+            ring.groebner([a * a - c, a * b - b * b])
+        with pytest.raises(budget.BudgetExceeded):
+            (1 + a) ** 20
+    assert ((1 + a) ** 20).part(2) == 20 * a

@@ -11,7 +11,7 @@ from __future__ import annotations
 from fractions import Fraction
 from typing import Mapping
 
-from . import printing, serial
+from . import budget, printing, serial
 from .errors import AlgebraError, LimitError
 from .monomials import Mono
 
@@ -147,6 +147,7 @@ class Element:
             return R._normal(_capped(a._p ** n), a._d ** n)   # nothing to truncate: one FLINT power
         result, base = R.one(), a
         while n:
+            budget.check()
             if n & 1:
                 result = result * base
             n >>= 1
@@ -318,6 +319,7 @@ class Element:
             raise AlgebraError("the substitution makes a denominator vanish or contain classes")
         result = R.zero()
         for m, c in a._t.items():
+            budget.check()
             term = scalar(c)
             kept = []
             for i, e in m:

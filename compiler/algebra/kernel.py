@@ -19,11 +19,14 @@ The denominator lives in the same context and involves symbols only; it is
 kept cancelled and with leading coefficient 1 in the symbols' lex order.
 Odd-degree classes anticommute, which a commutative product cannot see: a
 product of two elements that both contain odd classes goes term by term.
+One FLINT call cannot be interrupted; ``MAX_PRODUCT`` and ``MAX_TERMS``
+(``element``) bound it, and the loops around the calls poll ``budget``.
 """
 from __future__ import annotations
 
 import flint
 
+from . import budget
 from .monomials import Mono
 
 
@@ -137,6 +140,7 @@ class Layout:
             P = P % self.cut
         changed = bool(rules)
         while changed and P:
+            budget.check()
             changed = False
             for lhs, rhs, den in rules:
                 q, r = divmod(P, lhs)
@@ -171,6 +175,7 @@ class Layout:
         monos, T, zero = self.monos, self.truncate, self.coeffs.zero
         raw: dict = {}
         for ma, ca in a.items():
+            budget.check()
             for mb, cb in b.items():
                 p = monos.mul(ma, mb)
                 if p is None or monos.degree(p[1]) > T:

@@ -8,6 +8,7 @@ polynomials here are dicts ``{monomial: Frac}``.
 """
 from __future__ import annotations
 
+from . import budget
 from .errors import AlgebraError
 from .kernel import minimal_beyond
 from .monomials import Mono
@@ -87,6 +88,7 @@ class Rewriter:
         leads = [(monos.leading(g), g) for g in basis]
         out: dict = {}
         while f:
+            budget.check()
             m = monos.leading(f)
             c = f.pop(m)
             for lead, g in leads:
@@ -133,6 +135,7 @@ class Rewriter:
                 pairs.extend((i, len(basis) - 1) for i in range(len(basis) - 1))
         zero = self.coeffs.frac(self.coeffs.zero)
         while pairs:
+            budget.check()
             pairs.sort(key=lambda ij: deg(lcm_of(lead(basis[ij[0]]), lead(basis[ij[1]]))))
             i, j = pairs.pop(0)
             li, lj = lead(basis[i]), lead(basis[j])
