@@ -9,7 +9,8 @@ import sympy
 from hypothesis import given, settings, strategies as st
 
 from compiler.algebra import element
-from compiler.algebra.graded import AlgebraError, LimitError, NotRational, Ring
+from compiler.algebra.errors import AlgebraError, LimitError, NotRational
+from compiler.algebra.graded import Ring
 
 N, M, g = sympy.symbols("N M g")
 

@@ -17,17 +17,16 @@ gives the registered ``Generator`` (degree, text, latex, group).
 from __future__ import annotations
 
 from fractions import Fraction
-from typing import Iterable, Mapping, Sequence
+from typing import Iterable, Sequence
 
-from . import printing, serial
+from . import serial
 from .coefficients import Coefficients
 from .element import Element
-from .errors import AlgebraError, LimitError, NotRational
+from .errors import AlgebraError
 from .kernel import Layout
 from .monomials import Generator, Mono, Monomials
 from .rewriting import Rewriter
 
-__all__ = ["AlgebraError", "Element", "Generator", "LimitError", "NotRational", "Ring"]
 
 class Ring:
     """Generators, rules and caches shared by all elements of one document."""
