@@ -1,9 +1,13 @@
 """Fixtures shared by the test files: the command run in-process, and each
-bundled derivation built once per session (per worker under xdist), with its
-files kept in a temporary folder for every test that reads them.
+bundled derivation built once per session, with its files kept in a
+temporary folder for every test that reads them.
 
 Hypothesis runs derandomized in the suite, so a run of the suite is
 repeatable; ``HYPOTHESIS_PROFILE=hunt`` draws fresh examples instead.
+
+The suite runs in one process.  With pytest-xdist installed it can be spread
+over workers with ``-n 2 --dist loadgroup``: the tests that read the bundled
+builds then share one worker, so no document is built twice.
 """
 from __future__ import annotations
 
@@ -82,3 +86,11 @@ def bundled(bundled_folder, tmp_path_factory):
         return builds[key]
 
     return get
+
+
+def pytest_collection_modifyitems(items):
+    """Under xdist (``--dist loadgroup``) the tests that read the bundled
+    builds run on one worker, so that each document is built once."""
+    for item in items:
+        if "bundled" in getattr(item, "fixturenames", ()):
+            item.add_marker(pytest.mark.xdist_group("bundled"))

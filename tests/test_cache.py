@@ -18,6 +18,7 @@ from compiler.cache import CACHE_DIR
 from compiler.engine import BuildOptions, build
 from compiler.render.html import to_html
 from compiler.render.json import to_json
+from support import compile_text
 
 DOC = """# Cache
 
@@ -43,9 +44,9 @@ check sqrt(x^2 + 2*sqrt(x^2) + 1) == sqrt(x^2) + 1
 
 
 def build_at(path, text=None, **options):
-    text = DOC if text is None else text
-    path.write_text(text)
-    return build(str(path), text, BuildOptions(**options))
+    """Build with the cache on unless asked otherwise."""
+    options.setdefault("use_cache", True)
+    return compile_text(path, DOC if text is None else text, **options)
 
 
 def cache_file(tmp_path, name="doc.md"):
