@@ -16,7 +16,7 @@ from pathlib import Path
 
 import pytest
 
-from support import LOCATION, ROOT, visible
+from support import LOCATION, visible
 
 GOOD = "# Good\n\n```derive\nsymbol N\nlet a = N\ncheck a == N\n```\n"
 FAILS = "```derive\nsymbol N\ncheck N == 2\n```\n"

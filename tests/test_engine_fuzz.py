@@ -17,7 +17,6 @@ from __future__ import annotations
 
 import os
 
-import pytest
 from hypothesis import HealthCheck, given, settings, strategies as st
 
 from compiler.engine import BuildOptions, build
