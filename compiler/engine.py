@@ -100,9 +100,15 @@ def build(path: str, text: str, options: BuildOptions = BuildOptions()) -> Repor
     refs = [(r.name, r.line, r.column) for part in document.parts
             if isinstance(part, ProsePart) for r in part.refs]
     front_conventions = [(c.name, c.line, c.column) for c in document.front.conventions]
-    names_pass.resolve(path, statements, front_conventions, refs)
-    run = Run(path, document, statements, options)
-    return run.execute(statements_by_block)
+    try:
+        names_pass.resolve(path, statements, front_conventions, refs)
+        run = Run(path, document, statements, options)
+    except DocumentError as err:  # a near-miss fence often explains an unknown name
+        err.warnings = document.warnings
+        raise
+    report = run.execute(statements_by_block)
+    report.warnings = list(document.warnings)
+    return report
 
 
 @dataclass

@@ -12,7 +12,7 @@ import re
 
 import pytest
 
-from compiler.statements.nodes import BUILTIN_FUNCTIONS, STATEMENT_WORDS
+from compiler.statements.words import BUILTIN_FUNCTIONS, STATEMENT_WORDS
 from support import DERIVATIONS, SETTLED, assert_proven, check_statuses as statuses, find_step
 
 
