@@ -1,7 +1,8 @@
 """Helpers shared by the test files: the command run in-process, small
 documents built through the engine, lookups in a JSON record, a hand-built
-Report for the renderer tests, bundle tables for the algebra tests, and
-pdflatex.  Fixtures built on these live in conftest.py.
+Report for the renderer tests, bundle tables for the algebra tests,
+pdflatex, and the headless browser.  Fixtures built on these live in
+conftest.py.
 """
 from __future__ import annotations
 
@@ -243,3 +244,47 @@ def pdf_text(pdf: Path, layout: bool = True) -> str:
     run = subprocess.run(["pdftotext", *(["-layout"] if layout else []), pdf.name, "-"], cwd=pdf.parent,
                          capture_output=True, text=True, check=True, timeout=TEX_TIMEOUT)
     return run.stdout
+
+
+# ---------------------------------------------------------------- the headless browser
+# The browser is the distribution's own (CI installs it with apt); selenium is
+# pointed at it explicitly so it never fetches a driver or a browser itself.
+
+CHROMIUM = Path("/usr/bin/chromium")
+CHROMEDRIVER = Path("/usr/bin/chromedriver")
+# Headless, and quiet: no background fetches of its own that could be
+# mistaken for (or hide) a request made by the page.
+BROWSER_FLAGS = (
+    "--headless=new",
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+    "--disable-default-apps",
+    "--window-size=1280,2000",
+)
+
+
+def missing_browser() -> str | None:
+    """Why the browser tests cannot run here, or None when they can."""
+    absent = [str(p) for p in (CHROMIUM, CHROMEDRIVER) if shutil.which(str(p)) is None]
+    if absent:
+        return f"headless browser not installed ({', '.join(absent)} missing; apt install chromium chromium-driver)"
+    return None
+
+
+def start_browser(profile: Path):
+    """A fresh headless Chromium with a throwaway profile and performance logging."""
+    from selenium import webdriver  # only the browser tests need selenium
+    from selenium.webdriver.chrome.service import Service
+
+    options = webdriver.ChromeOptions()
+    options.binary_location = str(CHROMIUM)
+    for flag in BROWSER_FLAGS:
+        options.add_argument(flag)
+    options.add_argument(f"--user-data-dir={profile}")
+    options.set_capability("goog:loggingPrefs", {"performance": "ALL", "browser": "ALL"})
+    return webdriver.Chrome(service=Service(str(CHROMEDRIVER)), options=options)

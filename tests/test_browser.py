@@ -8,57 +8,22 @@ actually laid out.  One browser session serves the whole module.
 from __future__ import annotations
 
 import json
-import shutil
 from dataclasses import dataclass
 from pathlib import Path
 
 import pytest
 
-CHROMIUM = Path("/usr/bin/chromium")
-CHROMEDRIVER = Path("/usr/bin/chromedriver")
-_ABSENT = [str(p) for p in (CHROMIUM, CHROMEDRIVER) if shutil.which(str(p)) is None]
-if _ABSENT:
-    pytest.skip(f"headless browser not installed ({', '.join(_ABSENT)} missing; "
-                "apt install chromium chromium-driver)", allow_module_level=True)
+from support import SCRIPT, make_report, missing_browser, start_browser
+
+if missing_browser():
+    pytest.skip(missing_browser(), allow_module_level=True)
 
 from PIL import Image  # noqa: E402 - matplotlib's own dependency
-from selenium import webdriver  # noqa: E402
-from selenium.webdriver.chrome.service import Service  # noqa: E402
 from selenium.webdriver.support.ui import WebDriverWait  # noqa: E402
 
 from compiler.render.html import to_html  # noqa: E402
-from support import SCRIPT, make_report  # noqa: E402
 
-# ---------------------------------------------------------------- driving the browser
-# The browser is the distribution's own (CI installs it with apt); selenium is
-# pointed at it explicitly so it never fetches a driver or a browser itself.
-
-# Headless, and quiet: no background fetches of its own that could be
-# mistaken for (or hide) a request made by the page.
-FLAGS = (
-    "--headless=new",
-    "--no-sandbox",
-    "--disable-gpu",
-    "--disable-quic",
-    "--no-first-run",
-    "--disable-background-networking",
-    "--disable-component-update",
-    "--disable-sync",
-    "--disable-default-apps",
-    "--window-size=1280,2000",
-)
-
-
-def start_browser(profile: Path) -> webdriver.Chrome:
-    """A fresh headless Chromium with a throwaway profile and performance logging."""
-    options = webdriver.ChromeOptions()
-    options.binary_location = str(CHROMIUM)
-    for flag in FLAGS:
-        options.add_argument(flag)
-    options.add_argument(f"--user-data-dir={profile}")
-    options.set_capability("goog:loggingPrefs", {"performance": "ALL", "browser": "ALL"})
-    return webdriver.Chrome(service=Service(str(CHROMEDRIVER)), options=options)
-
+# ---------------------------------------------------------------- what a visit records
 
 # Every <math> element's box, whether it is in the MathML namespace (parsed
 # as math, not as an unknown HTML tag), and every fraction's layout: a
@@ -103,7 +68,7 @@ def _requested_urls(performance_log: list[dict]) -> list[str]:
     return urls
 
 
-def visit(driver: webdriver.Chrome, page: Path, screenshot: Path) -> Visit:
+def visit(driver, page: Path, screenshot: Path) -> Visit:
     """Open ``page`` from disk, wait for it to finish loading, and record it."""
     driver.get_log("performance")  # drain what earlier pages left behind
     driver.get_log("browser")
