@@ -20,12 +20,31 @@ from pathlib import Path
 import pytest
 from hypothesis import HealthCheck, settings
 
+from compiler.engine.cache import KEY_ENV
 from support import DOCUMENTS, anomark as run_anomark
 
 settings.register_profile("suite", deadline=None, derandomize=True, database=None,
                           suppress_health_check=[HealthCheck.too_slow])
 settings.register_profile("hunt", deadline=None, suppress_health_check=[HealthCheck.too_slow])
 settings.load_profile(os.environ.get("HYPOTHESIS_PROFILE", "suite"))
+
+
+@pytest.fixture(scope="session", autouse=True)
+def session_key_folder(tmp_path_factory):
+    """The cache's signing secret in a temporary folder for the whole run,
+    never in the user's own cache folder."""
+    with pytest.MonkeyPatch.context() as patch:
+        patch.setenv(KEY_ENV, str(tmp_path_factory.mktemp("cache-key")))
+        yield
+
+
+@pytest.fixture
+def key_folder(tmp_path_factory, monkeypatch) -> Path:
+    """A fresh signing secret for one test, in a folder of its own, outside
+    every document folder."""
+    folder = tmp_path_factory.mktemp("key")
+    monkeypatch.setenv(KEY_ENV, str(folder))
+    return folder
 
 
 @pytest.fixture

@@ -14,7 +14,7 @@ from pathlib import Path
 
 import pytest
 
-from compiler.cache import CACHE_DIR
+from compiler.engine.cache import CACHE_DIR
 from compiler.errors import DocumentError
 from compiler.render.html import to_html
 from compiler.render.json import to_json
