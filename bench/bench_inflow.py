@@ -1,0 +1,185 @@
+"""The wide inflow cube as a document, against the same computation in plain sympy.
+
+Not a test: run ``python bench/bench_inflow.py`` from the repository root.
+The document: the S^4 sphere bundle of a real rank-5 bundle NW split into two
+oriented planes L1, L2 and a trivial line, K flavour line bundles F1..FK with
+symbolic charges q1..qK, and the angular form with flavour terms
+
+    E4 = e4/2 + sum_i (q_i c1(L1) + (N - q_i) c1(L2)) c1(F_i)
+              + sum_{i<=j} q_i q_j/(i+j) c1(F_i) c1(F_j) + N/4 (c1(L1)^2 + c1(L2)^2),
+
+cubed and integrated over the sphere.  Plain sympy does the same with
+expressions: expand E4^3, then integrate by collecting the powers of e4
+(the sphere relations give e4^(2s+1) -> 2 p2(NW)^s = 2 (x1 x2)^(2s), even
+powers -> 0).  Both results are checked equal before any time is printed.
+
+Three measurements, one run:
+1. K = 6, whole process: ``python -m compiler build DOC -o OUT --no-cache``
+   (HTML and JSON written, minimum of ``--runs``), against plain sympy in
+   this process (expansion and integration only, no printing; minimum of
+   ``--sympy-runs``).  Target: the build at least 15x faster.
+2. The flavour family K = 1..10 in process (``compiler.engine.build`` plus
+   the HTML and JSON renderers, as the command line does): time against the
+   number of terms of the result, with the exponent of a least-squares fit
+   of log time on log terms.  Target: exponent at most 1.
+"""
+from __future__ import annotations
+
+import argparse
+import math
+import os
+import subprocess
+import sys
+import tempfile
+import time
+from fractions import Fraction
+from pathlib import Path
+
+import sympy
+
+from compiler.engine import BuildOptions, parse
+from compiler.engine.run import Run
+from compiler.render.html import to_html
+from compiler.render.json import to_json
+
+ROOT = Path(__file__).resolve().parent.parent
+
+
+def document(k: int) -> str:
+    """The inflow document with K flavour line bundles."""
+    flavours = [f"F{i}" for i in range(1, k + 1)]
+    charges = [f"q{i}" for i in range(1, k + 1)]
+    terms = ["e4/2"]
+    for i in range(k):
+        terms.append(f"({charges[i]}*c1(L1) + (N - {charges[i]})*c1(L2))*c1({flavours[i]})")
+        for j in range(i, k):
+            terms.append(f"{charges[i]}*{charges[j]}/{i + j + 2}*c1({flavours[i]})*c1({flavours[j]})")
+    terms.append("N/4*(c1(L1)^2 + c1(L2)^2)")
+    angular = " \\\n    + ".join(terms)
+    return f"""---
+title: Wide inflow cube with {k} flavour fields
+---
+
+# Inflow with flavour
+
+```derive
+symbol N: integer, positive
+symbol {", ".join(charges)}: integer
+bundle NW: real, rank 5
+bundle L1, L2: line
+bundle {", ".join(flavours)}: line
+split NW = L1 + L2 + trivial(1)
+fiber S4: sphere of NW, angular e4
+let E4 = {angular}
+integrate E4^3 over S4 -> I8
+```
+"""
+
+
+def plain_sympy(k: int) -> sympy.Expr:
+    """The same integral with sympy expressions: expand, then collect e4 powers."""
+    e4, x1, x2, N = sympy.symbols("e4 x1 x2 N")
+    f = sympy.symbols(" ".join(f"f{i}" for i in range(1, k + 2)))[:k]
+    q = sympy.symbols(" ".join(f"q{i}" for i in range(1, k + 2)))[:k]
+    form = e4 / 2 + N / 4 * (x1 ** 2 + x2 ** 2)
+    for i in range(k):
+        form += (q[i] * x1 + (N - q[i]) * x2) * f[i]
+        for j in range(i, k):
+            form += q[i] * q[j] / (i + j + 2) * f[i] * f[j]
+    cube = sympy.expand(form ** 3)
+    p2 = x1 ** 2 * x2 ** 2
+    powers = sympy.collect(cube, e4, evaluate=False)
+    return sympy.expand(sum(2 * p2 ** ((m - 1) // 2) * c
+                            for m, c in ((sympy.degree(key, e4), c) for key, c in powers.items())
+                            if m % 2 == 1))
+
+
+def in_process(k: int, folder: Path):
+    """One in-process build of the K document with the command line's renderers
+    (wall seconds) and the ring value bound to I8."""
+    path = folder / f"inflow-{k}.md"
+    text = document(k)
+    path.write_text(text, encoding="utf-8")
+    start = time.perf_counter()
+    document_, by_block = parse(str(path), text)
+    statements = [s for i in sorted(by_block) for s in by_block[i]]
+    run = Run(str(path), document_, statements, BuildOptions(use_cache=False))
+    report = run.execute(by_block)
+    to_html(report)
+    to_json(report)
+    seconds = time.perf_counter() - start
+    assert report.passed, f"inflow-{k} did not pass"
+    return seconds, run.scope.bindings["I8"].value
+
+
+def as_plain(value, k: int) -> sympy.Expr:
+    """A ring value as a sympy expression in the plain side's names (the
+    document's symbols carry assumptions, the plain ones none)."""
+    rename = {"c1(L1)": "x1", "c1(L2)": "x2", **{f"c1(F{i})": f"f{i}" for i in range(1, k + 1)}}
+    plain = lambda c: c.xreplace({s: sympy.Symbol(s.name) for s in c.free_symbols})
+    return sympy.expand(sum(plain(c) * sympy.Mul(*[sympy.Symbol(rename[key]) ** e for key, e in pairs])
+                            for pairs, c in value.terms()))
+
+
+def term_count(value) -> int:
+    """Terms over classes and symbols together."""
+    return sum(len(sympy.Add.make_args(sympy.expand(c))) for _, c in value.terms())
+
+
+def whole_process(k: int, folder: Path, runs: int) -> float:
+    path = folder / f"inflow-{k}.md"
+    path.write_text(document(k), encoding="utf-8")
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    env.pop("PYTHONDONTWRITEBYTECODE", None)   # as installed: compiled modules are kept
+    argv = [sys.executable, "-m", "compiler", "build", path.name, "-o", "out", "--no-cache", "--quiet"]
+    best = math.inf
+    for _ in range(runs):
+        start = time.perf_counter()
+        done = subprocess.run(argv, cwd=folder, env=env, capture_output=True, text=True)
+        best = min(best, time.perf_counter() - start)
+        if done.returncode != 0:
+            raise SystemExit(f"build of inflow-{k} exited {done.returncode}:\n{done.stderr}")
+    return best
+
+
+def fitted_exponent(points: list[tuple[float, float]]) -> float:
+    """Slope of the least-squares line through (log x, log y)."""
+    xs, ys = [math.log(x) for x, _ in points], [math.log(y) for _, y in points]
+    mx, my = sum(xs) / len(xs), sum(ys) / len(ys)
+    return sum((x - mx) * (y - my) for x, y in zip(xs, ys)) / sum((x - mx) ** 2 for x in xs)
+
+
+def main() -> None:
+    parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    parser.add_argument("--runs", type=int, default=3, help="whole-process builds; the minimum is kept")
+    parser.add_argument("--sympy-runs", type=int, default=1, help="plain sympy runs; the minimum is kept")
+    parser.add_argument("--family", type=int, default=10, help="largest K of the flavour family")
+    args = parser.parse_args()
+    with tempfile.TemporaryDirectory(prefix="anomark-inflow-") as tmp:
+        folder = Path(tmp)
+        _, value = in_process(6, folder)
+        theirs, plain = math.inf, None
+        for _ in range(args.sympy_runs):
+            start = time.perf_counter()
+            plain = plain_sympy(6)
+            theirs = min(theirs, time.perf_counter() - start)
+        assert sympy.expand(as_plain(value, 6) - plain) == 0, "anomark and sympy disagree"
+        ours = whole_process(6, folder, args.runs)
+        print(f"wide inflow cube, 6 flavours: {len(sympy.Add.make_args(plain))} terms, same value both ways")
+        print(f"  anomark build, whole process: {ours:8.3f} s")
+        print(f"  plain sympy, in process     : {theirs:8.3f} s")
+        print(f"  sympy / anomark             : {theirs / ours:8.1f}x   (target: >= 15x)")
+
+        print("\nflavour family, in process (build + HTML + JSON):")
+        print(f"{'K':>3}  {'terms':>7}  {'seconds':>8}")
+        points = []
+        for k in range(1, args.family + 1):
+            seconds, value = in_process(k, folder)
+            terms = term_count(value)
+            points.append((terms, seconds))
+            print(f"{k:>3}  {terms:>7}  {seconds:8.3f}")
+        print(f"fitted exponent of time against terms: {fitted_exponent(points):.2f}   (target: <= 1)")
+
+
+if __name__ == "__main__":
+    main()
