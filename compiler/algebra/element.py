@@ -317,19 +317,25 @@ class Element:
         den = scalar(a._den)
         if not den.is_class_free() or den.is_zero:
             raise AlgebraError("the substitution makes a denominator vanish or contain classes")
-        result = R.zero()
+        # Terms sharing the powers of the replaced generators are summed first,
+        # so each product of replacements is built and multiplied once.
+        groups: dict[tuple, dict] = {}
         for m, c in a._t.items():
             budget.check()
-            term = scalar(c)
-            kept = []
-            for i, e in m:
-                if i in gen_vals:
-                    term = term * power("g", i, e, gen_vals[i])
-                else:
-                    kept.append((i, e))
-            if kept:
-                term = term * R._make({tuple(kept): C.one}, C.one)
-            result = result + term
+            replaced = tuple((i, e) for i, e in m if i in gen_vals)
+            groups.setdefault(replaced, {})[tuple((i, e) for i, e in m if i not in gen_vals)] = c
+        result = R.zero()
+        for replaced, rest in groups.items():
+            factor = R.one()
+            for i, e in replaced:
+                factor = factor * power("g", i, e, gen_vals[i])
+            if sym_vals:
+                part = R.zero()
+                for kept, c in rest.items():
+                    part = part + scalar(c) * R._make({kept: C.one}, C.one)
+            else:
+                part = R._make(rest, C.one)
+            result = result + factor * part
         return result / den
 
     # ------------------------------------------------------------ printing

@@ -86,10 +86,16 @@ class Layout:
 
     def pack(self, terms: dict):
         """{monomial: polynomial in the symbols} -> one polynomial of this context."""
-        total = self.zero
+        width = self.ctx.nvars() - self.nsym - 1
+        data = {}
         for m, c in terms.items():
-            total += self.embed(c) * self.mono(m)
-        return total
+            tail = [self.monos.degree(m)] + [0] * width
+            for i, e in m:
+                tail[1 + i] = e
+            tail = tuple(tail)
+            for exps, coefficient in zip(c.monoms(), c.coeffs()):
+                data[exps + tail] = coefficient
+        return self.ctx.from_dict(data) if data else self.zero
 
     def unpack(self, P) -> dict:
         """One polynomial -> {monomial: polynomial in the symbols}."""
