@@ -4,7 +4,8 @@ from fractions import Fraction
 import pytest
 import sympy
 
-from compiler.algebra.fibers import FiberError, declare_fiber_classes, general_fiber
+from compiler.algebra.fibers import (FiberError, declare_fiber_classes, general_fiber,
+                                     surface_fiber)
 from compiler.algebra.fibers import integrate as integrate_by_relations
 from compiler.algebra.graded import Ring
 from compiler.algebra.localization import (FixedPoint, consistency_checks, integrate,
@@ -285,3 +286,36 @@ def test_integrand_with_a_class_without_restrictions():
     gen(ring, "stray", 2, FIBER)
     with pytest.raises(FiberError, match="no restriction .* stray"):
         integrate(ring.gen("stray"), fiber)
+
+
+# -- agreement with the genus-0 surface ---------------------------------------------------
+
+def test_smooth_sphere_agrees_with_the_genus_zero_surface():
+    # N = 4 SYM has I6 = (N^2/2) c1(F1) c1(F2) c1(F3) at large N (common practice, no
+    # source); on S^2 with c1(F_i) = (2/3) c1(R) + c1(L), deg L = 2/3, the surface fiber
+    # (∫ e(TS) = 2, e(TS)^2 = 0, c1(L) = e(TS)/3) and localization with the rotation
+    # parameter set to epsilon*c1(R) must agree at epsilon = 0 (common practice, no source).
+    N, epsilon = sympy.symbols("N epsilon", positive=True)
+    ring = Ring([N, epsilon], 12)
+    c1r = gen(ring, "c1(R)")
+    eps = gen(ring, "eps", 2, 3)
+    gen(ring, "L", 2, FIBER)
+    third = Fraction(1, 3)
+    sphere = localized_fiber("S2", ring, FIBER, 2, ("eps",), SPHERE,
+                             {"L": {"N": third * eps, "S": -third * eps}},
+                             {"eps": ring.symbol(epsilon) * c1r})
+    e_ts = gen(ring, "e(TS)", 2, 2)
+    surface = surface_fiber("Sigma", ring, 2, 0, e_ts)
+    nn = ring.symbol(N)
+
+    def i6(line):
+        return nn ** 2 / 2 * (Fraction(2, 3) * c1r + line) ** 3
+
+    by_localization, checks = integrate(i6(ring.gen("L")), sphere)
+    assert_checks_pass(checks)
+    by_surface, _ = integrate_by_relations(i6(third * e_ts), surface)
+    assert by_localization.substitute({epsilon: 0}) == by_surface
+    assert by_surface == Fraction(4, 9) * nn ** 2 * c1r ** 2
+    # and the rotation mixing enters at second order: (N^2/2)(8/9 + 2 epsilon^2/27)
+    assert by_localization == nn ** 2 / 2 * (Fraction(8, 9) + Fraction(2, 27) * ring.symbol(
+        epsilon) ** 2) * c1r ** 2
