@@ -8,8 +8,9 @@ from compiler.algebra.fibers import (FiberError, declare_fiber_classes, general_
                                      surface_fiber)
 from compiler.algebra.fibers import integrate as integrate_by_relations
 from compiler.algebra.graded import Ring
-from compiler.algebra.localization import (FixedPoint, consistency_checks, integrate,
-                                           localized_fiber, tangent_restrictions)
+from compiler.algebra.fixed_points import (consistency_checks, localized_fiber,
+                                           tangent_restrictions)
+from compiler.algebra.localization import FixedPoint, integrate
 
 n = sympy.Symbol("n", integer=True, positive=True)
 n1 = sympy.Symbol("n1", integer=True, positive=True)
@@ -319,3 +320,28 @@ def test_smooth_sphere_agrees_with_the_genus_zero_surface():
     # and the rotation mixing enters at second order: (N^2/2)(8/9 + 2 epsilon^2/27)
     assert by_localization == nn ** 2 / 2 * (Fraction(8, 9) + Fraction(2, 27) * ring.symbol(
         epsilon) ** 2) * c1r ** 2
+
+
+def test_zero_rotation_check_is_made_and_can_fail():
+    # Restrictions of one class to the poles differ only by multiples of the
+    # parameters (common practice, no source): c1(B) at N and 0 at S cannot be.
+    ring, fiber = build(SPHERE, {"L": {"N": moment(2), "S": moment(0)}})
+    _, checks = integrate(ring.gen("L") * ring.gen("e"), fiber)
+    names = [c.what for c in checks]
+    assert "at zero rotation, localization over D agrees with the genus-0 surface fiber" in names
+    # ∫ L would leave the pole c1(B)/eps; ∫ L e does not, and the check catches it.
+    ring, fiber = build(SPHERE, {"L": {"N": lambda r: gen(r, "c1(B)"), "S": moment(0)}})
+    _, checks = integrate(ring.gen("L") * ring.gen("e"), fiber)
+    failed = [c for c in checks if not c.ok]
+    assert [c.what for c in failed] == ["L has the same base part at every fixed point of D"]
+    assert "N: c1(B)" in failed[0].detail
+
+
+def test_spindle_zero_rotation_check():
+    # χ ω times deg O(1) ω vanishes without rotation; with it, the equivariant product
+    # integrates to (1/n1)(1/(n1 n2)) eps (by localization, Atiyah and Bott 1984).
+    ring, fiber = spindle()
+    result, checks = integrate(ring.gen("e") * ring.gen("O1"), fiber)
+    assert result == ring.scalar(1 / (n1 ** 2 * n2)) * ring.gen("eps")
+    assert "agrees with the spindle's ordinary cohomology" in checks[-1].what
+    assert_checks_pass(checks)
