@@ -345,3 +345,20 @@ def test_spindle_zero_rotation_check():
     assert result == ring.scalar(1 / (n1 ** 2 * n2)) * ring.gen("eps")
     assert "agrees with the spindle's ordinary cohomology" in checks[-1].what
     assert_checks_pass(checks)
+
+
+def test_undecided_integrality_fails_and_a_decided_one_passes():
+    # Equal moment values -1/(3 n) at both poles give deg L = (n1 - n2)/(3 n1 n2):
+    # integral up to the orders only when 3 divides n1 - n2 (common practice, no source).
+    k = sympy.Symbol("k", integer=True, positive=True)
+
+    def checks_for(a, b):
+        points = (FixedPoint("N", (1 / a,), a), FixedPoint("S", (-1 / b,), b))
+        ring, fiber = build(points, {"L": {"N": moment(-1 / (3 * a)), "S": moment(-1 / (3 * b))}},
+                            symbols=(n1, n2, k))
+        return [c for c in consistency_checks(fiber) if "degree of L" in c.what]
+
+    undecided, = checks_for(n1, n2)
+    assert not undecided.ok and "not decided" in undecided.detail
+    decided, = checks_for(n2 + 3 * k, n2)
+    assert decided.ok and "product k" in decided.detail

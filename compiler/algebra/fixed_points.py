@@ -154,14 +154,17 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
     - ∫ c_j(T) = 0 for j < k (no pole), and likewise ∫ c^j = 0 for each
       degree-2 class c, j < k: the weights' relation to the degrees;
     - ∫ c^k of each degree-2 class, times the lcm of the orders, is an integer.
+
+    A condition that cannot be decided for every value of the symbols fails
+    (the detail says so): the data should be written so that it is decided.
     """
     ring, k = fiber.ring, fiber.dimension // 2
     checks = []
     for p in fiber.points:
-        bad = [c for w in p.weights for c in w if (p.order * c).is_integer is False]
+        bad = [c for w in p.weights for c in w if (p.order * c).is_integer is not True]
         checks.append(CrossCheck(
             f"tangent weights at {p.name} are integral up to its order {p.order}",
-            not bad, f"order * weight is not an integer for the component(s) "
+            not bad, f"order * weight is not provably an integer for the component(s) "
                      f"{', '.join(map(str, bad))}" if bad else ""))
     tangent = [TANGENT["c"]([fiber.weight(p, i) for i in range(k)], j, ring.one())
                for p in fiber.points for j in range(k)]
@@ -179,10 +182,13 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
         if poles:
             continue
         degree = sum((c for pairs, c in top.terms() if not pairs), sympy.Integer(0))
-        ok = (degree * lcm_orders).is_integer is not False
+        scaled = sympy.cancel(degree * lcm_orders)
         checks.append(CrossCheck(
             f"the degree of {_power_text(info.text, k)} over {fiber.name} is integral up to the orders",
-            ok, f"degree {degree}, lcm of the orders {lcm_orders}"))
+            scaled.is_integer is True,
+            f"degree {degree}, lcm of the orders {lcm_orders}, product {scaled}"
+            + ("" if scaled.is_integer is not None else " (not decided for all values of "
+                                                          "the symbols)")))
     return checks
 
 
