@@ -61,11 +61,20 @@ def localized_fiber(name: str, ring: Ring, group: int, dimension: int, parameter
                           points=points, restrictions=table, identify=identify)
 
 
-def checked_point(fiber: str, point: FixedPoint, rank: int, k: int) -> FixedPoint:
-    where = f"fixed point {point.name} of {fiber}"
-    order = _scalar(point.order, f"the order of {where}")
+def checked_order(fiber: str, label: str, order) -> sympy.Expr:
+    """The orbifold order of a fixed point, provably a positive integer."""
+    where = f"the order of fixed point {label} of {fiber}"
+    order = _scalar(order, where)
     if order.is_integer is not True or order.is_positive is not True:
-        raise FiberError(f"the order of {where} must be a positive integer, not {order}")
+        raise FiberError(f"{where} must be a positive integer, not {_text(order)}")
+    return order
+
+
+def checked_point(fiber: str, point: FixedPoint, rank: int, k: int) -> FixedPoint:
+    """The point with exact weights (``rank`` components each, ``k`` of them,
+    none zero) and a positive integer order."""
+    where = f"fixed point {point.name} of {fiber}"
+    order = checked_order(fiber, point.name, point.order)
     weights = tuple(_weight(w, rank, where) for w in point.weights)
     if len(weights) != k:
         raise FiberError(f"{where} has {len(weights)} tangent weights; a fiber of dimension "
@@ -89,13 +98,13 @@ def _checked_restrictions(ring, fiber, group, parameters, names, key, values) ->
     info = ring.generator_info(key)
     if info.group != group:
         raise FiberError(f"{info.text} is not a class of the fiber {fiber}")
+    extra = sorted(set(values) - set(names))
+    if extra:
+        raise FiberError(f"{extra[0]} is not a fixed point of {fiber}")
     missing = [n for n in names if n not in values]
     if missing:
         raise FiberError(f"the restriction of {info.text} to fixed point {missing[0]} of "
                          f"{fiber} is missing")
-    extra = sorted(set(values) - set(names))
-    if extra:
-        raise FiberError(f"{extra[0]} is not a fixed point of {fiber}")
     out = []
     for n in names:
         value = values[n]
@@ -163,9 +172,9 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
     for p in fiber.points:
         bad = [c for w in p.weights for c in w if (p.order * c).is_integer is not True]
         checks.append(CrossCheck(
-            f"tangent weights at {p.name} are integral up to its order {p.order}",
+            f"tangent weights at {p.name} are integral up to its order {fiber.text(p.order)}",
             not bad, f"order * weight is not provably an integer for the component(s) "
-                     f"{', '.join(map(str, bad))}" if bad else ""))
+                     f"{', '.join(map(fiber.text, bad))}" if bad else ""))
     tangent = [TANGENT["c"]([fiber.weight(p, i) for i in range(k)], j, ring.one())
                for p in fiber.points for j in range(k)]
     for j in range(k):
@@ -186,7 +195,8 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
         checks.append(CrossCheck(
             f"the degree of {_power_text(info.text, k)} over {fiber.name} is integral up to the orders",
             scaled.is_integer is True,
-            f"degree {degree}, lcm of the orders {lcm_orders}, product {scaled}"
+            f"degree {fiber.text(degree)}, lcm of the orders {fiber.text(lcm_orders)}, "
+            f"product {fiber.text(scaled)}"
             + ("" if scaled.is_integer is not None else " (not decided for all values of "
                                                           "the symbols)")))
     return checks
@@ -231,4 +241,9 @@ def _power_text(text: str, j: int) -> str:
 
 
 def _form_text(form: tuple) -> str:
-    return "(" + ", ".join(map(str, form)) + ")"
+    return "(" + ", ".join(map(_text, form)) + ")"
+
+
+def _text(value: sympy.Expr) -> str:
+    """For messages about data that never reached the ring: powers as ^."""
+    return str(value).replace("**", "^")

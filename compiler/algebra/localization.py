@@ -100,9 +100,13 @@ class LocalizedFiber(Fiber):
                                         for f in rest) + ")")
         return numerator, poles
 
+    def text(self, value) -> str:
+        """A number or rational function of the symbols, printed as values are."""
+        return self.ring.scalar(value).to_text()
+
     def contributions(self, values) -> str:
         """Each fixed point's term, for the report of a failed check."""
-        return "; ".join(f"{p.name}: ({v.to_text()}) / ({p.order} * "
+        return "; ".join(f"{p.name}: ({v.to_text()}) / ({self.text(p.order)} * "
                          + "*".join(f"({self.weight(p, i).to_text()})"
                                     for i in range(len(p.weights))) + ")"
                          for p, v in zip(self.points, values))
