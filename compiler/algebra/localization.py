@@ -24,8 +24,9 @@ from dataclasses import dataclass, field
 
 import sympy
 
+from .errors import AlgebraError
 from .fibers import CrossCheck, Fiber, FiberError
-from .graded import AlgebraError, Element, Ring
+from .graded import Element, Ring
 
 
 @dataclass(frozen=True)
