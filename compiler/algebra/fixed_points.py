@@ -48,7 +48,7 @@ def localized_fiber(name: str, ring: Ring, group: int, dimension: int, parameter
     twice = sorted({n for n in names if names.count(n) > 1})
     if twice:
         raise FiberError(f"fixed point {twice[0]} of {name} is declared twice")
-    table = {key: _checked_restrictions(ring, name, group, parameters, names, key, values)
+    table = {key: _checked_restrictions(ring, name, group, names, key, values)
              for key, values in restrictions.items()}
     identify = dict(identify or {})
     for key, value in identify.items():
@@ -94,7 +94,9 @@ def _weight(w, rank: int, where: str) -> tuple:
     return tuple(_scalar(c, f"a tangent weight at {where}") for c in coefficients)
 
 
-def _checked_restrictions(ring, fiber, group, parameters, names, key, values) -> tuple:
+def _checked_restrictions(ring, fiber, group, names, key, values) -> tuple:
+    """The restrictions of class ``key`` in point order: one per point, each
+    of the class's degree and free of the fiber's classes."""
     info = ring.generator_info(key)
     if info.group != group:
         raise FiberError(f"{info.text} is not a class of the fiber {fiber}")

@@ -169,7 +169,7 @@ class FixedPointDecl:
 
 @dataclass(frozen=True)
 class PointValue:
-    """``north = -t/3`` in a ``line`` of a fixed-point fiber: a restriction."""
+    """``north = -t/3`` in a fixed-point fiber's ``line``: a restriction."""
 
     label: str
     value: Expr
