@@ -24,7 +24,8 @@ import sympy
 
 from . import __version__, names as names_pass, notation
 from .algebra import bundles as bundles_mod, fibers as fibers_mod
-from .algebra.extremize import ExtremizeError, extremize, tidy
+from .algebra.extremize import ExtremizeError, extremize
+from .algebra.radicals import tidy
 from .algebra.graded import AlgebraError, Element, Ring
 from .algebra.sampling import SymbolSpec
 from .cache import CODE, StepCache, digest, expr_from_data, expr_to_data, restore_step, step_entry

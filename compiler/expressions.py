@@ -20,7 +20,7 @@ import sympy
 
 from . import notation
 from .algebra import genera
-from .algebra.extremize import tidy
+from .algebra.radicals import tidy
 from .algebra.genera import BundleValue
 from .algebra.graded import AlgebraError, Element, NotRational
 from .errors import DocumentError, Location

@@ -5,7 +5,8 @@ import pytest
 import sympy
 
 from compiler.algebra.extremize import ExtremizeError, extremize
-from compiler.algebra.sampling import SymbolSpec, evaluate, sample_points
+from compiler.algebra.region import Region
+from compiler.algebra.sampling import SymbolSpec, evaluate
 
 F = Fraction
 
@@ -88,7 +89,7 @@ def test_a_maximization_for_general_twist_matches_the_large_n_result():
     expected = (1 - gs) * (1 - 9 * zs ** 2 - (1 + 3 * zs ** 2) ** sympy.Rational(3, 2)) / (48 * zs ** 2)
     assert sympy.simplify(leading - expected) == 0
     # at z = 1 the general root is the N=2 one
-    for point in sample_points([N, g], 5, "check"):
+    for point in Region((N, g)).sample(5, "check"):
         at = {**point, zs: 1}
         assert abs(evaluate(result.point[0], at) + sympy.Rational(1, 3)) < 1e-40
 

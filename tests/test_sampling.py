@@ -9,7 +9,8 @@ from fractions import Fraction
 import pytest
 import sympy
 
-from compiler.algebra.sampling import SymbolSpec, evaluate, sample_points
+from compiler.algebra.region import Region
+from compiler.algebra.sampling import SymbolSpec, evaluate
 
 
 def test_integer_positive_carries_sympy_assumptions():
@@ -69,7 +70,7 @@ def _specs():
 
 def test_sample_points_satisfy_every_declaration_and_are_distinct():
     specs = _specs()
-    points = sample_points(specs, 40, "doc.md:12")
+    points = Region(tuple(specs)).sample(40, "doc.md:12")
     assert len(points) == 40
     assert len({tuple(p.values()) for p in points}) == 40
     for p in points:
@@ -83,13 +84,13 @@ def test_sample_points_satisfy_every_declaration_and_are_distinct():
 
 def test_sample_points_are_deterministic_and_seeded():
     specs = _specs()
-    assert sample_points(specs, 20, "a.md:3") == sample_points(specs, 20, "a.md:3")
-    assert sample_points(specs, 20, "a.md:3") != sample_points(specs, 20, "a.md:4")
+    assert Region(tuple(specs)).sample(20, "a.md:3") == Region(tuple(specs)).sample(20, "a.md:3")
+    assert Region(tuple(specs)).sample(20, "a.md:3") != Region(tuple(specs)).sample(20, "a.md:4")
 
 
 def test_sample_points_spread_over_small_and_moderate_sizes():
     z = SymbolSpec.declare("z", ["positive"], [])
-    values = [p[z.symbol] for p in sample_points([z], 60, "spread")]
+    values = [p[z.symbol] for p in Region((z,)).sample(60, "spread")]
     assert any(v < 1 for v in values)
     assert any(v > 10 for v in values)
     assert any(not v.is_Integer for v in values)
@@ -97,12 +98,12 @@ def test_sample_points_spread_over_small_and_moderate_sizes():
 
 def test_small_finite_domains_are_enumerated():
     k = SymbolSpec.declare("k", ["integer"], [(">=", Fraction(1)), ("<=", Fraction(3))])
-    points = sample_points([k], 20, "finite")
+    points = Region((k,)).sample(20, "finite")
     assert sorted(p[k.symbol] for p in points) == [1, 2, 3]
 
 
 def test_no_symbols_gives_the_single_empty_point():
-    assert sample_points([], 20, "none") == [{}]
+    assert Region(()).sample(20, "none") == [{}]
 
 
 def test_evaluate_substitutes_exactly_before_rounding():

@@ -1,0 +1,168 @@
+"""Critical points of a polynomial system by elimination, not by ``solve``.
+
+The gradient of a trial function is a system of polynomials in the
+variables with coefficients in QQ[parameters].  The last variable is
+eliminated down to one polynomial by resultants (FLINT's multivariate
+polynomials, fast), which is factored over QQ(parameters).  A factor linear
+in that variable gives it as a rational function of the parameters; it is
+substituted and the smaller system solved the same way, down to one
+variable, where sympy writes the roots in radicals when it can.  Any other
+factor (or a root of higher degree) is kept as an *implicit component*: the
+polynomials that cut it out.  Its points are computed exactly at a sample
+point of the parameters (a lexicographic Groebner basis over QQ, then the
+real roots of its last polynomial as isolated algebraic numbers), which is
+how the root choice is made for it; with no parameters that is exact.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Sequence
+
+import flint
+import sympy
+
+
+class FamilyError(ValueError):
+    """The critical points form a continuous family (a degenerate Hessian)."""
+
+
+@dataclass(frozen=True)
+class Closed:
+    """A critical point in closed form (rational functions and radicals)."""
+
+    coords: tuple[sympy.Expr, ...]
+
+
+@dataclass(frozen=True)
+class Implicit:
+    """The common zeros of the gradient and ``extra``, a component with no
+    closed form found; ``polynomial`` is its eliminant in ``variable``."""
+
+    extra: tuple[sympy.Expr, ...]
+    polynomial: sympy.Expr
+    variable: sympy.Symbol
+
+    @property
+    def degree(self) -> int:
+        return sympy.degree(self.polynomial, self.variable)
+
+    def points(self, system, variables, point) -> tuple[list[tuple], int]:
+        """Exact real points at a parameter point, and the number of complex ones."""
+        polys = [sympy.expand(p.xreplace(point)) for p in list(system) + list(self.extra)]
+        basis = sympy.groebner([p for p in polys if p != 0], *variables, order="lex")
+        exprs = list(basis.exprs)
+        if exprs == [1]:
+            return [], 0
+        last = variables[-1]
+        shape = len(exprs) == len(variables) and all(
+            g.coeff(v).is_number and g.coeff(v) != 0
+            and (g - g.coeff(v) * v).free_symbols <= {last}
+            for g, v in zip(exprs[:-1], variables[:-1]))
+        if not shape or exprs[-1].free_symbols - {last}:
+            raise ValueError("the critical points are not in general position")
+        reals, complex_count = [], 0
+        for root in sympy.Poly(exprs[-1], last).all_roots():
+            if not root.is_real:
+                complex_count += 1
+                continue
+            coords = [sympy.expand(-(g - g.coeff(v) * v) / g.coeff(v)).xreplace({last: root})
+                      for g, v in zip(exprs[:-1], variables[:-1])]
+            reals.append(tuple(coords) + (root,))
+        return reals, complex_count
+
+
+def critical_components(numerators: Sequence[sympy.Expr], variables: Sequence[sympy.Symbol],
+                        params: Sequence[sympy.Symbol]) -> list[Closed | Implicit]:
+    """Every critical point of the system ``numerators = 0``: closed forms
+    (in a fixed order, without repeats) and implicit components.
+
+    Raises FamilyError when the solutions are not isolated."""
+    found = _solve([sympy.expand(p) for p in numerators], list(variables), list(params), ())
+    closed = sorted({c.coords for c in found if isinstance(c, Closed)}, key=sympy.default_sort_key)
+    return [Closed(c) for c in closed] + [c for c in found if isinstance(c, Implicit)]
+
+
+def _solve(polys, variables, params, extra):
+    polys = [p for p in polys if p != 0]
+    if not polys:
+        raise FamilyError("every equation vanishes")
+    x = variables[-1]
+    if len(variables) == 1:
+        return _univariate(polys, x, extra)
+    eliminant = _eliminate(polys, variables[:-1], variables + params)
+    if eliminant == 0:
+        raise FamilyError(f"no single equation in {x} is left")
+    found = []
+    for factor, _ in sympy.factor_list(eliminant, *variables, *params)[1]:
+        if not factor.has(x):
+            continue
+        if sympy.degree(factor, x) == 1:
+            value = sympy.cancel(-(factor - factor.coeff(x) * x) / factor.coeff(x))
+            reduced = [sympy.numer(sympy.together(p.xreplace({x: value}))) for p in polys]
+            for sub in _solve([sympy.expand(p) for p in reduced], variables[:-1], params,
+                              extra + (sympy.numer(sympy.together(x - value)),)):
+                found.append(Closed(sub.coords + (value,)) if isinstance(sub, Closed) else sub)
+        else:
+            found.append(Implicit(extra + (factor,), factor, x))
+    return found
+
+
+def _univariate(polys, x, extra):
+    """Roots of the common factor of polynomials in one variable."""
+    common = polys[0]
+    for p in polys[1:]:
+        common = sympy.gcd(common, p)
+    if not common.has(x):
+        return []
+    roots = sympy.roots(sympy.Poly(common, x))
+    if sum(roots.values()) == sympy.degree(common, x):
+        return [Closed((r,)) for r in roots]
+    found = []
+    for factor, _ in sympy.factor_list(common)[1]:
+        if not factor.has(x):
+            continue
+        roots = sympy.roots(sympy.Poly(factor, x))
+        if sum(roots.values()) == sympy.degree(factor, x):
+            found += [Closed((r,)) for r in roots]
+        else:
+            found.append(Implicit(extra + (factor,), factor, x))
+    return found
+
+
+def _eliminate(polys, eliminated, gens):
+    """One polynomial in the last variable vanishing at every common zero of
+    ``polys``: pairwise resultants eliminate each variable in turn."""
+    names = [f"v{i}" for i in range(len(gens))]
+    ctx = flint.fmpq_mpoly_ctx.get(tuple(names), "lex")
+    current = [_to_flint(p, gens, ctx) for p in polys]
+    for y in eliminated:
+        name = names[gens.index(y)]
+        index = gens.index(y)
+        having = sorted((p for p in current if p.degrees()[index] > 0), key=lambda p: p.degrees()[index])
+        rest = [p for p in current if p.degrees()[index] == 0]
+        if having:
+            pivot = having[0]
+            rest += [pivot.resultant(p, name) for p in having[1:]]
+        current = [p for p in rest if not p.is_zero()]
+        if not current:
+            return sympy.Integer(0)
+    result = current[0]
+    for p in current[1:]:
+        result = result.gcd(p)
+    return _from_flint(result, gens)
+
+
+def _to_flint(expr, gens, ctx):
+    poly = sympy.Poly(expr, *gens, domain=sympy.QQ)
+    return ctx.from_dict({monom: flint.fmpq(int(c.numerator), int(c.denominator))
+                          for monom, c in poly.terms()})
+
+
+def _from_flint(poly, gens):
+    terms = []
+    for monom, c in poly.to_dict().items():
+        term = sympy.Rational(int(c.p), int(c.q))
+        for g, e in zip(gens, monom):
+            term *= g ** e
+        terms.append(term)
+    return sympy.Add(*terms)
