@@ -15,11 +15,17 @@ how the root choice is made for it; with no parameters that is exact.
 """
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 from typing import Sequence
 
 import flint
+import mpmath
 import sympy
+
+
+#: Digits of the real roots of implicit components.
+DIGITS = 60
 
 
 class FamilyError(ValueError):
@@ -46,9 +52,17 @@ class Implicit:
     def degree(self) -> int:
         return sympy.degree(self.polynomial, self.variable)
 
-    def points(self, system, variables, point) -> tuple[list[tuple], int]:
-        """Exact real points at a parameter point, and the number of complex ones."""
-        polys = [sympy.expand(p.xreplace(point)) for p in list(system) + list(self.extra)]
+    def points(self, system: Sequence[sympy.Poly], variables, point) -> tuple[list["RealPoint"], int]:
+        """The real points at a parameter point, and the number of complex ones.
+
+        A lexicographic Groebner basis over QQ puts the component in shape
+        position (each other variable a polynomial in the last); the real
+        roots of the last polynomial are isolated by FLINT.
+        """
+        gens = system[0].gens
+        polys = list(system) + [_poly(e, gens) for e in self.extra]
+        values = {g: v for g, v in point.items() if g in gens}
+        polys = [(p.eval(values) if values else p).as_expr() for p in polys]
         basis = sympy.groebner([p for p in polys if p != 0], *variables, order="lex")
         exprs = list(basis.exprs)
         if exprs == [1]:
@@ -60,15 +74,55 @@ class Implicit:
             for g, v in zip(exprs[:-1], variables[:-1]))
         if not shape or exprs[-1].free_symbols - {last}:
             raise ValueError("the critical points are not in general position")
-        reals, complex_count = [], 0
-        for root in sympy.Poly(exprs[-1], last).all_roots():
-            if not root.is_real:
-                complex_count += 1
-                continue
-            coords = [sympy.expand(-(g - g.coeff(v) * v) / g.coeff(v)).xreplace({last: root})
-                      for g, v in zip(exprs[:-1], variables[:-1])]
-            reals.append(tuple(coords) + (root,))
-        return reals, complex_count
+        others = tuple(sympy.expand(-(g - g.coeff(v) * v) / g.coeff(v))
+                       for g, v in zip(exprs[:-1], variables[:-1]))
+        eliminant = sympy.Poly(exprs[-1], last).sqf_part()
+        roots = _real_roots(eliminant)
+        coefficients = [[mpmath.mpf(int(c.p)) / int(c.q) for c in sympy.Poly(h, last).all_coeffs()]
+                        for h in others]
+        reals = []
+        for k, r in enumerate(roots):
+            with mpmath.workdps(DIGITS):
+                at = mpmath.mpf(str(r))
+                numeric = tuple(sympy.Float(str(mpmath.polyval(c, at)), DIGITS) for c in coefficients)
+            reals.append(RealPoint(eliminant, others, last, k, numeric + (r,)))
+        return reals, eliminant.degree() - len(roots)
+
+
+@dataclass(frozen=True)
+class RealPoint:
+    """A real point of an implicit component at one parameter point: the
+    ``index``-th real root of ``eliminant`` and the others as polynomials in it."""
+
+    eliminant: sympy.Poly
+    others: tuple[sympy.Expr, ...]
+    variable: sympy.Symbol
+    index: int
+    numeric: tuple[sympy.Float, ...]
+
+    def exact(self) -> tuple[sympy.Expr, ...]:
+        root = sympy.CRootOf(self.eliminant.as_expr(), self.index)
+        return tuple(h.xreplace({self.variable: root}) for h in self.others) + (root,)
+
+
+@functools.lru_cache(maxsize=64)
+def _poly(expr: sympy.Expr, gens: tuple) -> sympy.Poly:
+    return sympy.Poly(expr, *gens)
+
+
+def _real_roots(poly: sympy.Poly) -> list[sympy.Float]:
+    """The real roots of a squarefree polynomial over QQ, ascending (the
+    order of ``CRootOf``).  A root ball that meets the real axis holds a real
+    root: a non-real one would share it with its conjugate."""
+    coeffs = [flint.fmpq(int(c.p), int(c.q)) for c in reversed(poly.all_coeffs())]
+    old = flint.ctx.dps
+    flint.ctx.dps = DIGITS + 10
+    try:
+        found = flint.fmpq_poly(coeffs).complex_roots()
+    finally:
+        flint.ctx.dps = old
+    reals = [r.real.mid().str(DIGITS + 5, radius=False) for r, _ in found if r.imag.contains(0)]
+    return sorted(sympy.Float(r, DIGITS + 5) for r in reals)
 
 
 def critical_components(numerators: Sequence[sympy.Expr], variables: Sequence[sympy.Symbol],
@@ -89,11 +143,11 @@ def _solve(polys, variables, params, extra):
     x = variables[-1]
     if len(variables) == 1:
         return _univariate(polys, x, extra)
-    eliminant = _eliminate(polys, variables[:-1], variables + params)
-    if eliminant == 0:
+    factors = _eliminate(polys, variables[:-1], variables + params)
+    if factors is None:
         raise FamilyError(f"no single equation in {x} is left")
     found = []
-    for factor, _ in sympy.factor_list(eliminant, *variables, *params)[1]:
+    for factor in factors:
         if not factor.has(x):
             continue
         if sympy.degree(factor, x) == 1:
@@ -130,8 +184,9 @@ def _univariate(polys, x, extra):
 
 
 def _eliminate(polys, eliminated, gens):
-    """One polynomial in the last variable vanishing at every common zero of
-    ``polys``: pairwise resultants eliminate each variable in turn."""
+    """The irreducible factors of one polynomial in the remaining variables
+    that vanishes at every common zero of ``polys`` (None: it is zero):
+    pairwise resultants eliminate each variable in turn, FLINT factors."""
     names = [f"v{i}" for i in range(len(gens))]
     ctx = flint.fmpq_mpoly_ctx.get(tuple(names), "lex")
     current = [_to_flint(p, gens, ctx) for p in polys]
@@ -145,11 +200,11 @@ def _eliminate(polys, eliminated, gens):
             rest += [pivot.resultant(p, name) for p in having[1:]]
         current = [p for p in rest if not p.is_zero()]
         if not current:
-            return sympy.Integer(0)
+            return None
     result = current[0]
     for p in current[1:]:
         result = result.gcd(p)
-    return _from_flint(result, gens)
+    return [_from_flint(factor, gens) for factor, _ in result.factor()[1]]
 
 
 def _to_flint(expr, gens, ctx):

@@ -15,10 +15,11 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Sequence
 
+import mpmath
 import sympy
 
 from . import extremize_report as report
-from .critical import Closed, FamilyError, Implicit, critical_components
+from .critical import DIGITS, Closed, FamilyError, Implicit, critical_components
 from .radicals import tidy_with
 from .region import Region, Relation
 from .sampling import SymbolSpec, describe_point, evaluate
@@ -117,6 +118,7 @@ class _Problem:
     def critical_points(self) -> tuple[list[_Candidate], list[Implicit]]:
         """Closed-form critical points (poles dropped) and implicit components."""
         self.numerators = [sympy.numer(sympy.together(sympy.diff(self.g, v))) for v in self.vars]
+        self.system = [sympy.Poly(p, *self.vars, *self.param_symbols) for p in self.numerators]
         try:
             found = critical_components(self.numerators, self.vars, self.param_symbols)
         except FamilyError:
@@ -125,6 +127,9 @@ class _Problem:
         self.denominator = sympy.denom(sympy.together(self.g))
         hessian = sympy.hessian(self.g, self.vars)
         self.minor_exprs = [hessian[:k, :k].det() for k in range(1, len(self.vars) + 1)]
+        gens = (*self.vars, *self.param_symbols)
+        self.minor_functions = [_Rational(m, gens) for m in self.minor_exprs]
+        self.denominator_function = _Rational(self.denominator, gens)
         closed = []
         for comp in (c for c in found if isinstance(c, Closed)):
             at = dict(zip(self.vars, comp.coords))
@@ -237,30 +242,31 @@ class _Problem:
         return verdict
 
     def numeric_candidates(self, closed, implicit, point):
-        """(key, exact coordinates, numeric coordinates, numeric minors) of every
-        critical point at a parameter point, and how many are complex; None
-        where a closed form is singular."""
+        """Every critical point at a parameter point as (key, coordinates to
+        show, numeric coordinates, numeric minors, exact coordinates), and
+        how many are complex; None where a closed form is singular."""
         out = []
         for i, cand in enumerate(closed):
             coords = [evaluate(c, point) for c in cand.coords]
             minors = [evaluate(m, point) for m in cand.minors]
             if not all(_finite(x) for x in coords + minors):
                 return None, 0
-            out.append((("closed", i), cand.coords, coords, minors))
+            out.append((("closed", i), cand.coords, coords, minors, cand.coords))
         complex_count = 0
+        minors_here = [m.at(point) for m in self.minor_functions]
+        denominator = self.denominator_function.at(point)
         for j, comp in enumerate(implicit):
             try:
-                reals, complex_here = comp.points(self.numerators, self.vars, point)
+                reals, complex_here = comp.points(self.system, self.vars, point)
             except ValueError as exc:
                 raise ExtremizeError(f"cannot solve for the critical points of {self.name}"
                                      f"{report.where(point)}: {exc}") from None
             complex_count += complex_here
-            for exact in reals:
-                at = dict(zip(self.vars, exact))
-                if abs(evaluate(self.denominator.xreplace(at), point)) < _TOL:
+            for root in reals:
+                if abs(_value(denominator, root.numeric)) < _TOL:
                     continue  # a pole
-                minors = [evaluate(m.xreplace(at), point) for m in self.minor_exprs]
-                out.append((("implicit", j), exact, [evaluate(c, {}) for c in exact], minors))
+                minors = [_value(m, root.numeric) for m in minors_here]
+                out.append((("implicit", j), root.numeric, list(root.numeric), minors, root))
         return out, complex_count
 
     def decide_by_sampling(self, closed, implicit, found, seed, count):
@@ -286,7 +292,7 @@ class _Problem:
             sign_c = 1 if c_value > 0 else -1
             admissible, complex_seen = [], complex_count > 0
             numeric_sign = (lambda e: _numeric_sign(sympy.re(evaluate(e, point))))
-            for key, exact, coords, minors in numeric:
+            for key, shown, coords, minors, exact in numeric:
                 if not all(_is_real(x) for x in coords):
                     complex_seen = True
                     continue
@@ -294,28 +300,28 @@ class _Problem:
                     continue
                 signs = [_numeric_sign(sympy.re(m)) for m in minors]
                 if signs[-1] == 0:
-                    raise ExtremizeError(report.degenerate_message(self, exact, point))
+                    raise ExtremizeError(report.degenerate_message(self, shown, point))
                 if self.admissible_pattern(signs, sign_c):
-                    admissible.append((key, exact))
+                    admissible.append((key, shown, exact))
             if len(admissible) != 1:
                 if not admissible and complex_seen and not any(
-                        all(_is_real(x) for x in coords) for _, _, coords, _ in numeric):
+                        all(_is_real(x) for x in entry[2]) for entry in numeric):
                     raise ExtremizeError(report.complex_message(self, found, point))
                 raise ExtremizeError(report.count_message(
-                    self, found, [exact for _, exact in admissible], point), "failed")
-            key, exact = admissible[0]
-            picks.setdefault(key, (point, exact))
+                    self, found, [shown for _, shown, _ in admissible], point), "failed")
+            key, shown, exact = admissible[0]
+            picks.setdefault(key, (point, shown, exact))
             if len(picks) > 1:
                 raise ExtremizeError(report.branch_message(self, {
-                    self.label(k, closed, implicit): v for k, v in picks.items()}), "failed")
+                    self.label(k, closed, implicit): v[:2] for k, v in picks.items()}), "failed")
         if used == 0:
             raise ExtremizeError(f"no usable sample point of {report.names(self.param_symbols)}: "
                                  f"{self.name} vanishes identically or its critical points are "
                                  f"singular at every one")
-        (kind, index), (point, exact) = next(iter(picks.items()))
+        (kind, index), (point, shown, exact) = next(iter(picks.items()))
         if kind == "implicit" and self.param_symbols:
-            raise ExtremizeError(report.implicit_message(self, implicit[index], point, exact))
-        coords = closed[index].coords if kind == "closed" else exact
+            raise ExtremizeError(report.implicit_message(self, implicit[index], point, shown))
+        coords = closed[index].coords if kind == "closed" else exact.exact()
         reason = report.test_text(self, None, symbolic=False)
         if not self.param_symbols:
             return coords, reason + " (exact real roots, evaluated to 50 digits)", used
@@ -333,6 +339,28 @@ class _Problem:
 
 
 # -- helpers ------------------------------------------------------------------
+
+class _Rational:
+    """A rational function of the variables and parameters, specialized fast
+    at a parameter point (numerator and denominator terms in the variables)."""
+
+    def __init__(self, expr, gens):
+        num, den = sympy.fraction(sympy.together(expr))
+        self.polys = [sympy.Poly(x, *gens) for x in (num, den)]
+
+    def at(self, point) -> tuple[list, list]:
+        values = {g: v for g, v in point.items() if g in self.polys[0].gens}
+        return tuple((p.eval(values) if values else p).terms() for p in self.polys)
+
+
+def _value(function, coords) -> sympy.Float:
+    """A specialized rational function at 60-digit coordinates, to 50 digits."""
+    with mpmath.workdps(DIGITS):
+        values = [mpmath.mpf(str(c)) for c in coords]
+        num, den = (mpmath.fsum(mpmath.mpf(int(c.p)) / int(c.q) * mpmath.fprod(
+            v ** e for v, e in zip(values, monom)) for monom, c in terms) for terms in function)
+        return sympy.Float(str(num / den), 50)
+
 
 def _domain(v, interval, spec):
     """(lo, lo_strict, hi, hi_strict) from a range and the variable's declaration."""

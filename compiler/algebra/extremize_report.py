@@ -75,7 +75,7 @@ def count_message(p, found, admissible, point) -> str:
     if not admissible:
         return (f"no critical point of {p.name} has {NEEDED[p.mode]}"
                 f"{domain_text(p)}{where(point)}; {found}")
-    exact = not any(c.has(sympy.CRootOf) for coords in admissible for c in coords)
+    exact = not any(c.has(sympy.Float) for coords in admissible for c in coords)
     listed = "; ".join((point_text if exact else approx_text)(p.vars, c) for c in admissible)
     return (f"{len(admissible)} critical points of {p.name} have "
             f"{NEEDED[p.mode]}{domain_text(p)}{where(point)}: {listed}; " + range_hint(p))
