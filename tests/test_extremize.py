@@ -5,7 +5,7 @@ import pytest
 import sympy
 
 from compiler.algebra.extremize import ExtremizeError, extremize
-from compiler.algebra.region import Region
+from compiler.algebra.region import Region, build_region
 from compiler.algebra.sampling import SymbolSpec, evaluate
 
 F = Fraction
@@ -223,3 +223,100 @@ def test_small_integer_domain_is_checked_exhaustively():
     r = extremize("maximize", (Ns - 1) * (-X ** 4 / 4 - X ** 2 / 2 - Ns * X),
                   [(X, None)], [x, N], "doc.md:9")
     assert r.settled == "sampled" and r.samples == 4
+
+
+# -- relations between symbols (issue 12) ---------------------------------------
+
+def test_a_relation_between_parameters_settles_the_root():
+    # f = (Nf - Nc)^2 x - x^3/3 has its maximum at x = |Nf - Nc| (hand-checkable,
+    # common practice, no source): the relation Nf > Nc makes that Nf - Nc, proven.
+    Nc_, Nf_ = sympy.symbols("Nc Nf")
+    region = build_region([("Nc", ["integer"], [(">=", F(2))], []),
+                           ("Nf", ["integer"], [], [(Nf_, ">", Nc_)]), ("x", [], [], [])])
+    Nc, Nf, X = region.symbols
+    f = (Nf - Nc) ** 2 * X - X ** 3 / 3
+    r = extremize("maximize", f, [(X, None)], region.specs, "s", relations=region.relations)
+    assert r.point == (Nf - Nc,) and r.settled == "symbolic"
+    assert sympy.expand(r.value - sympy.Rational(2, 3) * (Nf - Nc) ** 3) == 0
+    # without the relation Nf = Nc is possible, where the Hessian is degenerate
+    with pytest.raises(ExtremizeError):
+        extremize("maximize", f, [(X, None)], region.specs, "s")
+
+
+def test_a_relation_naming_the_variable_restricts_its_domain():
+    # -x^4/4 + x^2/2 has maxima at x = -1 and x = 1 (hand-checkable); x > k with
+    # -1/2 < k < 1/2 leaves only x = 1, for every k.
+    k_, x_ = sympy.symbols("k x")
+    region = build_region([("k", [], [(">", F(-1, 2)), ("<", F(1, 2))], []),
+                           ("x", [], [], [(x_, ">", k_)])])
+    k, X = region.symbols
+    f = -X ** 4 / 4 + X ** 2 / 2 + 0 * k
+    r = extremize("maximize", f, [(X, None)], region.specs, "s", relations=region.relations)
+    assert r.point == (1,) and r.settled == "symbolic"
+
+
+# -- the bench cases (bench/cases/*.md) -----------------------------------------
+
+def weighted(count, N):
+    """The trial a of the bench cases: fields of multiplicities N, N + 1, ...
+    and R-charges r1, ..., with the last charge fixed by the sum being 2."""
+    rs = [declare(f"r{i + 1}") for i in range(count)]
+    R = [r.symbol for r in rs]
+
+    def term(n, r):
+        return n * (3 * (r - 1) ** 3 - (r - 1))
+    a = sympy.Rational(3, 32) * (sum(term(N + i, v) for i, v in enumerate(R))
+                                 + term(N + count, 2 - sum(R)))
+    return rs, R, a
+
+
+def test_weighted_two_variable_maximum_is_a_critical_point_and_a_maximum():
+    # A mathematical check, not a published value: the answer must make the
+    # gradient vanish identically in N and the Hessian negative definite for
+    # every N >= 2 (proven here by factoring the minors).
+    N = declare("N", "integer", ge=2)
+    rs, R, a = weighted(2, N.symbol)
+    r = extremize("maximize", a, [(v, None) for v in R], [N] + rs, "weighted-two-variable.md:11",
+                  name="a")
+    at = dict(zip(R, r.point))
+    assert all(sympy.expand(sympy.diff(a, v).xreplace(at)) == 0 for v in R)
+    # by hand: the second derivative of n(3u^3 - u) is 18 n u, and u = r - 1 = -1/3
+    Ns = N.symbol
+    hand = sympy.Matrix([[-9 * (Ns + 1) / 8, -9 * (Ns + 2) / 16],
+                         [-9 * (Ns + 2) / 16, -9 * (2 * Ns + 3) / 16]])
+    assert sympy.expand(sympy.hessian(a, R).xreplace(at) - hand) == sympy.zeros(2, 2)
+    # det = 81 (3N^2 + 6N + 2)/256 > 0 and the first minor < 0: negative definite
+    assert sympy.expand(hand.det() - sympy.Rational(81, 256) * (3 * Ns ** 2 + 6 * Ns + 2)) == 0
+    assert r.point == (sympy.Rational(2, 3), sympy.Rational(2, 3))
+    assert sympy.expand(r.value - a.xreplace(at)) == 0
+    # the other critical points, roots of a cubic in r2, were ruled out at the samples
+    assert r.settled == "sampled" and "degree 3 in r2" in r.account
+
+
+def test_weighted_three_variable_maximum_has_no_closed_form_and_says_why():
+    # The critical equations have real solutions; at every sample N the only
+    # maximum lies on the component cut out by an irreducible polynomial of
+    # degree 8 in r3, so the message names it and the point (mathematical check).
+    N = declare("N", "integer", ge=2)
+    rs, R, a = weighted(3, N.symbol)
+    with pytest.raises(ExtremizeError, match=r"the maximum of a is a root of .* a polynomial of "
+                                             r"degree 8 in r3, irreducible .* at N = \d+, at "
+                                             r"r1 ≈ 0\.\d+, r2 ≈ 0\.\d+, r3 ≈ 0\.\d+") as caught:
+        extremize("maximize", a, [(v, None) for v in R], [N] + rs, "weighted-three-variable.md:12",
+                  name="a")
+    assert caught.value.status == "error"
+
+
+def test_weighted_three_variable_maximum_at_fixed_n_is_exact():
+    # At N = 2 there are no parameters: the maximum is an exact algebraic point
+    # (CRootOf); check the gradient vanishes and the Hessian is negative definite
+    # to 40 digits (mathematical check, no published value).
+    rs, R, a = weighted(3, 2)
+    r = extremize("maximize", a, [(v, None) for v in R], rs, "s", name="a")
+    assert r.point[-1].has(sympy.CRootOf)
+    at = dict(zip(R, r.point))
+    for v in R:
+        assert abs(sympy.N(sympy.diff(a, v).xreplace(at), 50)) < 1e-40
+    minors = [sympy.N(sympy.hessian(a, R)[:k, :k].det().xreplace(at), 50) for k in (1, 2, 3)]
+    assert minors[0] < 0 < minors[1] and minors[2] < 0
+    assert abs(sympy.N(r.value - a.xreplace(at), 50)) < 1e-40

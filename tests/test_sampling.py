@@ -9,7 +9,7 @@ from fractions import Fraction
 import pytest
 import sympy
 
-from compiler.algebra.region import Region
+from compiler.algebra.region import Region, build_region
 from compiler.algebra.sampling import SymbolSpec, evaluate
 
 
@@ -113,3 +113,77 @@ def test_evaluate_substitutes_exactly_before_rounding():
     value = evaluate(sympy.sqrt(x) * (x + 1) ** 2 - x ** sympy.Rational(5, 2)
                      - 2 * x ** sympy.Rational(3, 2), {x: big})
     assert abs(value - sympy.Integer(10) ** 15) < sympy.Float("1e-30")
+
+
+# -- regions: relations between symbols (issue 12) --------------------------------
+
+Nc_, Nf_, p_, q_ = sympy.symbols("Nc Nf p q")
+
+
+def sqcd_window():
+    return build_region([("Nc", ["integer"], [(">=", Fraction(2))], []),
+                         ("Nf", ["integer"], [], [(Nc_, "<", Nf_), (Nf_, "<", 3 * Nc_)])])
+
+
+def test_region_points_lie_inside_every_relation():
+    region = sqcd_window()
+    Nc, Nf = region.symbols
+    points = region.sample(40, "doc.md:5")
+    assert len(points) == 40 and len({tuple(p.values()) for p in points}) == 40
+    for point in points:
+        assert point[Nc] >= 2 and point[Nc] < point[Nf] < 3 * point[Nc]
+        assert all(v.is_Integer for v in point.values())
+        assert region.violations(point) == []
+    assert region.sample(40, "doc.md:5") == points
+    assert region.sample(40, "doc.md:6") != points
+
+
+def test_a_point_outside_the_region_says_what_it_breaks():
+    region = sqcd_window()
+    Nc, Nf = region.symbols
+    assert region.violations({Nc: 3, Nf: 9}) == ["Nc = 3, Nf = 9 breaks Nf < 3*Nc"]
+    assert region.violations({Nc: 3, Nf: 3}) == ["Nc = 3, Nf = 3 breaks Nc < Nf"]
+    assert region.violations({Nc: 1, Nf: 2}) == ["Nc = 1 breaks Nc: integer, Nc >= 2"]
+    assert region.violations({Nc: 3, Nf: 5}) == []
+    # a point that fixes one symbol is judged on what it fixes
+    assert region.violations({Nf: 100}) == []
+
+
+def test_real_relations_and_bounds_folded_from_relations():
+    region = build_region([("q", ["real"], [], [(0, "<", q_)]),
+                           ("p", ["real"], [], [(q_, "<", p_), (p_, "<=", 10)])])
+    q, p = region.symbols
+    assert region.specs[0].describe() == "real, positive"
+    assert region.specs[1].describe() == "real, p <= 10"
+    assert [r.text for r in region.relations] == ["q < p"]
+    for point in region.sample(30, "pq"):
+        assert 0 < point[q] < point[p] <= 10
+
+
+def test_small_regions_are_enumerated_inside_the_relations():
+    region = build_region([("a", ["integer"], [(">=", Fraction(1)), ("<=", Fraction(3))], []),
+                           ("b", ["integer"], [(">=", Fraction(1)), ("<=", Fraction(3))],
+                            [(sympy.Symbol("b"), ">", sympy.Symbol("a"))])])
+    a, b = region.symbols
+    assert region.sample(20, "x") == [{a: 1, b: 2}, {a: 1, b: 3}, {a: 2, b: 3}]
+
+
+def test_restricting_keeps_linked_symbols():
+    region = build_region([("Nc", ["integer"], [(">=", Fraction(2))], []),
+                           ("Nf", ["integer"], [], [(Nf_, ">", Nc_)]),
+                           ("z", ["real"], [], [])])
+    Nc, Nf, z = region.symbols
+    assert region.restrict([Nf]).symbols == [Nc, Nf]
+    assert region.restrict([z]).symbols == [z] and region.restrict([z]).relations == ()
+
+
+@pytest.mark.parametrize("relations, message", [
+    ([(Nf_, ">", sympy.Symbol("Nx"))], "uses Nx, which is not declared before it"),
+    ([(Nf_ ** 2, ">", Nc_)], "not linear"),
+    ([(Nf_, "=", Nc_)], "unknown comparison"),
+    ([(Nf_, "<", 1)], "no integer satisfies"),
+])
+def test_bad_relations_are_rejected(relations, message):
+    with pytest.raises(ValueError, match=message):
+        build_region([("Nc", ["integer"], [(">=", Fraction(2))], []),
+                      ("Nf", ["integer", "positive"], [], relations)])

@@ -101,8 +101,20 @@ class RealPoint:
     numeric: tuple[sympy.Float, ...]
 
     def exact(self) -> tuple[sympy.Expr, ...]:
-        root = sympy.CRootOf(self.eliminant.as_expr(), self.index)
-        return tuple(h.xreplace({self.variable: root}) for h in self.others) + (root,)
+        return tuple(self.reduced(h) for h in self.others) + (self.reduced(self.variable),)
+
+    def reduced(self, expr: sympy.Expr) -> sympy.Expr:
+        """A polynomial in the last variable at the root, written below the
+        eliminant's degree (so through powers of one ``CRootOf``)."""
+        rest = sympy.rem(sympy.Poly(expr, self.variable), self.eliminant)
+        return rest.as_expr().xreplace(
+            {self.variable: sympy.CRootOf(self.eliminant.as_expr(), self.index)})
+
+    def value(self, f: sympy.Expr, variables) -> sympy.Expr:
+        """A rational function ``f`` of the variables at this point, exactly."""
+        at = dict(zip(variables[:-1], self.others))
+        num, den = sympy.fraction(sympy.together(f.xreplace(at)))
+        return self.reduced(sympy.expand(num)) / self.reduced(sympy.expand(den))
 
 
 @functools.lru_cache(maxsize=64)

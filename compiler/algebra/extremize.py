@@ -171,12 +171,13 @@ class _Problem:
         decided = None if implicit else self.decide_symbolically(closed, found)
         if decided is not None:
             index, reason = decided
-            coords, settled, samples = closed[index].coords, "symbolic", 0
+            coords, value, settled, samples = closed[index].coords, None, "symbolic", 0
         else:
-            coords, reason, samples = self.decide_by_sampling(closed, implicit, found, seed, count)
+            coords, value, reason, samples = self.decide_by_sampling(
+                closed, implicit, found, seed, count)
             settled = "sampled"
-        if any(c.has(sympy.CRootOf) for c in coords):
-            point, value = coords, sympy.expand(self.value_at(coords))
+        if value is not None:   # a root with no closed form, exact through CRootOf
+            point = coords
         else:
             point = tuple(self.tidy(c) for c in coords)
             value = self.tidy(self.value_at(coords))
@@ -200,10 +201,12 @@ class _Problem:
             if False in verdicts:
                 complex_count += 1
                 continue
+            signs = [self.oracle.sign(m) for m in cand.minors]
+            if None not in signs and signs[-1] != 0 and not self.admissible_pattern(signs, sign_c):
+                continue   # not the kind of point asked for, wherever it lies
             inside = self.inside(cand.coords, self.oracle.sign)
             if inside is None:
                 return None
-            signs = [self.oracle.sign(m) for m in cand.minors]
             if signs[-1] == 0:
                 if inside:
                     raise ExtremizeError(report.degenerate_message(self, cand.coords, None))
@@ -270,7 +273,9 @@ class _Problem:
         return out, complex_count
 
     def decide_by_sampling(self, closed, implicit, found, seed, count):
-        """Settle the root choice at ``count`` sample points of the parameters."""
+        """Settle the root choice at ``count`` sample points of the parameters:
+        (coordinates, the value when it had to be computed already, reason,
+        number of points used)."""
         picks: dict = {}
         used = 0
         skipped = []
@@ -321,15 +326,18 @@ class _Problem:
         (kind, index), (point, shown, exact) = next(iter(picks.items()))
         if kind == "implicit" and self.param_symbols:
             raise ExtremizeError(report.implicit_message(self, implicit[index], point, shown))
-        coords = closed[index].coords if kind == "closed" else exact.exact()
+        if kind == "implicit":
+            return exact.exact(), exact.value(self.f, self.vars), \
+                report.test_text(self, None, symbolic=False) + " (exact real roots)", used
+        coords = closed[index].coords
         reason = report.test_text(self, None, symbolic=False)
         if not self.param_symbols:
-            return coords, reason + " (exact real roots, evaluated to 50 digits)", used
+            return coords, None, reason, used
         reason += f" at all {used} sample points of {report.names(self.param_symbols)}"
         if skipped:
             reason += (f" (skipped {len(skipped)} where {self.name} is identically zero "
                        f"or the closed forms are singular, e.g. {describe_point(skipped[0])})")
-        return coords, reason, used
+        return coords, None, reason, used
 
     def label(self, key, closed, implicit) -> str:
         kind, index = key
