@@ -233,3 +233,25 @@ def _from_flint(poly, gens):
             term *= g ** e
         terms.append(term)
     return sympy.Add(*terms)
+
+
+class RationalFunction:
+    """A rational function of the variables and parameters, specialized fast
+    at a parameter point (numerator and denominator terms in the variables)."""
+
+    def __init__(self, expr, gens):
+        num, den = sympy.fraction(sympy.together(expr))
+        self.polys = [sympy.Poly(x, *gens) for x in (num, den)]
+
+    def at(self, point) -> tuple[list, list]:
+        values = {g: v for g, v in point.items() if g in self.polys[0].gens}
+        return tuple((p.eval(values) if values else p).terms() for p in self.polys)
+
+
+def numeric_value(function, coords) -> sympy.Float:
+    """A specialized rational function at 60-digit coordinates, to 50 digits."""
+    with mpmath.workdps(DIGITS):
+        values = [mpmath.mpf(str(c)) for c in coords]
+        num, den = (mpmath.fsum(mpmath.mpf(int(c.p)) / int(c.q) * mpmath.fprod(
+            v ** e for v, e in zip(values, monom)) for monom, c in terms) for terms in function)
+        return sympy.Float(str(num / den), 50)

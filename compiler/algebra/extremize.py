@@ -15,11 +15,11 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Sequence
 
-import mpmath
 import sympy
 
 from . import extremize_report as report
-from .critical import DIGITS, Closed, FamilyError, Implicit, critical_components
+from .critical import (Closed, FamilyError, Implicit, RationalFunction, critical_components,
+                       numeric_value)
 from .radicals import tidy_with
 from .region import Region, Relation
 from .sampling import SymbolSpec, describe_point, evaluate
@@ -128,8 +128,8 @@ class _Problem:
         hessian = sympy.hessian(self.g, self.vars)
         self.minor_exprs = [hessian[:k, :k].det() for k in range(1, len(self.vars) + 1)]
         gens = (*self.vars, *self.param_symbols)
-        self.minor_functions = [_Rational(m, gens) for m in self.minor_exprs]
-        self.denominator_function = _Rational(self.denominator, gens)
+        self.minor_functions = [RationalFunction(m, gens) for m in self.minor_exprs]
+        self.denominator_function = RationalFunction(self.denominator, gens)
         closed = []
         for comp in (c for c in found if isinstance(c, Closed)):
             at = dict(zip(self.vars, comp.coords))
@@ -266,9 +266,9 @@ class _Problem:
                                      f"{report.where(point)}: {exc}") from None
             complex_count += complex_here
             for root in reals:
-                if abs(_value(denominator, root.numeric)) < _TOL:
+                if abs(numeric_value(denominator, root.numeric)) < _TOL:
                     continue  # a pole
-                minors = [_value(m, root.numeric) for m in minors_here]
+                minors = [numeric_value(m, root.numeric) for m in minors_here]
                 out.append((("implicit", j), root.numeric, list(root.numeric), minors, root))
         return out, complex_count
 
@@ -347,28 +347,6 @@ class _Problem:
 
 
 # -- helpers ------------------------------------------------------------------
-
-class _Rational:
-    """A rational function of the variables and parameters, specialized fast
-    at a parameter point (numerator and denominator terms in the variables)."""
-
-    def __init__(self, expr, gens):
-        num, den = sympy.fraction(sympy.together(expr))
-        self.polys = [sympy.Poly(x, *gens) for x in (num, den)]
-
-    def at(self, point) -> tuple[list, list]:
-        values = {g: v for g, v in point.items() if g in self.polys[0].gens}
-        return tuple((p.eval(values) if values else p).terms() for p in self.polys)
-
-
-def _value(function, coords) -> sympy.Float:
-    """A specialized rational function at 60-digit coordinates, to 50 digits."""
-    with mpmath.workdps(DIGITS):
-        values = [mpmath.mpf(str(c)) for c in coords]
-        num, den = (mpmath.fsum(mpmath.mpf(int(c.p)) / int(c.q) * mpmath.fprod(
-            v ** e for v, e in zip(values, monom)) for monom, c in terms) for terms in function)
-        return sympy.Float(str(num / den), 50)
-
 
 def _domain(v, interval, spec):
     """(lo, lo_strict, hi, hi_strict) from a range and the variable's declaration."""
