@@ -320,3 +320,15 @@ def test_weighted_three_variable_maximum_at_fixed_n_is_exact():
     minors = [sympy.N(sympy.hessian(a, R)[:k, :k].det().xreplace(at), 50) for k in (1, 2, 3)]
     assert minors[0] < 0 < minors[1] and minors[2] < 0
     assert abs(sympy.N(r.value - a.xreplace(at), 50)) < 1e-40
+
+
+def test_two_variables_with_a_square_root_and_a_parameter():
+    # f = k x - x^3/3 - (y - x)^2: y = x and x^2 = k, an irreducible quadratic;
+    # the Hessian [[-2x - 2, 2], [2, -2]] has det 4x, so x = y = sqrt(k) is the
+    # maximum for k > 0 (hand-checkable, common practice, no source).
+    x, y, k = declare("x"), declare("y"), declare("k", "positive")
+    X, Y, K = x.symbol, y.symbol, k.symbol
+    r = extremize("maximize", K * X - X ** 3 / 3 - (Y - X) ** 2, [(X, None), (Y, None)],
+                  [x, y, k], "s")
+    assert r.point == (sympy.sqrt(K), sympy.sqrt(K)) and r.settled == "symbolic"
+    assert sympy.expand(r.value - sympy.Rational(2, 3) * K ** sympy.Rational(3, 2)) == 0

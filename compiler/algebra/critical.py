@@ -68,14 +68,9 @@ class Implicit:
         if exprs == [1]:
             return [], 0
         last = variables[-1]
-        shape = len(exprs) == len(variables) and all(
-            g.coeff(v).is_number and g.coeff(v) != 0
-            and (g - g.coeff(v) * v).free_symbols <= {last}
-            for g, v in zip(exprs[:-1], variables[:-1]))
-        if not shape or exprs[-1].free_symbols - {last}:
+        others = _shape(exprs, variables, {last})
+        if others is None:
             raise ValueError("the critical points are not in general position")
-        others = tuple(sympy.expand(-(g - g.coeff(v) * v) / g.coeff(v))
-                       for g, v in zip(exprs[:-1], variables[:-1]))
         eliminant = sympy.Poly(exprs[-1], last).sqf_part()
         roots = _real_roots(eliminant)
         coefficients = [[mpmath.mpf(int(c.p)) / int(c.q) for c in sympy.Poly(h, last).all_coeffs()]
@@ -162,7 +157,9 @@ def _solve(polys, variables, params, extra):
     for factor in factors:
         if not factor.has(x):
             continue
-        if sympy.degree(factor, x) == 1:
+        if sympy.degree(factor, x) == 2:
+            found += _quadratic(polys, variables, params, extra, factor)
+        elif sympy.degree(factor, x) == 1:
             value = sympy.cancel(-(factor - factor.coeff(x) * x) / factor.coeff(x))
             reduced = [sympy.numer(sympy.together(p.xreplace({x: value}))) for p in polys]
             for sub in _solve([sympy.expand(p) for p in reduced], variables[:-1], params,
@@ -171,6 +168,41 @@ def _solve(polys, variables, params, extra):
         else:
             found.append(Implicit(extra + (factor,), factor, x))
     return found
+
+
+def _quadratic(polys, variables, params, extra, factor):
+    """The points over an irreducible quadratic factor of the eliminant: with
+    the factor added, a lexicographic Groebner basis over QQ(parameters)
+    writes the other variables as polynomials in the last, evaluated at the
+    factor's two roots (none when the factor was an artefact of elimination)."""
+    x = variables[-1]
+    domain = sympy.QQ.frac_field(*params) if params else sympy.QQ
+    basis = list(sympy.groebner(list(polys) + [factor], *variables, order="lex",
+                                domain=domain).exprs)
+    if basis == [1]:
+        return []
+    others = _shape(basis, variables, {x, *params})
+    if others is None or sympy.degree(basis[-1], x) != 2:
+        return [Implicit(extra + (factor,), factor, x)]
+    return [Closed(tuple(sympy.expand(h.xreplace({x: r})) for h in others) + (r,))
+            for r in sympy.roots(sympy.Poly(basis[-1], x))]
+
+
+def _shape(basis, variables, allowed) -> tuple | None:
+    """The other variables as polynomials in the last one when a lexicographic
+    basis is in shape position (``x_i - h_i(x_n)``, then one polynomial in
+    x_n), else None."""
+    last = variables[-1]
+    if len(basis) != len(variables) or basis[-1].free_symbols - allowed or not basis[-1].has(last):
+        return None
+    others = []
+    for g, v in zip(basis[:-1], variables[:-1]):
+        c = g.coeff(v)
+        rest = g - c * v
+        if c == 0 or c.has(*variables) or rest.free_symbols - allowed:
+            return None
+        others.append(sympy.expand(-rest / c))
+    return tuple(others)
 
 
 def _univariate(polys, x, extra):

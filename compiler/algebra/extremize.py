@@ -139,14 +139,16 @@ class _Problem:
                                      [sympy.together(m.xreplace(at)) for m in self.minor_exprs]))
         return closed, [c for c in found if isinstance(c, Implicit)]
 
-    def admissible_pattern(self, minors_signs: list[int], sign_c: int) -> bool:
-        """Whether signs of g's minors, scaled by the sign of the content, fit the mode."""
+    def admissible_pattern(self, minors_signs: list, sign_c: int) -> bool | None:
+        """Whether signs of g's minors, scaled by the sign of the content, fit
+        the mode; None when an undecided sign (None) leaves it open."""
         if self.mode == "extremize":
-            return minors_signs[-1] != 0
-        scaled = [(sign_c ** (k + 1)) * s for k, s in enumerate(minors_signs)]
-        if self.mode == "maximize":
-            return all(((-1) ** (k + 1)) * s > 0 for k, s in enumerate(scaled))
-        return all(s > 0 for s in scaled)
+            return None if minors_signs[-1] is None else minors_signs[-1] != 0
+        wanted = [(-1) ** (k + 1) if self.mode == "maximize" else 1
+                  for k in range(len(minors_signs))]
+        fits = [None if s is None else (sign_c ** (k + 1)) * s == w
+                for k, (s, w) in enumerate(zip(minors_signs, wanted))]
+        return False if False in fits else (None if None in fits else True)
 
     def value_at(self, coords):
         """f at a critical point; in one variable f is first reduced modulo the
@@ -202,7 +204,8 @@ class _Problem:
                 complex_count += 1
                 continue
             signs = [self.oracle.sign(m) for m in cand.minors]
-            if None not in signs and signs[-1] != 0 and not self.admissible_pattern(signs, sign_c):
+            fits = self.admissible_pattern(signs, sign_c)
+            if fits is False and signs[-1] != 0:
                 continue   # not the kind of point asked for, wherever it lies
             inside = self.inside(cand.coords, self.oracle.sign)
             if inside is None:
@@ -213,9 +216,9 @@ class _Problem:
                 continue
             if not inside:
                 continue
-            if any(s is None for s in signs):
+            if fits is None:
                 return None
-            if self.admissible_pattern(signs, sign_c):
+            if fits:
                 admissible.append(i)
         if complex_count == len(candidates):
             raise ExtremizeError(report.complex_message(self, found, None))

@@ -95,11 +95,13 @@ def branch_message(p, picks) -> str:
 
 def implicit_message(p, component, point, coords) -> str:
     """The extremum exists at the sample points but has no closed form."""
-    return (f"the {KIND[p.mode]} of {p.name} is a root of "
-            f"{sympy.sstr(sympy.factor(component.polynomial))} = 0, a polynomial of degree "
-            f"{component.degree} in {component.variable}, irreducible over the rationals "
-            f"in {names(p.param_symbols)}, whose roots have no closed form in radicals that "
-            f"sympy finds; it is the only {KIND[p.mode]}{where(point)}, at "
+    v = component.variable
+    polynomial = sympy.collect(sympy.expand(component.polynomial), v, sympy.factor)
+    return (f"the {KIND[p.mode]} of {p.name} is a root of {sympy.sstr(polynomial)} = 0, a "
+            f"polynomial of degree {component.degree} in {v}, irreducible over the rationals "
+            f"in {names(p.param_symbols)}; in several variables anomark writes closed forms "
+            f"only for roots of degree at most 2, so there is no exact value for general "
+            f"{names(p.param_symbols)}; it is the only {KIND[p.mode]}{where(point)}, at "
             f"{approx_text(p.vars, coords)}; fix the parameters to get an exact value")
 
 
