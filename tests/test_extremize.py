@@ -4,6 +4,7 @@ from fractions import Fraction
 import pytest
 import sympy
 
+from compiler.algebra import cells
 from compiler.algebra.extremize import ExtremizeError, extremize
 from compiler.algebra.region import Region, build_region
 from compiler.algebra.sampling import SymbolSpec, evaluate
@@ -289,8 +290,10 @@ def test_weighted_two_variable_maximum_is_a_critical_point_and_a_maximum():
     assert sympy.expand(hand.det() - sympy.Rational(81, 256) * (3 * Ns ** 2 + 6 * Ns + 2)) == 0
     assert r.point == (sympy.Rational(2, 3), sympy.Rational(2, 3))
     assert sympy.expand(r.value - a.xreplace(at)) == 0
-    # the other critical points, roots of a cubic in r2, were ruled out at the samples
-    assert r.settled == "sampled" and "degree 3 in r2" in r.account
+    # the other critical points, roots of a cubic in r2, are ruled out for every N
+    # by checking one N in each interval where they can change (cells.py)
+    assert r.settled == "symbolic" and "degree 3 in r2" in r.account
+    assert "no maximum for any N" in r.account
 
 
 def test_weighted_three_variable_maximum_has_no_closed_form_and_says_why():
@@ -332,3 +335,21 @@ def test_two_variables_with_a_square_root_and_a_parameter():
                   [x, y, k], "s")
     assert r.point == (sympy.sqrt(K), sympy.sqrt(K)) and r.settled == "symbolic"
     assert sympy.expand(r.value - sympy.Rational(2, 3) * K ** sympy.Rational(3, 2)) == 0
+
+
+# -- proof by cells (one parameter) ------------------------------------------------
+
+def test_cells_test_one_integer_in_every_interval_and_each_critical_value():
+    N = declare("N", "integer", ge=2)
+    critical = [F(5), (F(72, 10), F(73, 10)), F(-3)]
+    points = cells.test_points(N, critical)
+    # intervals of N >= 2: [2, 5), {5}, (5, 7.2x), (7.2x, oo)
+    assert {F(2), F(5), F(6), F(8)} <= set(points)
+    assert all(p.denominator == 1 and p >= 2 for p in points)
+
+
+def test_cells_for_a_real_parameter():
+    x = declare("x", gt=0, lt=1)
+    assert cells.test_points(x, [F(1, 2)]) == [F(1, 4), F(1, 2), F(3, 4)]
+    assert cells.test_points(x, [(F(1, 3), F(34, 100))]) is None   # irrational cut inside
+    assert cells.test_points(x, [(F(3), F(31, 10))]) == [F(1, 2)]  # outside the range

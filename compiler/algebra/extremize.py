@@ -17,6 +17,7 @@ from typing import Sequence
 
 import sympy
 
+from . import cells
 from . import extremize_report as report
 from .critical import (Closed, FamilyError, Implicit, RationalFunction, critical_components,
                        numeric_value)
@@ -170,7 +171,10 @@ class _Problem:
             raise ExtremizeError(f"{self.name} has no critical point in "
                                  f"{self.var_names}, so no {report.KIND[self.mode]}", "failed")
         found = report.found_text(self, closed, implicit)
-        decided = None if implicit else self.decide_symbolically(closed, found)
+        if implicit:
+            decided = self.prove_by_cells(closed, implicit, found)
+        else:
+            decided = self.decide_symbolically(closed, found)
         if decided is not None:
             index, reason = decided
             coords, value, settled, samples = closed[index].coords, None, "symbolic", 0
@@ -228,18 +232,62 @@ class _Problem:
         chosen = candidates[admissible[0]]
         return admissible[0], report.test_text(self, chosen.minors, symbolic=True)
 
-    def inside(self, coords, sign):
-        """Whether coordinates lie in every variable's domain and satisfy the
-        relations that name a variable (None: undecided)."""
-        verdict = True
+    def prove_by_cells(self, closed, implicit, found):
+        """(index, reason) when the closed-form points settle symbolically and,
+        for the one parameter, no implicit component holds an admissible
+        point at any of its values (``cells.py``); None otherwise."""
+        if len(self.params) != 1 or self.region.relations or not closed:
+            return None
+        try:
+            decided = self.decide_symbolically(closed, found)
+        except ExtremizeError:
+            return None
+        if decided is None:
+            return None
+        spec = self.params[0]
+        tests = self.minor_exprs + [self.denominator] + [e for e, _ in self.domain_tests(self.vars)]
+        tested = set()
+        for comp in implicit:
+            critical = cells.critical_values(comp, self.system, self.vars, spec.symbol, tests)
+            values = None if critical is None else cells.test_points(spec, critical)
+            if values is None:
+                return None
+            for value in values:
+                point = {spec.symbol: sympy.Rational(value.numerator, value.denominator)}
+                c_value = evaluate(self.content, point)
+                if not _finite(c_value) or abs(c_value) < _TOL:
+                    continue    # f vanishes identically there
+                numeric, _ = self.numeric_candidates([], [comp], point)
+                for _, _, coords, minors, _ in numeric:
+                    if not all(_is_real(x) for x in coords):
+                        continue
+                    if not self.inside([sympy.re(x) for x in coords], _numeric_sign):
+                        continue
+                    signs = [_numeric_sign(sympy.re(m)) for m in minors]
+                    if signs[-1] == 0 or self.admissible_pattern(signs, 1 if c_value > 0 else -1):
+                        return None
+                tested.add(value)
+        index, reason = decided
+        shown = ", ".join(str(v) for v in sorted(tested)[:6]) + (", ..." if len(tested) > 6 else "")
+        return index, (f"{reason}; the other critical points are no {report.KIND[self.mode]} "
+                       f"for any {spec.name}: checked exactly at {spec.name} = {shown}, one value "
+                       f"in each interval where their number and signs can change")
+
+    def domain_tests(self, coords):
+        """(expression, strict) that must be positive at admissible coordinates."""
         tests = []
         for x, (lo, lo_strict, hi, hi_strict) in zip(coords, self.domains):
             for bound, strict, direction in ((lo, lo_strict, 1), (hi, hi_strict, -1)):
                 if bound is not None:
                     tests.append((direction * (x - bound), strict))
         at = dict(zip(self.vars, coords))
-        tests += [(r.expr.xreplace(at), r.strict) for r in self.variable_relations]
-        for expr, strict in tests:
+        return tests + [(r.expr.xreplace(at), r.strict) for r in self.variable_relations]
+
+    def inside(self, coords, sign):
+        """Whether coordinates lie in every variable's domain and satisfy the
+        relations that name a variable (None: undecided)."""
+        verdict = True
+        for expr, strict in self.domain_tests(coords):
             s = sign(expr)
             if s is None:
                 verdict = None
