@@ -19,8 +19,8 @@ from fractions import Fraction
 import flint
 import sympy
 
-from .critical import Implicit, _shape
-from .sampling import SymbolSpec
+from .critical import TOL, Implicit, shape, finite, is_real, numeric_sign
+from .sampling import SymbolSpec, evaluate
 
 
 def critical_values(component: Implicit, system, variables, parameter, tests):
@@ -31,7 +31,7 @@ def critical_values(component: Implicit, system, variables, parameter, tests):
     x = variables[-1]
     basis = sympy.groebner([p.as_expr() for p in system] + [component.polynomial], *variables,
                            order="lex", domain=sympy.QQ.frac_field(parameter)).exprs
-    others = _shape(list(basis), variables, {x, parameter})
+    others = shape(list(basis), variables, {x, parameter})
     if others is None:
         return None
     field = sympy.QQ.frac_field(parameter)
@@ -116,3 +116,34 @@ def test_points(spec: SymbolSpec, critical: list) -> list[Fraction] | None:
         points.append((a + b) / 2)
     points += [v for v in values if spec.admits(v)]
     return sorted(v for v in set(points) if spec.admits(v))
+
+
+def rule_out(problem, implicit) -> str | None:
+    """The parameter values checked when no implicit component of a one-
+    parameter problem holds an admissible point for any value, else None."""
+    spec = problem.params[0]
+    tests = problem.minor_exprs + [problem.denominator]
+    tests += [e for e, _ in problem.domain_tests(problem.vars)]
+    tested = set()
+    for comp in implicit:
+        critical = critical_values(comp, problem.system, problem.vars, spec.symbol, tests)
+        values = None if critical is None else test_points(spec, critical)
+        if values is None:
+            return None
+        for value in values:
+            point = {spec.symbol: sympy.Rational(value.numerator, value.denominator)}
+            c_value = evaluate(problem.content, point)
+            if not finite(c_value) or abs(c_value) < TOL:
+                continue    # f vanishes identically there
+            numeric, _ = problem.numeric_candidates([], [comp], point)
+            for _, _, coords, minors, _ in numeric:
+                if not all(is_real(x) for x in coords):
+                    continue
+                if not problem.inside([sympy.re(x) for x in coords],
+                                      lambda e: numeric_sign(sympy.re(evaluate(e, point)))):
+                    continue
+                signs = [numeric_sign(sympy.re(m)) for m in minors]
+                if signs[-1] == 0 or problem.admissible_pattern(signs, 1 if c_value > 0 else -1):
+                    return None
+            tested.add(value)
+    return ", ".join(str(v) for v in sorted(tested)[:6]) + (", ..." if len(tested) > 6 else "")

@@ -26,6 +26,8 @@ import sympy
 
 #: Digits of the real roots of implicit components.
 DIGITS = 60
+#: Below this a number computed to 50 digits counts as zero.
+TOL = sympy.Float("1e-30", 50)
 
 
 class FamilyError(ValueError):
@@ -68,7 +70,7 @@ class Implicit:
         if exprs == [1]:
             return [], 0
         last = variables[-1]
-        others = _shape(exprs, variables, {last})
+        others = shape(exprs, variables, {last})
         if others is None:
             raise ValueError("the critical points are not in general position")
         eliminant = sympy.Poly(exprs[-1], last).sqf_part()
@@ -132,6 +134,28 @@ def _real_roots(poly: sympy.Poly) -> list[sympy.Float]:
     return sorted(sympy.Float(r, DIGITS + 5) for r in reals)
 
 
+def split_content(f, variables):
+    """f = content * g, with the content free of the variables.
+
+    Where the content vanishes f is identically zero (a trivial theory, such
+    as N = 1); those parameter values are excluded from the decision, and the
+    sign of the content turns a maximum of g into a minimum of f.
+    """
+    num, den = sympy.fraction(sympy.together(f))
+    if num == 0:
+        raise ValueError("the function is identically zero")
+    content, g = sympy.Integer(1), sympy.Integer(1)
+    for part, power in ((num, 1), (den, -1)):
+        coeff, factors = sympy.factor_list(part)
+        content *= coeff ** power
+        for base, mult in factors:
+            if base.has(*variables):
+                g *= base ** (mult * power)
+            else:
+                content *= base ** (mult * power)
+    return content, g
+
+
 def critical_components(numerators: Sequence[sympy.Expr], variables: Sequence[sympy.Symbol],
                         params: Sequence[sympy.Symbol]) -> list[Closed | Implicit]:
     """Every critical point of the system ``numerators = 0``: closed forms
@@ -181,14 +205,14 @@ def _quadratic(polys, variables, params, extra, factor):
                                 domain=domain).exprs)
     if basis == [1]:
         return []
-    others = _shape(basis, variables, {x, *params})
+    others = shape(basis, variables, {x, *params})
     if others is None or sympy.degree(basis[-1], x) != 2:
         return [Implicit(extra + (factor,), factor, x)]
     return [Closed(tuple(sympy.expand(h.xreplace({x: r})) for h in others) + (r,))
             for r in sympy.roots(sympy.Poly(basis[-1], x))]
 
 
-def _shape(basis, variables, allowed) -> tuple | None:
+def shape(basis, variables, allowed) -> tuple | None:
     """The other variables as polynomials in the last one when a lexicographic
     basis is in shape position (``x_i - h_i(x_n)``, then one polynomial in
     x_n), else None."""
@@ -287,3 +311,18 @@ def numeric_value(function, coords) -> sympy.Float:
         num, den = (mpmath.fsum(mpmath.mpf(int(c.p)) / int(c.q) * mpmath.fprod(
             v ** e for v, e in zip(values, monom)) for monom, c in terms) for terms in function)
         return sympy.Float(str(num / den), 50)
+
+
+def finite(x) -> bool:
+    return x.is_number and not x.has(sympy.zoo, sympy.nan, sympy.oo, -sympy.oo)
+
+
+def is_real(x) -> bool:
+    re, im = x.as_real_imag()
+    return abs(im) <= TOL * (1 + abs(re))
+
+
+def numeric_sign(x) -> int:
+    if abs(x) <= TOL:
+        return 0
+    return 1 if x > 0 else -1

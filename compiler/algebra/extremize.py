@@ -19,15 +19,14 @@ import sympy
 
 from . import cells
 from . import extremize_report as report
-from .critical import (Closed, FamilyError, Implicit, RationalFunction, critical_components,
-                       numeric_value)
+from .critical import (TOL, Closed, FamilyError, Implicit, RationalFunction, critical_components,
+                       finite, is_real, numeric_sign, numeric_value, split_content)
 from .radicals import tidy_with
 from .region import Region, Relation
 from .sampling import SymbolSpec, describe_point, evaluate
 from .signs import SignOracle
 
 MODES = ("maximize", "minimize", "extremize")
-_TOL = sympy.Float("1e-30", 50)
 
 
 class ExtremizeError(ValueError):
@@ -108,7 +107,10 @@ class _Problem:
             if not f.has(v):
                 raise ExtremizeError(f"{name} does not depend on {v}, so the Hessian "
                                      f"is degenerate")
-        self.content, self.g = _split_content(f, self.vars)
+        try:
+            self.content, self.g = split_content(f, self.vars)
+        except ValueError as exc:
+            raise ExtremizeError(str(exc)) from None
         self.var_names = report.names(self.vars)
 
     def tidy(self, expr):
@@ -233,9 +235,8 @@ class _Problem:
         return admissible[0], report.test_text(self, chosen.minors, symbolic=True)
 
     def prove_by_cells(self, closed, implicit, found):
-        """(index, reason) when the closed-form points settle symbolically and,
-        for the one parameter, no implicit component holds an admissible
-        point at any of its values (``cells.py``); None otherwise."""
+        """(index, reason) when the closed-form points settle symbolically and
+        no implicit component can hold the extremum (``cells.rule_out``)."""
         if len(self.params) != 1 or self.region.relations or not closed:
             return None
         try:
@@ -244,33 +245,13 @@ class _Problem:
             return None
         if decided is None:
             return None
-        spec = self.params[0]
-        tests = self.minor_exprs + [self.denominator] + [e for e, _ in self.domain_tests(self.vars)]
-        tested = set()
-        for comp in implicit:
-            critical = cells.critical_values(comp, self.system, self.vars, spec.symbol, tests)
-            values = None if critical is None else cells.test_points(spec, critical)
-            if values is None:
-                return None
-            for value in values:
-                point = {spec.symbol: sympy.Rational(value.numerator, value.denominator)}
-                c_value = evaluate(self.content, point)
-                if not _finite(c_value) or abs(c_value) < _TOL:
-                    continue    # f vanishes identically there
-                numeric, _ = self.numeric_candidates([], [comp], point)
-                for _, _, coords, minors, _ in numeric:
-                    if not all(_is_real(x) for x in coords):
-                        continue
-                    if not self.inside([sympy.re(x) for x in coords], _numeric_sign):
-                        continue
-                    signs = [_numeric_sign(sympy.re(m)) for m in minors]
-                    if signs[-1] == 0 or self.admissible_pattern(signs, 1 if c_value > 0 else -1):
-                        return None
-                tested.add(value)
+        shown = cells.rule_out(self, implicit)
+        if shown is None:
+            return None
         index, reason = decided
-        shown = ", ".join(str(v) for v in sorted(tested)[:6]) + (", ..." if len(tested) > 6 else "")
+        name = self.params[0].name
         return index, (f"{reason}; the other critical points are no {report.KIND[self.mode]} "
-                       f"for any {spec.name}: checked exactly at {spec.name} = {shown}, one value "
+                       f"for any {name}: checked exactly at {name} = {shown}, one value "
                        f"in each interval where their number and signs can change")
 
     def domain_tests(self, coords):
@@ -303,7 +284,7 @@ class _Problem:
         for i, cand in enumerate(closed):
             coords = [evaluate(c, point) for c in cand.coords]
             minors = [evaluate(m, point) for m in cand.minors]
-            if not all(_finite(x) for x in coords + minors):
+            if not all(finite(x) for x in coords + minors):
                 return None, 0
             out.append((("closed", i), cand.coords, coords, minors, cand.coords))
         complex_count = 0
@@ -317,7 +298,7 @@ class _Problem:
                                      f"{report.where(point)}: {exc}") from None
             complex_count += complex_here
             for root in reals:
-                if abs(numeric_value(denominator, root.numeric)) < _TOL:
+                if abs(numeric_value(denominator, root.numeric)) < TOL:
                     continue  # a pole
                 minors = [numeric_value(m, root.numeric) for m in minors_here]
                 out.append((("implicit", j), root.numeric, list(root.numeric), minors, root))
@@ -337,7 +318,7 @@ class _Problem:
             if used == limit:
                 break
             c_value = evaluate(self.content, point)
-            if not _finite(c_value) or abs(c_value) < _TOL:
+            if not finite(c_value) or abs(c_value) < TOL:
                 skipped.append(point)   # f vanishes identically (or is singular) here
                 continue
             numeric, complex_count = self.numeric_candidates(closed, implicit, point)
@@ -347,21 +328,21 @@ class _Problem:
             used += 1
             sign_c = 1 if c_value > 0 else -1
             admissible, complex_seen = [], complex_count > 0
-            numeric_sign = (lambda e: _numeric_sign(sympy.re(evaluate(e, point))))
+            sign_here = (lambda e: numeric_sign(sympy.re(evaluate(e, point))))
             for key, shown, coords, minors, exact in numeric:
-                if not all(_is_real(x) for x in coords):
+                if not all(is_real(x) for x in coords):
                     complex_seen = True
                     continue
-                if not self.inside([sympy.re(x) for x in coords], numeric_sign):
+                if not self.inside([sympy.re(x) for x in coords], sign_here):
                     continue
-                signs = [_numeric_sign(sympy.re(m)) for m in minors]
+                signs = [numeric_sign(sympy.re(m)) for m in minors]
                 if signs[-1] == 0:
                     raise ExtremizeError(report.degenerate_message(self, shown, point))
                 if self.admissible_pattern(signs, sign_c):
                     admissible.append((key, shown, exact))
             if len(admissible) != 1:
                 if not admissible and complex_seen and not any(
-                        all(_is_real(x) for x in entry[2]) for entry in numeric):
+                        all(is_real(x) for x in entry[2]) for entry in numeric):
                     raise ExtremizeError(report.complex_message(self, found, point))
                 raise ExtremizeError(report.count_message(
                     self, found, [shown for _, shown, _ in admissible], point), "failed")
@@ -369,7 +350,7 @@ class _Problem:
             picks.setdefault(key, (point, shown, exact))
             if len(picks) > 1:
                 raise ExtremizeError(report.branch_message(self, {
-                    self.label(k, closed, implicit): v[:2] for k, v in picks.items()}), "failed")
+                    report.label(self, k, closed, implicit): v[:2] for k, v in picks.items()}), "failed")
         if used == 0:
             raise ExtremizeError(f"no usable sample point of {report.names(self.param_symbols)}: "
                                  f"{self.name} vanishes identically or its critical points are "
@@ -390,12 +371,6 @@ class _Problem:
                        f"or the closed forms are singular, e.g. {describe_point(skipped[0])})")
         return coords, None, reason, used
 
-    def label(self, key, closed, implicit) -> str:
-        kind, index = key
-        if kind == "closed":
-            return report.point_text(self.vars, closed[index].coords)
-        return f"a root of {sympy.sstr(sympy.factor(implicit[index].polynomial))} = 0"
-
 
 # -- helpers ------------------------------------------------------------------
 
@@ -415,40 +390,3 @@ def _domain(v, interval, spec):
             hi, hi_strict = b, True
     to_sympy = (lambda x: None if x is None else sympy.Rational(x.numerator, x.denominator))
     return to_sympy(lo), lo_strict, to_sympy(hi), hi_strict
-
-
-def _split_content(f, variables):
-    """f = content * g, with the content free of the variables.
-
-    Where the content vanishes f is identically zero (a trivial theory, such
-    as N = 1); those parameter values are excluded from the decision, and the
-    sign of the content turns a maximum of g into a minimum of f.
-    """
-    num, den = sympy.fraction(sympy.together(f))
-    if num == 0:
-        raise ExtremizeError("the function is identically zero")
-    content, g = sympy.Integer(1), sympy.Integer(1)
-    for part, power in ((num, 1), (den, -1)):
-        coeff, factors = sympy.factor_list(part)
-        content *= coeff ** power
-        for base, mult in factors:
-            if base.has(*variables):
-                g *= base ** (mult * power)
-            else:
-                content *= base ** (mult * power)
-    return content, g
-
-
-def _finite(x) -> bool:
-    return x.is_number and not x.has(sympy.zoo, sympy.nan, sympy.oo, -sympy.oo)
-
-
-def _is_real(x) -> bool:
-    re, im = x.as_real_imag()
-    return abs(im) <= _TOL * (1 + abs(re))
-
-
-def _numeric_sign(x) -> int:
-    if abs(x) <= _TOL:
-        return 0
-    return 1 if x > 0 else -1

@@ -84,10 +84,10 @@ def count_message(p, found, admissible, point) -> str:
 def branch_message(p, picks) -> str:
     """Different sample points chose different critical points."""
     parts = []
-    for label, (point, coords) in picks.items():
+    for what, (point, coords) in picks.items():
         values = ", ".join(f"{v} ≈ {sympy.re(evaluate(x, point)).evalf(6)}"
                            for v, x in zip(p.vars, coords))
-        parts.append(f"{label} at {describe_point(point)} ({values})")
+        parts.append(f"{what} at {describe_point(point)} ({values})")
     return (f"different sample points pick different roots for the {KIND[p.mode]} "
             f"of {p.name}: " + "; ".join(parts) + "; restrict the parameters in "
             "their `symbol` declarations or " + range_hint(p))
@@ -103,6 +103,14 @@ def implicit_message(p, component, point, coords) -> str:
             f"only for roots of degree at most 2, so there is no exact value for general "
             f"{names(p.param_symbols)}; it is the only {KIND[p.mode]}{where(point)}, at "
             f"{approx_text(p.vars, coords)}; fix the parameters to get an exact value")
+
+
+def label(p, key, closed, implicit) -> str:
+    """A critical point, or an implicit component, in words."""
+    kind, index = key
+    if kind == "closed":
+        return point_text(p.vars, closed[index].coords)
+    return f"a root of {sympy.sstr(sympy.factor(implicit[index].polynomial))} = 0"
 
 
 def domain_text(p) -> str:
