@@ -19,6 +19,7 @@ from fractions import Fraction
 import flint
 import sympy
 
+from . import budget
 from .critical import TOL, Implicit, shape, finite, is_real, numeric_sign
 from .sampling import SymbolSpec, evaluate
 
@@ -131,6 +132,7 @@ def rule_out(problem, implicit) -> str | None:
         if values is None:
             return None
         for value in values:
+            budget.check()
             point = {spec.symbol: sympy.Rational(value.numerator, value.denominator)}
             c_value = evaluate(problem.content, point)
             if not finite(c_value) or abs(c_value) < TOL:

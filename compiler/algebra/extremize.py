@@ -17,7 +17,7 @@ from typing import Sequence
 
 import sympy
 
-from . import cells
+from . import budget, cells
 from . import extremize_report as report
 from .critical import (TOL, Closed, FamilyError, Implicit, RationalFunction, critical_components,
                        finite, is_real, numeric_sign, numeric_value, split_content)
@@ -315,6 +315,7 @@ class _Problem:
         # Spare points replace skipped ones; a small finite domain is used whole.
         limit = len(points) if self.region.is_enumerated(count * 3) else count
         for point in points:
+            budget.check()
             if used == limit:
                 break
             c_value = evaluate(self.content, point)

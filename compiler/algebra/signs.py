@@ -19,6 +19,7 @@ import itertools
 
 import sympy
 
+from . import budget
 from .region import Region
 
 _TESTS = {
@@ -116,6 +117,7 @@ class SignOracle:
 
     def _forms(self, expr):
         for form in self.rewritten(expr):
+            budget.check()
             form = sympy.together(form)
             yield form
             yield sympy.factor(form)
