@@ -353,3 +353,23 @@ def test_cells_for_a_real_parameter():
     assert cells.test_points(x, [F(1, 2)]) == [F(1, 4), F(1, 2), F(3, 4)]
     assert cells.test_points(x, [(F(1, 3), F(34, 100))]) is None   # irrational cut inside
     assert cells.test_points(x, [(F(3), F(31, 10))]) == [F(1, 2)]  # outside the range
+
+
+def test_cells_prove_only_what_holds_for_every_parameter_value():
+    # f = g(x) - (y - x)^2 with g'(x) = -(x - 1)(x^3 - k): critical points (1, 1)
+    # and (c, c) with c^3 = k, an irreducible cubic over Q(k).  The Hessian is
+    # negative definite where g'' < 0: g''(1) = k - 1 and g''(c) = -3c^2(c - 1),
+    # so (1, 1) is the maximum for k < 1 and (c, c) for k > 1 (hand-checkable).
+    x, y = declare("x"), declare("y")
+    X, Y = x.symbol, y.symbol
+    small = declare("k", gt=0, lt=F(1, 2))
+    K = small.symbol
+    f = -(X ** 5 / 5 - X ** 4 / 4 - K * X ** 2 / 2 + K * X) - (Y - X) ** 2
+    r = extremize("maximize", f, [(X, None), (Y, None)], [x, y, small], "s")
+    assert r.point == (1, 1) and r.settled == "symbolic"
+    assert "no maximum for any k" in r.account
+    # for k > 0 the maximum changes branch at k = 1: no proof, and the samples see both
+    wide = declare("k", "positive")
+    f = f.xreplace({K: wide.symbol})
+    with pytest.raises(ExtremizeError, match="different sample points pick different roots"):
+        extremize("maximize", f, [(X, None), (Y, None)], [x, y, wide], "s")
