@@ -6,12 +6,15 @@ eliminated down to one polynomial by resultants (FLINT's multivariate
 polynomials, fast), which is factored over QQ(parameters).  A factor linear
 in that variable gives it as a rational function of the parameters; it is
 substituted and the smaller system solved the same way, down to one
-variable, where sympy writes the roots in radicals when it can.  Any other
-factor (or a root of higher degree) is kept as an *implicit component*: the
-polynomials that cut it out.  Its points are computed exactly at a sample
-point of the parameters (a lexicographic Groebner basis over QQ, then the
-real roots of its last polynomial as isolated algebraic numbers), which is
-how the root choice is made for it; with no parameters that is exact.
+variable, where sympy writes the roots in radicals when it can.  A quadratic
+factor is added to the system, whose lexicographic Groebner basis over
+QQ(parameters) then writes the other variables through its two roots.  Any
+other factor (or a root sympy cannot write) is kept as an *implicit
+component*: the polynomials that cut it out.  Its points are computed
+exactly at a sample point of the parameters (a Groebner basis over QQ, then
+the real roots of its last polynomial isolated by FLINT), which is how the
+root choice is made for it; with no parameters that is exact.  The numeric
+helpers of that choice (60-digit values, the zero tolerance) live here too.
 """
 from __future__ import annotations
 
