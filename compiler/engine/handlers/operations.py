@@ -9,7 +9,8 @@ import sympy
 
 from ... import notation
 from ...algebra import fibers as fibers_mod, localization
-from ...algebra.extremize import ExtremizeError, extremize, tidy
+from ...algebra.extremize import ExtremizeError, extremize
+from ...algebra.radicals import tidy
 from ...algebra.graded import Element
 from ...checks import free_symbols
 from ...expressions import as_expr, is_class_free
