@@ -20,12 +20,10 @@ from fractions import Fraction
 from pathlib import Path
 
 from . import __version__, usage
-from .diff import diff_records, diff_to_json, format_diff, load_record
 from .engine import BuildOptions, build
 from .errors import DocumentError, Location
 from .render.html import to_html
 from .render.json import to_json
-from .render.tex import plot_files, to_tex
 from .results import STATUSES
 
 FORMATS = ("html", "json", "tex")
@@ -302,6 +300,7 @@ def report_files(args, report, formats) -> dict[Path, bytes]:
     if "json" in formats:
         files[out / f"{stem}.json"] = to_json(report).encode("utf-8")
     if "tex" in formats:
+        from .render.tex import plot_files, to_tex  # loaded only when LaTeX is asked for
         files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone).encode("utf-8")
         for name, data in plot_files(report).items():
             files[out / name] = data
@@ -323,6 +322,7 @@ def cmd_check(args) -> int:
 
 
 def cmd_diff(args) -> int:
+    from .diff import diff_records, diff_to_json, format_diff, load_record  # this command only
     old, new = load_record(args.old), load_record(args.new)
     result = diff_records(old, new)
     print(diff_to_json(result) if args.json else format_diff(result))

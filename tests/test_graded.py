@@ -266,6 +266,37 @@ def test_by_group_splits_fiber_and_base():
     assert parts[()] == -a * b
 
 
+def test_by_group_parts_rebuild_the_element_over_a_symbolic_denominator():
+    # (common practice, no source) sum of monomial * coefficient gives back the element
+    ring, a, b, c = make_ring()
+    x = ring.generator("x", 2, text="x", latex="x", group=1)
+    y = ring.generator("y", 4, text="y", latex="y", group=1)
+    n = ring.symbol(N)
+    v = (x * x * y * a / (n - 1) + 3 * x * y * b - n * y * c + x * a * b + a * a / (n + 2))
+    parts = v.by_group(1)
+    assert len({p for p, _ in parts}) == len(parts) == 5
+    rebuilt = ring.zero()
+    for pairs, coefficient in parts:
+        assert not coefficient.generator_keys() & {"x", "y"}
+        mono = ring.one()
+        for key, e in pairs:
+            mono = mono * ring.gen(key) ** e
+        rebuilt = rebuilt + mono * coefficient
+    assert rebuilt == v
+    assert dict(parts)[(("x", 2), ("y", 1))] == a / (n - 1)
+
+
+def test_substitute_generators_groups_equal_powers():
+    # (common practice, no source) x -> a + b, c -> a*b, expanded by hand
+    ring, a, b, c = make_ring()
+    x = ring.generator("x", 2, text="x", latex="x", group=1)
+    n = ring.symbol(N)
+    v = x * x * a / (n + 1) + 2 * x * b * n + c * a - x * c
+    got = v.substitute({"x": a + b, "c": a * b})
+    s = a + b
+    assert got == s * s * a / (n + 1) + 2 * s * b * n + a * b * a - s * a * b
+
+
 # --------------------------------------------------------------- substitute
 def test_substitute_is_simultaneous():
     ring, a, b, c = make_ring()

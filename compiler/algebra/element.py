@@ -243,6 +243,11 @@ class Element:
         a = self._fresh()
         R = a._ring
         gens = R.monos.gens
+        mine = [g.index for g in gens if g.group == group]
+        if not any(gens[i].degree % 2 for i in mine):
+            L = R.layout
+            return [(R.monos.pairs(f), Element(R, *L.cancel(q, a._d)))
+                    for f, q in sorted(L.split(a._p, mine), key=lambda fq: R.monos.key(fq[0]))]
         collected: dict[Mono, dict] = {}
         for m, c in a._t.items():
             f = tuple((i, e) for i, e in m if gens[i].group == group)
@@ -319,22 +324,21 @@ class Element:
             raise AlgebraError("the substitution makes a denominator vanish or contain classes")
         # Terms sharing the powers of the replaced generators are summed first,
         # so each product of replacements is built and multiplied once.
-        groups: dict[tuple, dict] = {}
-        for m, c in a._t.items():
-            budget.check()
-            replaced = tuple((i, e) for i, e in m if i in gen_vals)
-            groups.setdefault(replaced, {})[tuple((i, e) for i, e in m if i not in gen_vals)] = c
+        L = R.layout
+        if sym_vals or any(R.monos.gens[i].degree % 2 for i in gen_vals):
+            groups: dict[tuple, object] = {}
+            for m, c in a._t.items():
+                budget.check()
+                replaced = tuple((i, e) for i, e in m if i in gen_vals)
+                kept = R._make({tuple((i, e) for i, e in m if i not in gen_vals): C.one}, C.one)
+                groups[replaced] = groups.get(replaced, R.zero()) + scalar(c) * kept
+        else:  # split by FLINT divisions, no unpacking
+            groups = {f: Element(R, q, L.one) for f, q in L.split(a._p, list(gen_vals))}
         result = R.zero()
-        for replaced, rest in groups.items():
+        for replaced, part in groups.items():
             factor = R.one()
             for i, e in replaced:
                 factor = factor * power("g", i, e, gen_vals[i])
-            if sym_vals:
-                part = R.zero()
-                for kept, c in rest.items():
-                    part = part + scalar(c) * R._make({kept: C.one}, C.one)
-            else:
-                part = R._make(rest, C.one)
             result = result + factor * part
         return result / den
 

@@ -129,6 +129,26 @@ class Layout:
                 out.append((k, q * self.t ** k))
         return out
 
+    def split(self, P, indices) -> list[tuple[Mono, object]]:
+        """P as a sum of (monomial in the generators ``indices``) * (a part
+        free of them), nonzero parts only, by FLINT divisions: no unpacking.
+        For even generators only (the product order of odd ones carries signs)."""
+        parts = [((), P)]
+        for i in sorted(indices):
+            top = int(P.degrees()[self.nsym + 1 + i]) if P else 0
+            split = []
+            for m, rest in parts:
+                for k in range(top, 0, -1):
+                    if not rest:
+                        break
+                    q, rest = divmod(rest, self.mono(((i, k),)))
+                    if q:
+                        split.append((m + ((i, k),), q))
+                if rest:
+                    split.append((m, rest))
+            parts = split
+        return parts
+
     def variable_degrees(self, P) -> tuple[list[int], list[int]]:
         """(symbol positions, generator indices) that occur in P."""
         if not P:
