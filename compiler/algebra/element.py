@@ -319,7 +319,7 @@ class Element:
                 total = total + term
             return total
 
-        den = scalar(a._den)
+        den = scalar(R.layout.symbols_part(a._d))  # not a._den: that unpacks every term
         if not den.is_class_free() or den.is_zero:
             raise AlgebraError("the substitution makes a denominator vanish or contain classes")
         # Terms sharing the powers of the replaced generators are summed first,
