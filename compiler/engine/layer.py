@@ -39,7 +39,7 @@ class CacheLayer:
                 return step
         step = blank()
         compute(step)
-        if step.status == "error":
+        if step.status == "error" or not self.cache.enabled:  # --no-cache: nothing to keep
             return step
         fresh = self._entry(step)
         if fresh is None:
