@@ -239,6 +239,19 @@ def test_from_scalar_expr():
     assert issubclass(NotRational, ValueError)
 
 
+def test_from_scalar_expr_reads_nested_fractions_and_negative_powers():
+    # (common practice, no source) the same rational function built by ring arithmetic
+    ring, a, b, c = make_ring()
+    n, m = ring.symbol(N), ring.symbol(M)
+    expr = (N + 1) ** 2 / (M - 1) - 3 / (N * (M - 1)) + sympy.Rational(2, 7) * (N - M) ** -2 * M
+    assert ring.from_scalar_expr(expr) == (n + 1) ** 2 / (m - 1) - 3 / (n * (m - 1)) \
+        + ring.scalar(Fraction(2, 7)) * m / ((n - m) * (n - m))
+    assert ring.from_scalar_expr(N / N - 1).is_zero
+    for bad in (N ** sympy.Rational(1, 2) + 1, sympy.exp(N), sympy.zoo + N):
+        with pytest.raises(NotRational):
+            ring.from_scalar_expr(bad)
+
+
 def test_coefficient_and_leading_term():
     ring, a, b, c = make_ring()
     n = ring.symbol(N)
