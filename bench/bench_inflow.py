@@ -17,7 +17,8 @@ Three measurements, one run:
 1. K = 6, whole process: ``python -m compiler build DOC -o OUT --no-cache``
    (HTML and JSON written, minimum of ``--runs``), against plain sympy in
    this process (expansion and integration only, no printing; minimum of
-   ``--sympy-runs``).  Target: the build at least 15x faster.
+   ``--sympy-runs``).  Target: the build at least 15x faster.  With
+   ``--before DIR`` (another checkout) its build is timed too, interleaved.
 2. The flavour family K = 1..10 in process (``compiler.engine.build`` plus
    the HTML and JSON renderers, as the command line does): time against the
    number of terms of the result, with the exponent of a least-squares fit
@@ -129,19 +130,22 @@ def term_count(value) -> int:
     return sum(len(sympy.Add.make_args(sympy.expand(c))) for _, c in value.terms())
 
 
-def whole_process(k: int, folder: Path, runs: int) -> float:
+def whole_process(k: int, folder: Path, codes: list[Path], runs: int) -> list[float]:
+    """Minimum wall seconds of the K document's command-line build, for each
+    checkout in ``codes`` (runs interleaved, so a busy machine slows all alike)."""
     path = folder / f"inflow-{k}.md"
     path.write_text(document(k), encoding="utf-8")
-    env = dict(os.environ, PYTHONPATH=str(ROOT))
-    env.pop("PYTHONDONTWRITEBYTECODE", None)   # as installed: compiled modules are kept
     argv = [sys.executable, "-m", "compiler", "build", path.name, "-o", "out", "--no-cache", "--quiet"]
-    best = math.inf
+    best = [math.inf] * len(codes)
     for _ in range(runs):
-        start = time.perf_counter()
-        done = subprocess.run(argv, cwd=folder, env=env, capture_output=True, text=True)
-        best = min(best, time.perf_counter() - start)
-        if done.returncode != 0:
-            raise SystemExit(f"build of inflow-{k} exited {done.returncode}:\n{done.stderr}")
+        for i, code in enumerate(codes):
+            env = dict(os.environ, PYTHONPATH=str(code))
+            env.pop("PYTHONDONTWRITEBYTECODE", None)   # as installed: compiled modules are kept
+            start = time.perf_counter()
+            done = subprocess.run(argv, cwd=folder, env=env, capture_output=True, text=True)
+            best[i] = min(best[i], time.perf_counter() - start)
+            if done.returncode != 0:
+                raise SystemExit(f"build of inflow-{k} with {code} exited {done.returncode}:\n{done.stderr}")
     return best
 
 
@@ -157,6 +161,8 @@ def main() -> None:
     parser.add_argument("--runs", type=int, default=3, help="whole-process builds; the minimum is kept")
     parser.add_argument("--sympy-runs", type=int, default=1, help="plain sympy runs; the minimum is kept")
     parser.add_argument("--family", type=int, default=10, help="largest K of the flavour family")
+    parser.add_argument("--before", type=Path,
+                        help="another checkout of anomark: its whole-process build is timed too")
     args = parser.parse_args()
     with tempfile.TemporaryDirectory(prefix="anomark-inflow-") as tmp:
         folder = Path(tmp)
@@ -167,9 +173,12 @@ def main() -> None:
             plain = plain_sympy(6)
             theirs = min(theirs, time.perf_counter() - start)
         assert sympy.expand(as_plain(value, 6) - plain) == 0, "anomark and sympy disagree"
-        ours = whole_process(6, folder, args.runs)
+        codes = [ROOT] + ([args.before.resolve()] if args.before else [])
+        ours, *before = whole_process(6, folder, codes, args.runs)
         print(f"wide inflow cube, 6 flavours: {len(sympy.Add.make_args(plain))} terms, same value both ways")
         print(f"  anomark build, whole process: {ours:8.3f} s")
+        for old in before:
+            print(f"  the same, --before checkout : {old:8.3f} s   (sympy / before: {theirs / old:.1f}x)")
         print(f"  plain sympy, in process     : {theirs:8.3f} s")
         print(f"  sympy / anomark             : {theirs / ours:8.1f}x   (target: >= 15x)")
 

@@ -8,6 +8,11 @@ cache that build wrote (warm).  Each time is the minimum over ``--runs``
 repetitions (a cold repetition starts from an empty cache again).  The bare
 interpreter start-up (``python -c pass``) is timed the same way, so a warm
 rebuild can be read against it.
+
+``--before DIR`` names another checkout of anomark (say ``git worktree add
+/tmp/old <commit>``): every build is then also timed with that code, the two
+interleaved run by run so that a busy machine slows both alike, and the
+ratios are printed.  The documents are this checkout's.
 """
 from __future__ import annotations
 
@@ -23,29 +28,39 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 
 
-def timed(argv: list[str], cwd: Path) -> float:
-    """Wall seconds of one process; it must not fail to compile (exit 2 or 3)."""
-    env = dict(os.environ, PYTHONPATH=str(ROOT))
+class CannotBuild(Exception):
+    """The document does not compile with this checkout (exit 2 or 3)."""
+
+
+def timed(argv: list[str], cwd: Path, code: Path) -> float:
+    """Wall seconds of one process run with anomark from ``code``."""
+    env = dict(os.environ, PYTHONPATH=str(code))
     env.pop("PYTHONDONTWRITEBYTECODE", None)   # as installed: compiled modules are kept
     start = time.perf_counter()
     done = subprocess.run(argv, cwd=cwd, env=env, capture_output=True, text=True)
     seconds = time.perf_counter() - start
     if done.returncode > 1:
-        raise SystemExit(f"{' '.join(argv)} exited {done.returncode}:\n{done.stderr}")
+        raise CannotBuild(f"{' '.join(argv)} with {code} exited {done.returncode}:\n{done.stderr}")
     return seconds
 
 
-def build_times(source: Path, folder: Path, runs: int) -> tuple[float, float]:
-    """(cold, warm) minimum wall seconds of ``anomark build`` on a copy of SOURCE."""
+def build_times(source: Path, folder: Path, codes: list[Path], runs: int) -> list[tuple[float, float]]:
+    """(cold, warm) minimum wall seconds of ``anomark build`` on a copy of
+    SOURCE, for each checkout in ``codes`` (runs interleaved)."""
     build = [sys.executable, "-m", "compiler", "build", source.name, "-o", "out", "--quiet"]
-    cold = []
+    cold = [[] for _ in codes]
+    warm = [[] for _ in codes]
     for _ in range(runs):
-        shutil.rmtree(folder, ignore_errors=True)
-        folder.mkdir(parents=True)
-        shutil.copy(source, folder / source.name)
-        cold.append(timed(build, folder))
-    warm = [timed(build, folder) for _ in range(runs)]
-    return min(cold), min(warm)
+        for i, code in enumerate(codes):
+            place = folder / str(i)
+            shutil.rmtree(place, ignore_errors=True)
+            place.mkdir(parents=True)
+            shutil.copy(source, place / source.name)
+            cold[i].append(timed(build, place, code))
+    for _ in range(runs):
+        for i, code in enumerate(codes):
+            warm[i].append(timed(build, folder / str(i), code))
+    return [(min(c), min(w)) for c, w in zip(cold, warm)]
 
 
 def main() -> None:
@@ -53,20 +68,40 @@ def main() -> None:
     parser.add_argument("documents", nargs="*", type=Path,
                         help="documents to build (default: every derivations/*.md)")
     parser.add_argument("--runs", type=int, default=3, help="repetitions; the minimum is kept")
+    parser.add_argument("--before", type=Path, help="another checkout of anomark to compare with")
     args = parser.parse_args()
     sources = [p.resolve() for p in args.documents] or sorted((ROOT / "derivations").glob("*.md"))
+    codes = [ROOT] + ([args.before.resolve()] if args.before else [])
     with tempfile.TemporaryDirectory(prefix="anomark-process-") as tmp:
-        start_up = min(timed([sys.executable, "-c", "pass"], Path(tmp)) for _ in range(args.runs))
-        rows = [(s.stem, *build_times(s, Path(tmp) / s.stem, args.runs)) for s in sources]
-    width = max(len(name) for name, _, _ in rows)
-    print(f"{'document':<{width}}  {'cold s':>8}  {'warm s':>8}")
-    for name, cold, warm in rows:
-        print(f"{name:<{width}}  {cold:8.3f}  {warm:8.3f}")
-    cold_total, warm_total = sum(r[1] for r in rows), sum(r[2] for r in rows)
-    print(f"{'total':<{width}}  {cold_total:8.3f}  {warm_total:8.3f}")
+        start_up = min(timed([sys.executable, "-c", "pass"], Path(tmp), ROOT) for _ in range(args.runs))
+        rows = []
+        for source in sources:
+            try:
+                rows.append((source.stem, build_times(source, Path(tmp) / source.stem, codes, args.runs)))
+            except CannotBuild as exc:
+                print(f"{source.stem}: skipped, {exc}", file=sys.stderr)
+    width = max(len(name) for name, _ in rows)
+    before = " before cold  before warm  cold ratio  warm ratio" if args.before else ""
+    print(f"{'document':<{width}}  {'cold s':>8}  {'warm s':>8}{before}")
+    totals = [[0.0, 0.0] for _ in codes]
+    for name, times in rows:
+        line = f"{name:<{width}}  {times[0][0]:8.3f}  {times[0][1]:8.3f}"
+        if args.before:
+            (cold, warm), (old_cold, old_warm) = times
+            line += f"  {old_cold:11.3f}  {old_warm:11.3f}  {old_cold / cold:9.1f}x  {old_warm / warm:9.1f}x"
+        print(line)
+        for total, (cold, warm) in zip(totals, times):
+            total[0] += cold
+            total[1] += warm
+    line = f"{'total':<{width}}  {totals[0][0]:8.3f}  {totals[0][1]:8.3f}"
+    if args.before:
+        (cold, warm), (old_cold, old_warm) = totals
+        line += f"  {old_cold:11.3f}  {old_warm:11.3f}  {old_cold / cold:9.1f}x  {old_warm / warm:9.1f}x"
+    print(line)
+    cold, warm = totals[0]
     print(f"\nbare interpreter start-up: {start_up:.3f} s")
-    print(f"warm rebuild / start-up (mean per document): {warm_total / len(rows) / start_up:.1f}x")
-    print(f"cold / warm: {cold_total / warm_total:.1f}x")
+    print(f"warm rebuild / start-up (mean per document): {warm / len(rows) / start_up:.1f}x")
+    print(f"cold / warm: {cold / warm:.1f}x")
 
 
 if __name__ == "__main__":
