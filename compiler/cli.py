@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import argparse
 import contextlib
+import dataclasses
 import os
 import re
 import signal
@@ -21,9 +22,8 @@ from pathlib import Path
 
 from . import __version__, usage
 from .engine import BuildOptions, build
+from .engine.cache import CODE, OutputRecord, digest
 from .errors import DocumentError, Location
-from .render.html import to_html
-from .render.json import to_json
 from .results import STATUSES
 
 FORMATS = ("html", "json", "tex")
@@ -276,25 +276,45 @@ def build_once(args, formats) -> int:
         print(f"anomark: {out}: not a folder (-o names the output folder)", file=sys.stderr)
         return 2
     report = compile_file(args, args.file)
-    files = report_files(args, report, formats)
-    clash = [target for target in files if target.resolve() == source.resolve()]
-    if clash:
-        print(f"anomark: {clash[0]}: the output would overwrite the document itself; "
-              "choose another folder with -o", file=sys.stderr)
-        return 2
-    try:
-        write_whole(files)
-    except OSError as exc:
-        print(f"anomark: cannot write into {out}: {exc.strerror or exc}", file=sys.stderr)
-        return 2
-    say(args, summary(args.file, report, files))
+    record, key = OutputRecord(args.file, not args.no_cache), render_key(args, report, formats)
+    written = record.current(key)
+    if written is None:  # else the files on disk are what rendering would write
+        files = report_files(args, report, formats)
+        clash = [target for target in files if target.resolve() == source.resolve()]
+        if clash:
+            print(f"anomark: {clash[0]}: the output would overwrite the document itself; "
+                  "choose another folder with -o", file=sys.stderr)
+            return 2
+        try:
+            write_whole(files)
+        except OSError as exc:
+            print(f"anomark: cannot write into {out}: {exc.strerror or exc}", file=sys.stderr)
+            return 2
+        record.save(key, files)
+        written = list(files)
+    say(args, summary(args.file, report, written))
     return status_of(report)
+
+
+def render_key(args, report, formats) -> str:
+    """Everything the report files depend on: the report less step timings,
+    the formats and options, where they go, the templates and anomark's code."""
+    from .render.templates import template_root
+    data = dataclasses.asdict(report)
+    for item in data["items"]:
+        item.pop("seconds", None)
+    templates = sorted((entry.name, entry.read_bytes().hex()) for entry in template_root().iterdir()
+                       if entry.is_file())
+    return digest(CODE, digest(templates), data, formats, getattr(args, "standalone", False),
+                  str(output_folder(args).resolve()), Path(args.file).stem)
 
 
 def report_files(args, report, formats) -> dict[Path, bytes]:
     """Every output file of one build, by path: the reports and, for LaTeX, the plots."""
     out, stem = output_folder(args), Path(args.file).stem
     files: dict[Path, bytes] = {}
+    from .render.html import to_html  # the renderers load only when something is rendered
+    from .render.json import to_json
     if "html" in formats:
         files[out / f"{stem}.html"] = to_html(report).encode("utf-8")
     if "json" in formats:

@@ -157,6 +157,32 @@ def test_files_are_whole_and_no_temporaries_are_left(anomark, tmp_path):
     assert not [p for p in tmp_path.iterdir() if p.name.startswith(".doc.")]
 
 
+def test_an_unchanged_rebuild_leaves_its_files_alone_but_restores_edited_ones(anomark, tmp_path):
+    # common practice, no source: a rebuild with nothing new rewrites nothing; a report file
+    # edited or removed since is written again; --no-cache always writes
+    doc = write(tmp_path, "doc.md", GOOD)
+    out = tmp_path / "out"
+    for _ in range(2):  # the second build restores its steps: cached_steps changes the record
+        assert anomark("build", str(doc), "-o", str(out)).returncode == 0
+    html, record = out / "doc.html", out / "doc.json"
+    stamps = {p: p.stat().st_ino for p in (html, record)}
+    text = html.read_text()
+    html.write_text("edited by hand")
+    record.unlink()
+    stamps[html] = html.stat().st_ino
+    proc = anomark("build", str(doc), "-o", str(out))
+    assert proc.returncode == 0 and "wrote" in proc.stderr
+    assert html.read_text() == text and record.exists()
+    stamps = {p: p.stat().st_ino for p in (html, record)}
+    assert anomark("build", str(doc), "-o", str(out)).returncode == 0
+    assert {p: p.stat().st_ino for p in (html, record)} == stamps
+    write(tmp_path, "doc.md", GOOD.replace("# Good", "# Better"))
+    assert anomark("build", str(doc), "-o", str(out)).returncode == 0
+    assert "Better" in html.read_text()
+    assert anomark("build", str(doc), "-o", str(out), "--no-cache").returncode == 0
+    assert html.stat().st_ino != stamps[html]
+
+
 def test_an_unwritable_output_folder_is_a_clean_failure(anomark, tmp_path):
     # spec: Command line: "Each file is written whole or not at all"
     doc = write(tmp_path, "doc.md", GOOD)
