@@ -18,7 +18,7 @@ from pathlib import Path
 
 import sympy
 
-from .results import STATUSES, CheckResult, PlotData, TableData, ValueRecord
+from .results import STATUSES, CheckResult, PlotData, TableData, ValueRecord, valid_tree
 
 CACHE_DIR = ".anomark-cache"
 FORMAT = 1
@@ -152,10 +152,11 @@ def _check(c) -> CheckResult:
 
 
 def _record(v) -> ValueRecord:
-    _require(isinstance(v, dict) and set(v) == {"name", "text", "latex", "degrees"}, "value")
+    _require(isinstance(v, dict) and set(v) == {"name", "text", "latex", "degrees", "tree"}, "value")
     degrees = _list(v["degrees"])
     _require(all(type(d) is int for d in degrees), "degrees")
-    return ValueRecord(_str(v["name"]), _str(v["text"]), _str(v["latex"]), degrees)
+    _require(valid_tree(v["tree"]), "tree")
+    return ValueRecord(_str(v["name"]), _str(v["text"]), _str(v["latex"]), degrees, v["tree"])
 
 
 def _point(p) -> tuple:

@@ -23,7 +23,7 @@ from .engine import BuildOptions, build
 from .errors import DocumentError, Location
 from .render.html import to_html
 from .render.json import to_json
-from .render.tex import plot_files, to_tex
+from .render.tex import STYLES, plot_files, to_tex
 
 FORMATS = ("html", "json", "tex")
 _RATIONAL = re.compile(r"[+-]?\d+(/\d+)?")
@@ -58,6 +58,8 @@ def parser() -> argparse.ArgumentParser:
     b.add_argument("-o", "--output", metavar="DIR", help="output folder (default: the document's)")
     b.add_argument("--format", default="html,json", help="comma-separated: html,json,tex")
     b.add_argument("--standalone", action="store_true", help="LaTeX as a full article")
+    b.add_argument("--tex-style", choices=STYLES, default="appendix",
+                   help="appendix: results and claims for a paper; audit: every statement and check")
     common(b)
 
     c = sub.add_parser("check", help="compile without writing files; exit status only")
@@ -184,7 +186,7 @@ def cmd_build(args) -> int:
     if "json" in formats:
         files[out / f"{stem}.json"] = to_json(report).encode("utf-8")
     if "tex" in formats:
-        files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone).encode("utf-8")
+        files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone, style=args.tex_style).encode("utf-8")
         for name, data in plot_files(report).items():
             files[out / name] = data
     write_whole(files)

@@ -17,6 +17,7 @@ import yaml
 
 from compiler.errors import DocumentError, Location, Problem
 from compiler.markdown import MATH_TOKENS, make_markdown, math_refs
+from compiler.render.notation import check_tex
 from compiler.statements.nodes import STATEMENT_WORDS
 
 DEFAULT_TRUNCATE = 12
@@ -27,7 +28,8 @@ _FRONT_MATTER_OPEN = re.compile(r"-{3,}[ \t]*")
 #: The highest truncation degree accepted: the genera's polynomials grow
 #: quickly with the degree, and physics stops at twelve-forms or so.
 MAX_TRUNCATE = 40
-_FRONT_MATTER_KEYS = ("title", "authors", "date", "abstract", "truncate", "conventions")
+_FRONT_MATTER_KEYS = ("title", "authors", "date", "abstract", "truncate", "conventions", "notation",
+                      "results")
 
 
 @dataclass(frozen=True)
@@ -48,6 +50,8 @@ class FrontMatter:
     abstract: str = ""
     truncate: int = DEFAULT_TRUNCATE
     conventions: tuple[ConventionEntry, ...] = ()
+    notation: tuple[tuple[str, str], ...] = ()  # name -> LaTeX, within the notation subset
+    results: tuple[str, ...] = ()  # headline values, shown first
     line: int = 0
 
 
@@ -330,6 +334,42 @@ def _rational(node, where, name: str) -> Fraction:
     return Fraction(int(match.group(1)), denominator)
 
 
+def _read_notation(node, where) -> tuple[tuple[str, str], ...]:
+    """``notation: {kRRR: "k_{RRR}"}``: each LaTeX inside the shared subset."""
+    if _is_null(node):
+        return ()
+    if not isinstance(node, yaml.MappingNode):
+        raise DocumentError(where(node), "'notation' must map names to LaTeX, such as kRRR: \"k_{RRR}\"")
+    problems, entries = [], []
+    for key_node, value_node in node.value:
+        name = key_node.value if isinstance(key_node, yaml.ScalarNode) else ""
+        if not _IDENTIFIER.fullmatch(name):
+            problems.append(Problem(where(key_node), f"notation name {name!r} is not an identifier"))
+            continue
+        latex = _text(value_node, where, "notation")
+        problem = check_tex(latex) if latex.strip() else "notation for a name cannot be empty"
+        if problem:
+            problems.append(Problem(where(value_node), problem))
+            continue
+        entries.append((name, latex))
+    if problems:
+        raise DocumentError.of(problems)
+    return tuple(entries)
+
+
+def _read_results(node, where) -> tuple[str, ...]:
+    """``results: [a_star, c_star]``: the values that open the report."""
+    if _is_null(node):
+        return ()
+    if not isinstance(node, yaml.SequenceNode):
+        raise DocumentError(where(node), "'results' must be a list of value names, such as [a_star, c_star]")
+    names = tuple(_text(item, where, "results") for item in node.value)
+    bad = [n for n in names if not _IDENTIFIER.fullmatch(n)]
+    if bad:
+        raise DocumentError(where(node), f"'results' lists {bad[0]!r}, which is not a name")
+    return names
+
+
 _READERS = {
     "title": lambda node, where: _text(node, where, "title"),
     "date": lambda node, where: _text(node, where, "date"),
@@ -337,4 +377,6 @@ _READERS = {
     "authors": _read_authors,
     "truncate": _read_truncate,
     "conventions": _read_conventions,
+    "notation": _read_notation,
+    "results": _read_results,
 }

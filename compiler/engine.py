@@ -31,6 +31,8 @@ from .cache import CODE, StepCache, digest, expr_from_data, expr_to_data, restor
 from .checks import Context, claim, free_symbols, show, substitute
 from .document import Block, ProsePart, read_document
 from .errors import DocumentError, Location, Problem
+from .presentation import display_tree
+from .render.printers import LatexPrinter
 from .expressions import (Evaluator, Missing, MissingValue, Scope, Value, as_expr, from_expr,
                           is_class_free, rational_value)
 from .results import CheckResult, PlotData, Prose, Report, Step, TableData, ValueRecord
@@ -247,7 +249,8 @@ class Run(Scope):
             conventions=self.report_conventions(),
             truncate=front.truncate, items=final, values=values,
             allow_html=self.options.allow_html,
-            diagnostics=[str(p) for p in self.diagnostics])
+            diagnostics=[str(p) for p in self.diagnostics],
+            notation=dict(front.notation), headline=list(front.results))
         return report
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
@@ -442,10 +445,12 @@ def fraction_text(value: Fraction) -> str:
 
 
 def record(name: str, value: Value) -> ValueRecord:
-    """A value as the renderers see it."""
+    """A value as the renderers see it: normal-form text, display tree and its LaTeX."""
+    tree = display_tree(value)
     if isinstance(value, Element):
-        return ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
-    return ValueRecord(name, notation.text(value), notation.latex(value), [] if value == 0 else [0])
+        return ValueRecord(name, value.to_text(), LatexPrinter().doprint(tree), value.degrees(), tree)
+    return ValueRecord(name, notation.text(value), LatexPrinter().doprint(tree),
+                       [] if value == 0 else [0], tree)
 
 
 def degree_check(value: Value) -> CheckResult:

@@ -9,11 +9,15 @@ from __future__ import annotations
 import json
 import math
 
-from compiler.results import CheckResult, PlotData, Report, Step, TableData, ValueRecord
+from compiler.render.printers import TextPrinter
+from compiler.results import STATUSES, CheckResult, PlotData, Report, Step, TableData, ValueRecord
 
 
 def _value(v: ValueRecord) -> dict:
-    return {"text": v.text, "latex": v.latex, "degrees": list(v.degrees)}
+    """``text`` is the normal form (what diffs compare), ``display`` the form
+    a reader sees, in the same syntax; both read back to the same value."""
+    return {"text": v.text, "display": TextPrinter().doprint(v.tree), "latex": v.latex,
+            "degrees": list(v.degrees)}
 
 
 def _check(c: CheckResult) -> dict:
@@ -71,6 +75,9 @@ def to_record(report: Report) -> dict:
         "tool": {"name": report.tool_name, "version": report.tool_version},
         "document": report.document,
         "passed": report.passed,
+        "results": {name: _value(report.values[name]) for name in report.headline if name in report.values},
+        "counts": {"steps": len(report.steps), "checks": report.check_count,
+                   **{status: report.count(status) for status in STATUSES}},
         "conventions": dict(report.conventions),
         "steps": [step_record(s) for s in report.steps],
         "values": {name: _value(v) for name, v in report.values.items()},
