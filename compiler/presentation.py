@@ -3,11 +3,10 @@
 The normal form (``Element.to_text``) is made for comparing; a reader wants
 what a paper prints: class monomials collected, the factor common to every
 coefficient pulled out in front, each coefficient a factored rational
-function, an overall sign pulled out when most terms are negative, and
+function, an overall sign pulled out when that saves minus signs, and
 radicals kept whole.  ``(g-1)(8N^3-3N-5)/24`` rather than the expanded sum.
 The tree (plain lists, see ``compiler.results``) is what the printers read;
 its text form is in the document syntax and reads back to the same value.
-``FORMS`` holds the forms an author may ask for instead of the default.
 """
 from __future__ import annotations
 
@@ -26,11 +25,17 @@ def _negative(expr) -> bool:
     return expr.could_extract_minus_sign()
 
 
+def _shorter_negated(terms) -> bool:
+    """Whether ``-(...)`` of the opposite terms needs fewer minus signs."""
+    negative = sum(_negative(t) for t in terms)
+    return len(terms) - negative + 1 < negative
+
+
 def _sum(expr, order) -> list:
-    """An Add as a tree, its terms in a fixed order; mostly-negative sums
-    are written as the negative of their opposite."""
+    """An Add as a tree, its terms in a fixed order; a sum is written as the
+    negative of its opposite when that needs fewer minus signs."""
     terms = order(expr)
-    if 2 * sum(_negative(t) for t in terms) > len(terms):
+    if _shorter_negated(terms):
         return ["neg", _sum(-expr, order)]
     return ["add", *(_signed(t, order) for t in terms)]
 
@@ -124,31 +129,18 @@ def _radicals_gathered(expr):
     return sympy.Mul(*factors)
 
 
-def _collected_in(symbol_name: str):
-    """A form that gathers a scalar by powers of one symbol."""
-    def form(expr):
-        symbol = next((s for s in expr.free_symbols if s.name == symbol_name), sympy.Symbol(symbol_name))
-        return sympy.collect(sympy.expand(expr), symbol, evaluate=True)
-    return form
-
-
-#: Scalar forms an author may choose; ``collected`` takes a symbol name.
-FORMS = {"factored": lambda _: _factored, "expanded": lambda _: sympy.expand,
-         "collected": _collected_in}
-
-
-def scalar_tree(expr, form=_factored) -> list:
+def scalar_tree(expr) -> list:
     """A class-free value in display form."""
-    return _node(form(expr if isinstance(expr, sympy.Basic) else sympy.Integer(expr)), _ordered)
+    return _node(_factored(expr if isinstance(expr, sympy.Basic) else sympy.Integer(expr)), _ordered)
 
 
 def _common(coefficients: list):
     """The factor every coefficient shares: gcd of numerators over lcm of
-    denominators, signed so that most terms come out positive."""
+    denominators, negative when that saves minus signs inside."""
     pairs = [sympy.cancel(c).as_numer_denom() for c in coefficients]
     common = reduce(sympy.gcd, [n for n, _ in pairs]) / reduce(sympy.lcm, [d for _, d in pairs])
     quotients = [sympy.cancel(c / common) for c in coefficients]
-    if 2 * sum(_negative(q) for q in quotients) > len(quotients):
+    if _shorter_negated(quotients):
         common = -common
     return common
 
@@ -169,27 +161,27 @@ def _term(coef_tree: list, mono: list) -> list:
     return ["mul", *factors, mono]
 
 
-def element_tree(value: Element, form=_factored) -> list:
+def element_tree(value: Element) -> list:
     """A class polynomial: monomials in normal-form order, common factor out."""
     terms = value.terms()
     if not terms:
         return ["int", 0]
     ring = value.ring
     if len(terms) == 1 and not terms[0][0]:
-        return scalar_tree(terms[0][1], form)
+        return scalar_tree(terms[0][1])
     common = _common([c for _, c in terms]) if len(terms) > 1 else sympy.Integer(1)
     body = []
     for pairs, coef in terms:
-        coef_tree = scalar_tree(sympy.cancel(coef / common), form)
+        coef_tree = scalar_tree(sympy.cancel(coef / common))
         body.append(_term(coef_tree, _monomial(ring, pairs)) if pairs else coef_tree)
     tree = body[0] if len(body) == 1 else ["add", *body]
     if common == 1:
         return tree
-    return _term(scalar_tree(common, form), tree)
+    return _term(scalar_tree(common), tree)
 
 
-def display_tree(value, form=_factored) -> list:
+def display_tree(value) -> list:
     """Any computed value (class polynomial or class-free) in display form."""
     if isinstance(value, Element):
-        return element_tree(value, form)
-    return scalar_tree(value, form)
+        return element_tree(value)
+    return scalar_tree(value)

@@ -188,7 +188,7 @@ def test_notation_override_and_rule():
     assert "<msub><mi>k</mi><mi mathvariant=\"italic\">RRR</mi></msub>" in html
     assert "<mi>nv</mi><mo>\u2212</mo><mi>nh</mi>" in html and "<msub><mi>\u03f5</mi><mo>\u2217</mo></msub>" in html
     html = _value_page(v, {"kRRR": r"\kappa_{3}"})
-    assert "<msub><mi>\u03ba</mi><mn>3</mn></msub>" in html
+    assert "<msub><mi>\u03ba</mi><mrow><mn>3</mn></mrow></msub>" in html
 
 
 def test_routine_checks_fold_and_claims_stay_in_view():

@@ -55,11 +55,12 @@ class _Reader:
                 return rf"\sqrt{{{args}}}"
             if simple and re.fullmatch(r"[A-Za-z]+\d*", word):
                 return self.name(f"{word}({self.tokens[start][1]})")
-            return rf"\operatorname{{{self.name(word)}}}\left({args}\right)"
+            self.i = start  # a longer call stays flat, so a line may break inside it
+            return self.name(word) + "("
         if word:
             return _WORDS.get(word) or self.name(word)
-        if op == "(":
-            return rf"\left({self.group()}\right)"
+        if op in ("(", ")"):
+            return op
         if op == "^" and self.i < len(self.tokens):
             nxt = self.tokens[self.i]
             self.i += 1
@@ -70,18 +71,30 @@ class _Reader:
             return _OPERATORS.get(op, "")
         return rf"\text{{{escape_tex(other)}}}"
 
-    def read(self) -> str:
+    def read(self) -> list[str]:
+        """The claim's pieces: a line may end before a sign or relation (brackets
+        are plain, so a line may also end inside one)."""
         out = []
         while self.i < len(self.tokens):
             tok = self.tokens[self.i]
             self.i += 1
             out.append(self.token(*tok))
-        return " ".join(out)
+        return out
 
 
-def claim_latex(source: str, printer: LatexPrinter) -> str:
-    """``check A == B for ...`` as ``A = B \\quad for ...`` in LaTeX."""
+_BREAK_BEFORE = frozenset({"+", "-", "=", r"\neq", r"\leq", r"\geq", "<", ">", r"\quad\text{for }"})
+
+
+def claim_latex(source: str, printer: LatexPrinter, width: int) -> list[str]:
+    """``check A == B for ...`` as lines of LaTeX (``A = B \\quad for ...``),
+    cut before a top-level sign or relation when longer than ``width``."""
     text = " ".join(line.split("#", 1)[0] for line in source.split("\n")).strip()
     if text.startswith("check"):
         text = text[len("check"):]
-    return _Reader(text, printer).read()
+    lines, current = [], []
+    for piece in _Reader(text, printer).read():
+        if piece in _BREAK_BEFORE and current and printer.measure(" ".join(current)) > width:
+            lines.append(" ".join(current))
+            current = []
+        current.append(piece)
+    return lines + [" ".join(current)]

@@ -108,7 +108,8 @@ class LatexPrinter(Printer):
     minus, plus_sign, big_brackets = "-", "+", (r"\Bigl(", r"\Bigr)")
 
     def paren(self, s: str) -> str:
-        return rf"\left({s}\right)"
+        # Sized brackets only around tall content: TeX cannot break a line inside them.
+        return rf"\left({s}\right)" if "\\frac" in s else f"({s})"
 
     def _print_int(self, n: int) -> str:
         return str(n)

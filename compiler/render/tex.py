@@ -19,7 +19,7 @@ import jinja2
 from compiler.render.claims import claim_latex
 from compiler.render.notation import name_tree
 from compiler.render.printers import LatexPrinter, lines
-from compiler.render.texprose import WIDTH, code_lines, escape_code, escape_tex, prose_tex
+from compiler.render.texprose import WIDTH, code_lines, escape_code, escape_detail, escape_tex, prose_tex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 
 TEMPLATES = Path(__file__).resolve().parents[2] / "templates"  # the repo's templates/
@@ -58,16 +58,6 @@ _STATUS_TEX = {
     "error": r"\textbf{ERROR}",
 }
 _STATUS_WORDS = {"proven": "proven exactly", "sampled": "sampled", "failed": "FAILED", "error": "ERROR"}
-
-
-def _checks(step: Step) -> str:
-    parts = []
-    for c in step.checks:
-        text = f"{_STATUS_TEX[c.status]}~{escape_tex(c.what)}"
-        if c.detail:
-            text += f" ({escape_tex(c.detail)})"
-        parts.append(text)
-    return "; ".join(parts)
 
 
 def _tabular(step: Step, printer: LatexPrinter) -> str:
@@ -127,21 +117,34 @@ def _appendix_step(report: Report, step: Step, plot_file: str, printer: LatexPri
     for v in step.values:
         out.append(display_value(printer, v.name, v.tree, _label(report, v, step) if v.name else ""))
     if step.kind == "check":
-        claim = claim_latex(step.source, printer)
-        marks = "; ".join(escape_tex(_STATUS_WORDS[c.status] + (f", {c.detail}" if c.detail and
-                                                                 c.status != "proven" else ""))
-                          for c in step.checks) or "not run"
-        out.append(f"\\begin{{equation*}}\n{claim}\\qquad\\text{{({marks})}}\n\\end{{equation*}}\n")
+        out.append(_claim(step, printer))
     if step.table is not None:
         out.append(_tabular(step, printer))
     if plot_file:
         out.append(_figure(report, step.plot, plot_file, printer))
     loud = [c for c in step.notable_checks if step.kind != "check"]
     if loud:
-        out.append("\\par\\noindent{\\small " + "; ".join(
-            f"{_STATUS_TEX[c.status]}~{escape_tex(c.what)}" + (f" ({escape_tex(c.detail)})" if c.detail else "")
-            for c in loud) + "}\\par\n")
+        out.append(_check_list(loud, "small"))
     return "".join(out)
+
+
+def _claim(step: Step, printer: LatexPrinter) -> str:
+    """A ``check`` as the equation it asserts, its status beside it; what
+    went wrong (or how it was sampled) below."""
+    rows = claim_latex(step.source, printer, WIDTH - 16)  # room for the status beside it
+    status = ", ".join(_STATUS_WORDS[c.status] for c in step.checks) or "not run"
+    rows[-1] += f"\\qquad\\text{{({status})}}"
+    env = "equation*" if len(rows) == 1 else "multline*"
+    shown = f"\\begin{{{env}}}\n" + "\\\\\n".join(rows) + f"\n\\end{{{env}}}\n"
+    details = [c for c in step.checks if c.detail and c.status != "proven"]
+    return shown + (_check_list(details, "small") if details else "")
+
+
+def _check_list(checks, size: str) -> str:
+    """Checks as a ragged paragraph; long expressions in details may break."""
+    return (f"\\par\\noindent{{\\{size}\\raggedright " + "; ".join(
+        f"{_STATUS_TEX[c.status]}~{escape_detail(c.what)}" + (f" ({escape_detail(c.detail)})" if c.detail else "")
+        for c in checks) + "\\par}\n")
 
 
 def _were(n: int) -> str:
@@ -188,7 +191,7 @@ def _audit_step(step: Step, plot_file: str, printer: LatexPrinter) -> dict:
         "summary": escape_tex(step.summary),
         "table": _tabular(step, printer) if step.table is not None else "",
         "plot": plot_file,
-        "checks": _checks(step),
+        "checks": _check_list(step.checks, "footnotesize") if step.checks else "",
     }
 
 

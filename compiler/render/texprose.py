@@ -63,6 +63,15 @@ def escape_tex(text: str) -> str:
     return "".join(_TEXT_MAP.get(ch, ch) for ch in text)
 
 
+_BREAKABLE = re.compile(r"(?<=[*+,;=)/])(?=\S)|(?<=\^)(?=\S)")
+
+
+def escape_detail(text: str) -> str:
+    """Text holding long expressions (a check's detail): escaped, and free
+    to break a line after an operator, since it has few spaces."""
+    return r"\allowbreak{}".join(escape_tex(part) for part in _BREAKABLE.split(text))
+
+
 def escape_code(text: str) -> str:
     return "".join(_CODE_MAP.get(ch, ch) for ch in text)
 
