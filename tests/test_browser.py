@@ -125,3 +125,50 @@ def test_page_runs_no_script(page):
     assert text in seen.layout["text"]
     # Every @{NAME} in the prose became its value.
     assert "@{" not in seen.layout["text"]
+
+
+# ------------------------------------------------------------------ nothing clipped
+
+# Every math element that sticks out of the column it sits in: a display's
+# content wider than its own box (hidden behind a scroll bar) or any formula
+# whose right edge passes the column's.
+_OVERFLOW = """
+const columns = '.work, .prose, .abstract, .results, .margin, .table-wrap, .front';
+return Array.from(document.querySelectorAll('math')).flatMap(m => {
+  const column = m.closest(columns) || document.body;
+  const box = m.getBoundingClientRect(), edge = column.getBoundingClientRect().right;
+  const hidden = m.scrollWidth - m.clientWidth;
+  return (box.right > edge + 1 || hidden > 1)
+    ? [{text: m.textContent.slice(0, 80), over: Math.max(box.right - edge, hidden)}] : [];
+});
+"""
+BUNDLED = sorted((ROOT / "derivations").glob("*.md"))
+
+
+@pytest.fixture(scope="module")
+def bundled_pages(tmp_path_factory):
+    """Every bundled derivation's report, built in-process once."""
+    from compiler.engine import BuildOptions, build
+
+    out = tmp_path_factory.mktemp("bundled")
+    pages = {}
+    for path in BUNDLED:
+        report = build(str(path.relative_to(ROOT)), path.read_text(encoding="utf-8"), BuildOptions(use_cache=False))
+        pages[path.stem] = out / f"{path.stem}.html"
+        pages[path.stem].write_text(to_html(report), encoding="utf-8")
+    return pages
+
+
+@pytest.mark.parametrize("width", [1280, 700])
+def test_no_math_wider_than_its_column(browser, bundled_pages, width, tmp_path):
+    browser.set_window_size(width, 2000)
+    try:
+        clipped = {}
+        for stem, page in bundled_pages.items():
+            visit(browser, page, tmp_path / f"{stem}.png")
+            found = browser.execute_script(_OVERFLOW)
+            if found:
+                clipped[stem] = found
+        assert clipped == {}
+    finally:
+        browser.set_window_size(1280, 2000)

@@ -8,6 +8,7 @@ loads nothing: no scripts, fonts or images from anywhere.
 """
 from __future__ import annotations
 
+import re
 from pathlib import Path
 
 import jinja2
@@ -17,6 +18,8 @@ from compiler.markdown import expand_refs, make_markdown
 from compiler.render.mathml import math_element, to_mathml
 from compiler.render.notation import name_tree
 from compiler.render.printers import LatexPrinter, MathMLPrinter, lines
+
+_tex_width = LatexPrinter.measure
 from compiler.render.tex import TEMPLATES, degrees_text
 from compiler.results import STATUSES, PlotData, Report, Step, ValueRecord
 
@@ -41,8 +44,27 @@ def _math_inline_double(self, tokens, idx, options, env) -> str:
     return to_mathml(_math(tokens[idx], env), display=True)
 
 
+_SPACING = re.compile(r"\\q?quad(?![A-Za-z])")
+
+
+def _display_rows(latex: str) -> list[str]:
+    """An author's display cut at its top-level ``\\quad``/``\\qquad`` when it
+    is too wide for the column (browsers do not break MathML lines)."""
+    if _tex_width(latex) <= WIDTH:
+        return [latex]
+    rows, start, depth = [], 0, 0
+    for i, ch in enumerate(latex):
+        depth += {"{": 1, "}": -1}.get(ch, 0) if latex[i - 1:i] != "\\" else 0
+        if depth == 0 and (m := _SPACING.match(latex, i)):
+            rows.append(latex[start:i])
+            start = m.end()
+    rows.append(latex[start:])
+    return [r for r in rows if r.strip()]
+
+
 def _math_block(self, tokens, idx, options, env) -> str:
-    return f'<div class="display">{to_mathml(_math(tokens[idx], env), display=True)}</div>\n'
+    rows = _display_rows(_math(tokens[idx], env))
+    return f'<div class="display">{"".join(to_mathml(r, display=True) for r in rows)}</div>\n'
 
 
 def _math_block_label(self, tokens, idx, options, env) -> str:
