@@ -12,7 +12,7 @@ from html.parser import HTMLParser
 from compiler.render.html import to_html
 from compiler.render.mathml import to_mathml
 from compiler.render.printers import MathMLPrinter
-from compiler.results import Prose, Report, Step, ValueRecord
+from compiler.results import CheckResult, Prose, Report, Step, ValueRecord
 from report_fixture import make_report
 
 
@@ -185,7 +185,7 @@ def test_computed_values_written_directly_as_mathml():
 def test_notation_override_and_rule():
     v = ValueRecord("kRRR", "...", "...", [0], ["mul", ["sym", "nv_minus_nh"], ["sym", "eps_star"]])
     html = _value_page(v)
-    assert "<msub><mi>k</mi><mi mathvariant=\"italic\">RRR</mi></msub>" in html
+    assert "<msub><mi>k</mi><mrow><mi>R</mi><mi>R</mi><mi>R</mi></mrow></msub>" in html
     assert "<mi>nv</mi><mo>\u2212</mo><mi>nh</mi>" in html and "<msub><mi>\u03f5</mi><mo>\u2217</mo></msub>" in html
     html = _value_page(v, {"kRRR": r"\kappa_{3}"})
     assert "<msub><mi>\u03ba</mi><mrow><mn>3</mn></mrow></msub>" in html
@@ -213,3 +213,16 @@ def test_headline_results_open_the_report():
 
 def test_same_report_same_page():
     assert _html() == _html()
+
+
+def test_extremization_details_as_math():
+    detail = "critical points r = 2/3; r = 4/3; kept r = 2/3: d²a/dr² = -9/16 < 0"
+    v = ValueRecord("r_star", "2/3", r"\frac{2}{3}", [0], ["div", ["int", 2], ["int", 3]])
+    step = Step(1, 2, 1, 2, "maximize a over r -> r_star, a_star", "maximize", ["r_star"], values=[v],
+                checks=[CheckResult("one admissible critical point", "proven", detail)])
+    html = to_html(Report("anomark", "0.1.0", "d.md", "T", [], "", "", {}, 12, [step], {"r_star": v}))
+    shown = html.split('<ul class="extremum">')[1].split("</ul>")[0]
+    assert [label for label in re.findall(r'<span class="label">([^<]*)</span>', shown)] == [
+        "critical point", "critical point", "kept", "second-order test"]
+    assert "<mi>∂</mi>" in shown or "∂" in shown
+    assert detail not in html  # not repeated as raw text in the margin

@@ -34,7 +34,7 @@ def test_names_as_math(name, latex):
 
 
 def test_same_rule_in_mathml():
-    assert MathMLPrinter().doprint(name_tree("kRRR")) == '<msub><mi>k</mi><mi mathvariant="italic">RRR</mi></msub>'
+    assert MathMLPrinter().doprint(name_tree("kRRR")) == '<msub><mi>k</mi><mrow><mi>R</mi><mi>R</mi><mi>R</mi></mrow></msub>'
     assert MathMLPrinter().doprint(name_tree("c1(L2)")) == (
         '<mrow><msub><mi>c</mi><mn>1</mn></msub><mrow><mo stretchy="false">(</mo>'
         '<msub><mi>L</mi><mn>2</mn></msub><mo stretchy="false">)</mo></mrow></mrow>')

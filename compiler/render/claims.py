@@ -91,10 +91,49 @@ def claim_latex(source: str, printer: LatexPrinter, width: int) -> list[str]:
     text = " ".join(line.split("#", 1)[0] for line in source.split("\n")).strip()
     if text.startswith("check"):
         text = text[len("check"):]
+    return _broken(_Reader(text, printer).read(), printer, width)
+
+
+def _broken(pieces: list[str], printer: LatexPrinter, width: int) -> list[str]:
     lines, current = [], []
-    for piece in _Reader(text, printer).read():
+    for piece in pieces:
         if piece in _BREAK_BEFORE and current and printer.measure(" ".join(current)) > width:
             lines.append(" ".join(current))
             current = []
         current.append(piece)
     return lines + [" ".join(current)]
+
+
+_EXTREMUM = re.compile(r"critical points (?P<points>.*?); kept (?P<kept>.*?): (?P<test>.*)", re.S)
+_SECOND = re.compile(r"d²(\w+)/d(\w+)²")
+
+
+def _test(text: str, printer: LatexPrinter, width: int) -> list[str]:
+    """The second-order test: a derivative's sign as math, words as text."""
+    if not _SECOND.match(text):
+        return [rf"\text{{{escape_tex(text)}}}"]
+    formula, _, where = text.partition(" at ")
+    lines = _expression(formula, printer, width)
+    return lines + ([rf"\text{{at {escape_tex(where)}}}"] if where else [])
+
+
+def _expression(text: str, printer: LatexPrinter, width: int) -> list[str]:
+    second = _SECOND.match(text)
+    head = []
+    if second:
+        head = [rf"\frac{{\partial^2 {printer.doprint(name_tree(second.group(1), printer.notation))}}}"
+                rf"{{\partial {printer.doprint(name_tree(second.group(2), printer.notation))}^2}}"]
+        text = text[second.end():]
+    return _broken(head + _Reader(text, printer).read(), printer, width)
+
+
+def extremum_rows(detail: str, printer: LatexPrinter, width: int) -> list[tuple[str, list[str]]] | None:
+    """An extremization's account (critical points; the kept one: the
+    second-order test) as (label, LaTeX lines) rows; None if it is not one."""
+    m = _EXTREMUM.fullmatch(detail.strip())
+    if m is None:
+        return None
+    points = [_expression(p, printer, width) for p in m.group("points").split("; ")]
+    return ([("critical point", p) for p in points]
+            + [("kept", _expression(m.group("kept"), printer, width)),
+               ("second-order test", _test(m.group("test"), printer, width))])

@@ -15,6 +15,7 @@ import jinja2
 from markupsafe import Markup, escape
 
 from compiler.markdown import expand_refs, make_markdown
+from compiler.render.claims import extremum_rows
 from compiler.render.mathml import math_element, to_mathml
 from compiler.render.notation import name_tree
 from compiler.render.printers import LatexPrinter, MathMLPrinter, lines
@@ -138,6 +139,17 @@ def value_math(printer: MathMLPrinter, name: str, tree: list) -> Markup:
     return math_element(f'<mtable columnalign="right left" columnspacing="0">{cells}</mtable>', display=True)
 
 
+def _extremum(check, printer: LatexPrinter) -> Markup:
+    """An extremization's critical points, kept root and second-order test as math."""
+    rows = extremum_rows(check.detail, printer, WIDTH - 10) if check.detail else None
+    if rows is None:
+        return Markup("")
+    items = "".join(f'<li><span class="label">{escape(label)}</span>'
+                    + "".join(to_mathml(line, display=True) for line in lines) + "</li>"
+                    for label, lines in rows)
+    return Markup(f'<ul class="extremum">{items}</ul>')
+
+
 def _environment(report: Report) -> jinja2.Environment:
     env = jinja2.Environment(
         loader=jinja2.FileSystemLoader(TEMPLATES),
@@ -154,6 +166,7 @@ def _environment(report: Report) -> jinja2.Environment:
         name_math=lambda name: math_element(printer.doprint(name_tree(name, report.notation))),
         degrees=degrees_text,
         svg=lambda p: _plot_svg(p, report.notation),
+        extremum=lambda c: _extremum(c, LatexPrinter(report.notation)),
     )
     env.globals.update(glyphs=GLYPHS)
     return env

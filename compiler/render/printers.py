@@ -225,9 +225,10 @@ class MathMLPrinter(Printer):
     def _print_mi(self, text: str, style: str) -> str:
         if style == "greek":
             return f"<mi>{GREEK[text]}</mi>"
+        if style == "it" and len(text) > 1:  # browsers set only single-letter <mi> in italic
+            return "<mrow>" + "".join(f"<mi>{escape(ch)}</mi>" for ch in text) + "</mrow>"
         variant = ' mathvariant="normal"' if style == "up" and len(text) == 1 else ""
-        italic = ' mathvariant="italic"' if style == "it" and len(text) > 1 else ""
-        return f"<mi{variant}{italic}>{escape(text)}</mi>"
+        return f"<mi{variant}>{escape(text)}</mi>"
 
     def _print_mn(self, text: str) -> str:
         return f"<mn>{escape(text)}</mn>"
