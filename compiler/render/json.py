@@ -75,12 +75,13 @@ def to_record(report: Report) -> dict:
         "tool": {"name": report.tool_name, "version": report.tool_version},
         "document": report.document,
         "passed": report.passed,
-        "results": {name: _value(report.values[name]) for name in report.headline if name in report.values},
-        "counts": {"steps": len(report.steps), "checks": report.check_count,
-                   **{status: report.count(status) for status in STATUSES}},
         "conventions": dict(report.conventions),
         "steps": [step_record(s) for s in report.steps],
         "values": {name: _value(v) for name, v in report.values.items()},
+        # after the keys the format fixes: the headline values, and steps and checks counted apart
+        "results": {name: _value(report.values[name]) for name in report.headline if name in report.values},
+        "counts": {"steps": len(report.steps), "checks": report.check_count,
+                   **{status: report.count(status) for status in STATUSES}},
     }
 
 
