@@ -19,6 +19,10 @@ from .algebra.graded import Element
 #: Coefficients with more operations than this are left as they are:
 #: factoring them costs more than a reader gains from it.
 FACTOR_LIMIT = 400
+#: Class polynomials with more terms than this are shown term by term as
+#: the normal form gives them (nobody reads a thousand factored
+#: coefficients, and factoring them all would dominate the build).
+COLLECT_LIMIT = 60
 
 
 def _negative(expr) -> bool:
@@ -31,20 +35,20 @@ def _shorter_negated(terms) -> bool:
     return len(terms) - negative + 1 < negative
 
 
+def _opposite(terms: list) -> list:
+    """The terms of the opposite sum (trees only: no sympy arithmetic, which
+    would cost more than the whole display on a large value)."""
+    return [t[1] if t[0] == "neg" else ["neg", t] for t in terms]
+
+
 def _sum(expr, order) -> list:
     """An Add as a tree, its terms in a fixed order; a sum is written as the
     negative of its opposite when that needs fewer minus signs."""
-    terms = order(expr)
-    if _shorter_negated(terms):
-        return ["neg", _sum(-expr, order)]
-    return ["add", *(_signed(t, order) for t in terms)]
-
-
-def _signed(expr, order) -> list:
-    if _negative(expr):
-        inner = _node(-expr, order)
-        return ["neg", inner]
-    return _node(expr, order)
+    terms = [_node(t, order) for t in order(expr)]
+    negative = sum(t[0] == "neg" for t in terms)
+    if len(terms) - negative + 1 < negative:
+        return ["neg", ["add", *_opposite(terms)]]
+    return ["add", *terms]
 
 
 def _power(base, exp, order) -> list:
@@ -67,10 +71,14 @@ def _mul(expr, order) -> list:
     num, den = [], []
     for f in sorted(rest, key=lambda f: sympy.default_sort_key(f.as_base_exp()[0])):
         base, exp = f.as_base_exp()
-        if isinstance(base, sympy.Add) and _negative(base) and exp.is_integer and exp % 2:
-            base, sign = -base, not sign
         target = den if exp.is_negative else num
         exp = -exp if exp.is_negative else exp
+        if isinstance(base, sympy.Add) and exp.is_integer and _negative(base):
+            tree = _sum(base, order)  # written with its sign outside: (1 - z) is -(z - 1)
+            tree = ["add", *_opposite(tree[1:])] if tree[0] == "add" else tree[1]
+            sign ^= bool(exp % 2)
+            target.append(tree if exp == 1 else ["pow", tree, int(exp)])
+            continue
         target.append(_node(base, order) if exp == 1 else _power(base, exp, order))
     if coeff.p != 1 or not num:
         num.insert(0, ["int", int(coeff.p)])
@@ -169,6 +177,9 @@ def element_tree(value: Element) -> list:
     ring = value.ring
     if len(terms) == 1 and not terms[0][0]:
         return scalar_tree(terms[0][1])
+    if len(terms) > COLLECT_LIMIT:
+        return ["add", *(_term(_node(coef, _ordered), _monomial(ring, pairs)) if pairs else _node(coef, _ordered)
+                         for pairs, coef in terms)]
     common = _common([c for _, c in terms]) if len(terms) > 1 else sympy.Integer(1)
     body = []
     for pairs, coef in terms:

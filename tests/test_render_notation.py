@@ -124,3 +124,30 @@ def test_class_polynomial_collected_with_common_factor_out():
 def test_display_is_deterministic():
     a = sympy.expand((g - 1) * (N + 1) ** 3 * (z - 2)) / 7
     assert len({_display(a) for _ in range(3)}) == 1
+
+
+def _evaluate(tree, classes):
+    """A tree back to a sympy expression (classes as plain symbols), to compare values."""
+    kind, *args = tree
+    table = {
+        "int": lambda n: sympy.Integer(n), "sym": lambda name: sympy.Symbol(name),
+        "cls": lambda text: classes[text], "neg": lambda t: -_evaluate(t, classes),
+        "add": lambda *ts: sympy.Add(*(_evaluate(t, classes) for t in ts)),
+        "mul": lambda *fs: sympy.Mul(*(_evaluate(f, classes) for f in fs)),
+        "div": lambda a, b: _evaluate(a, classes) / _evaluate(b, classes),
+        "pow": lambda b, n: _evaluate(b, classes) ** n, "sqrt": lambda t: sympy.sqrt(_evaluate(t, classes)),
+    }
+    return table[kind](*args)
+
+
+@pytest.mark.parametrize("size", [3, 80])
+def test_display_tree_equals_the_value(size):
+    # small values are collected and factored; large ones (past COLLECT_LIMIT terms) go term by term
+    ring = Ring([N, g], 12)
+    gens = [ring.generator(f"c1(L{i})", 2, text=f"c1(L{i})", latex="") for i in range(size)]
+    value = ring.zero()
+    for i, x in enumerate(gens):
+        value = value + x * x * ring.scalar((N - i) * (g - 1) / 6) - x * ring.scalar(g + i)
+    classes = {f"c1(L{i})": sympy.Symbol(f"C{i}") for i in range(size)}
+    expected = sum(sympy.Mul(c, *(classes[k] ** e for k, e in mono)) for mono, c in value.terms())
+    assert sympy.expand(_evaluate(display_tree(value), classes) - expected) == 0
