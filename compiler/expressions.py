@@ -19,10 +19,11 @@ from typing import Callable, Union
 import sympy
 
 from . import notation
-from .algebra import genera
-from .algebra.extremize import tidy
+from .algebra import budget, genera
+from .algebra.radicals import tidy
 from .algebra.genera import BundleValue
-from .algebra.graded import AlgebraError, Element, NotRational
+from .algebra.errors import AlgebraError, NotRational
+from .algebra.graded import Element
 from .errors import DocumentError, Location
 from .statements import nodes as n
 
@@ -43,6 +44,7 @@ class MissingValue(DocumentError):
     def __init__(self, location: Location, name: str, line: int):
         super().__init__(location, f"'{name}' has no value: the step at line {line} did not produce it")
         self.name = name
+        self.line = line  # the step that did not produce it
 
 
 class Scope:
@@ -70,6 +72,7 @@ class Evaluator:
     # ------------------------------------------------------------ node kinds
 
     def evaluate(self, node) -> Value:
+        budget.check()  # every node: a long evaluation stops at its deadline in any thread
         method = getattr(self, "_eval_" + type(node).__name__)
         try:
             return method(node)

@@ -9,11 +9,15 @@ all at once and reported together, before the first computation.
 from __future__ import annotations
 
 import difflib
-from dataclasses import dataclass, fields, is_dataclass
+from dataclasses import dataclass
+from typing import Iterator, Optional
 
 from .errors import DocumentError, Location, Problem
 from .statements import nodes as n
+from .statements.tree import Ident, walk
 
+#: "Did you mean" is searched for this many problems, then no more.
+MAX_SUGGESTIONS = 20
 #: Conventions every document has, with their defaults.
 BUILTIN_CONVENTIONS = {"angular_integral": 2}
 
@@ -43,11 +47,18 @@ class NameTable:
         self.problems.append(Problem(Location(self.path, line, column), message))
 
     def suggest(self, name: str) -> str:
+        """A close name in force, for the first few problems only: each
+        search costs time in the number of names."""
+        if len(self.problems) >= MAX_SUGGESTIONS:
+            return ""
         close = difflib.get_close_matches(name, list(self.names), n=1)
         return f" (did you mean '{close[0]}'?)" if close else ""
 
     def declare(self, name: str, kind: str, line: int, column: int,
                 rebind: bool = False) -> None:
+        if kind == "convention" and name in self.restatable:
+            self.restatable.discard(name)  # a built-in or front-matter default restated
+            return
         old = self.names.get(name)
         if rebind:
             if old is None:
@@ -74,161 +85,107 @@ class NameTable:
                          f"'{name}' is a {found.kind} (line {found.line}), but a {what} is needed here")
 
 
-def _names_in(obj):
-    """Every ``Name`` node inside a syntax tree, in order (without recursion:
-    a sum of a thousand terms is a tree a thousand deep)."""
-    stack = [obj]
-    while stack:
-        item = stack.pop()
-        if isinstance(item, n.Name):
-            yield item
-        elif isinstance(item, tuple):
-            stack.extend(reversed(item))
-        elif is_dataclass(item):
-            stack.extend(reversed([getattr(item, f.name) for f in fields(item)]))
+def _idents(statement, field: str) -> Iterator[tuple[Ident, object]]:
+    """The identifiers in one field of a statement, each with its parent node."""
+    for item, parent in walk(getattr(statement, field)):
+        if isinstance(item, Ident):
+            yield item, parent
 
 
-def references(statement) -> list[str]:
+@dataclass(frozen=True)
+class Use:
+    """The names in field ``field`` are read.  A name written on its own (a
+    fiber after ``over``, a ``for`` target) must be one of ``kinds``; a name
+    inside an expression must be one of ``expr_kinds`` (None: any kind)."""
+
+    field: str
+    kinds: Optional[tuple[str, ...]] = None
+    role: str = ""
+    expr_kinds: Optional[tuple[str, ...]] = None
+
+    def __call__(self, table: "NameTable", statement) -> None:
+        for name, parent in _idents(statement, self.field):
+            in_expression = isinstance(parent, n.Name)
+            table.use(name, name.line, name.column,
+                      self.expr_kinds if in_expression else self.kinds,
+                      "" if in_expression else self.role)
+
+
+@dataclass(frozen=True)
+class Bind:
+    """The names in field ``field`` are bound as ``kind``; a problem points
+    at the node that binds them (the statement, or a piece such as a fiber
+    body's ``class`` line)."""
+
+    field: str
+    kind: str
+
+    def __call__(self, table: "NameTable", statement) -> None:
+        for name, parent in _idents(statement, self.field):
+            site = parent or statement
+            table.declare(name, self.kind, site.line, site.column,
+                          rebind=getattr(statement, "rebind", False))
+
+
+def _not_into_itself(table: "NameTable", s: n.SplitDecl) -> None:
+    for part in s.parts:
+        if part.name == s.bundle:
+            table.problem(part.line, part.column, f"'{s.bundle}' cannot be split into itself")
+
+
+def _relations_not_evaluated(table: "NameTable", s: n.SymbolDecl) -> None:
+    # The parser reads relations between symbols; until sampling and the
+    # sign oracle honour them, a document using one must not pass silently.
+    for r in s.relations:
+        table.problem(r.line, r.column, "relations between symbols (such as Nf > Nc) are "
+                                        "not evaluated yet; bound each symbol by numbers")
+
+
+_OUT = (Bind("outputs", "value"),)
+_FOR = Use("clauses", ("symbol",), "symbol to substitute")
+
+#: What each statement reads and binds: callables ``(table, statement)``
+#: applied in order; the ``Use`` and ``Bind`` entries also give ``references``
+#: and ``bound_names``.  The one table of statement kinds: the engine's
+#: handlers must cover exactly its keys.
+RULES: dict[type, tuple] = {
+    n.SymbolDecl: (Bind("names", "symbol"),
+                   Use("relations", expr_kinds=("symbol",)), _relations_not_evaluated),
+    n.ConventionDecl: (Bind("name", "convention"),),
+    n.BundleDecl: (Bind("names", "bundle"),),
+    n.SplitDecl: (Use("bundle", ("bundle",)), Use("parts", ("bundle",)), _not_into_itself),
+    n.SurfaceFiber: (Use("genus"), Bind("name", "fiber"), Bind("tangent", "bundle")),
+    n.SphereFiber: (Use("bundle", ("bundle",)), Bind("name", "fiber"), Bind("angular", "class")),
+    n.GeneralFiber: (Bind("name", "fiber"), Bind("classes", "class"),
+                     Use("relations"), Use("integrals")),
+    n.FixedPointFiber: (Bind("name", "fiber"), Bind("parameters", "class"), Use("identified"),
+                        Use("points"), Bind("tangent", "bundle"), Bind("lines", "bundle"),
+                        Use("line_values")),
+    n.Let: (Use("expr"), Bind("name", "value")),
+    n.Substitute: (Use("target"), Use("pairs"), *_OUT),
+    n.Reduce: (Use("target"), Use("relations"), *_OUT),
+    n.Integrate: (Use("target"), Use("fiber", ("fiber",)), *_OUT),
+    n.Coefficients: (Use("target"), Use("monomials"), *_OUT),
+    n.Extremize: (Use("target"), Use("variables", ("symbol",), "declared symbol to vary"),
+                  Bind("point", "value"), Bind("value", "value")),
+    n.Check: (Use("lhs"), Use("rhs"), _FOR),
+    n.Show: (Use("exprs"),),
+    n.Table: (Use("exprs"), _FOR),
+    n.Plot: (Use("exprs"), _FOR, Use("variable", ("symbol",), "symbol to plot over")),
+}
+
+
+def references(statement) -> list[Ident]:
     """Every name a statement reads, in order: the inputs of its result."""
-    found = [name.id for name in _names_in(statement)]
-    if isinstance(statement, n.Integrate):
-        found.append(statement.fiber)
-    if isinstance(statement, n.Extremize):
-        found += [v.name for v in statement.variables]
-    if isinstance(statement, n.SplitDecl):
-        found += [statement.bundle] + [p.name for p in statement.parts if p.name]
-    if isinstance(statement, n.SphereFiber):
-        found.append(statement.bundle)
-    if isinstance(statement, n.Plot):
-        found.append(statement.variable)
-    found += [c.name for c in getattr(statement, "clauses", ())]
+    found = [name for entry in RULES[type(statement)] if isinstance(entry, Use)
+             for name, _ in _idents(statement, entry.field)]
     return list(dict.fromkeys(found))
 
 
-def bound_names(statement) -> list[str]:
+def bound_names(statement) -> list[Ident]:
     """Every name a statement binds (so a failed one can mark them missing)."""
-    if isinstance(statement, (n.SymbolDecl, n.BundleDecl)):
-        return list(statement.names)
-    if isinstance(statement, (n.ConventionDecl, n.Let)):
-        return [statement.name]
-    if isinstance(statement, n.SurfaceFiber):
-        return [statement.name, statement.tangent]
-    if isinstance(statement, n.SphereFiber):
-        return [statement.name, statement.angular]
-    if isinstance(statement, n.GeneralFiber):
-        return [statement.name] + [c.name for c in statement.classes]
-    return list(getattr(statement, "outputs", ()))
-
-
-def _use_all(table: NameTable, obj) -> None:
-    for name in _names_in(obj):
-        table.use(name.id, name.line, name.column)
-
-
-# One function per statement kind: what it uses, then what it binds.
-
-def _symbol(t: NameTable, s: n.SymbolDecl) -> None:
-    for name in s.names:
-        t.declare(name, "symbol", s.line, s.column)
-    for b in s.bounds:
-        if b.name not in s.names:
-            t.problem(b.line, b.column, f"the bound on '{b.name}' must belong to a symbol declared in this statement")
-
-
-def _convention(t: NameTable, s: n.ConventionDecl) -> None:
-    if s.name in t.restatable:
-        t.restatable.discard(s.name)  # a built-in or front-matter convention given its default here
-        return
-    t.declare(s.name, "convention", s.line, s.column)
-
-
-def _bundle(t: NameTable, s: n.BundleDecl) -> None:
-    for name in s.names:
-        t.declare(name, "bundle", s.line, s.column)
-
-
-def _split(t: NameTable, s: n.SplitDecl) -> None:
-    t.use(s.bundle, s.line, s.column, ("bundle",))
-    for part in s.parts:
-        if part.name is not None:
-            t.use(part.name, part.line, part.column, ("bundle",))
-            if part.name == s.bundle:
-                t.problem(part.line, part.column, f"'{s.bundle}' cannot be split into itself")
-
-
-def _surface(t: NameTable, s: n.SurfaceFiber) -> None:
-    _use_all(t, s.genus)
-    t.declare(s.name, "fiber", s.line, s.column)
-    t.declare(s.tangent, "bundle", s.line, s.column)
-
-
-def _sphere(t: NameTable, s: n.SphereFiber) -> None:
-    t.use(s.bundle, s.line, s.column, ("bundle",))
-    t.declare(s.name, "fiber", s.line, s.column)
-    t.declare(s.angular, "class", s.line, s.column)
-
-
-def _general(t: NameTable, s: n.GeneralFiber) -> None:
-    t.declare(s.name, "fiber", s.line, s.column)
-    for c in s.classes:
-        t.declare(c.name, "class", c.line, c.column)
-    _use_all(t, s.relations)
-    _use_all(t, s.integrals)
-
-
-def _let(t: NameTable, s: n.Let) -> None:
-    _use_all(t, s.expr)
-    t.declare(s.name, "value", s.line, s.column, rebind=s.rebind)
-
-
-def _operation(t: NameTable, s) -> None:
-    for field_name in ("target", "pairs", "relations", "monomials"):
-        if hasattr(s, field_name):
-            _use_all(t, getattr(s, field_name))
-    if isinstance(s, n.Integrate):
-        t.use(s.fiber, s.fiber_line, s.fiber_column, ("fiber",))
-    for out in s.outputs:
-        t.declare(out, "value", s.line, s.column)
-
-
-def _extremize(t: NameTable, s: n.Extremize) -> None:
-    _use_all(t, s.target)
-    for v in s.variables:
-        t.use(v.name, v.line, v.column, ("symbol",), role="declared symbol to vary")
-    for out in s.outputs:
-        t.declare(out, "value", s.line, s.column)
-
-
-def _clauses(t: NameTable, clauses) -> None:
-    for c in clauses:
-        t.use(c.name, c.line, c.column, ("symbol",), role="symbol to substitute")
-        if c.value is not None:
-            _use_all(t, c.value)
-
-
-def _check(t: NameTable, s: n.Check) -> None:
-    _use_all(t, (s.lhs, s.rhs))
-    _clauses(t, s.clauses)
-
-
-def _show(t: NameTable, s) -> None:
-    _use_all(t, s.exprs)
-    _clauses(t, getattr(s, "clauses", ()))
-
-
-def _plot(t: NameTable, s: n.Plot) -> None:
-    _show(t, s)
-    t.use(s.variable, s.line, s.column, ("symbol",), role="symbol to plot over")
-
-
-RULES = {
-    n.SymbolDecl: _symbol, n.ConventionDecl: _convention, n.BundleDecl: _bundle,
-    n.SplitDecl: _split, n.SurfaceFiber: _surface, n.SphereFiber: _sphere,
-    n.GeneralFiber: _general, n.Let: _let, n.Substitute: _operation,
-    n.Reduce: _operation, n.Integrate: _operation, n.Coefficients: _operation,
-    n.Extremize: _extremize, n.Check: _check, n.Show: _show, n.Table: _show,
-    n.Plot: _plot,
-}
+    return [name for entry in RULES[type(statement)] if isinstance(entry, Bind)
+            for name, _ in _idents(statement, entry.field)]
 
 
 def resolve(path: str, statements, front_conventions, prose_refs) -> dict[str, Declared]:
@@ -245,7 +202,8 @@ def resolve(path: str, statements, front_conventions, prose_refs) -> dict[str, D
         table.names[name] = Declared(name, "convention", line, column)
     table.restatable = set(table.names)
     for s in statements:
-        RULES[type(s)](table, s)
+        for rule in RULES[type(s)]:
+            rule(table, s)
     for name, line, column in prose_refs:
         found = table.names.get(name)
         if found is None:

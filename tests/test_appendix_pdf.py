@@ -17,7 +17,6 @@ from __future__ import annotations
 
 import json
 import re
-import shutil
 import subprocess
 import sys
 from dataclasses import dataclass
@@ -30,13 +29,11 @@ from compiler.engine import BuildOptions, build
 from compiler.markdown import make_markdown
 from compiler.render.json import to_record
 from compiler.render.tex import plot_files, to_tex
+from support import DOCUMENTS, ROOT, needs_tex, pdf_text, pdflatex
 
-pytestmark = pytest.mark.skipif(not (shutil.which("pdflatex") and shutil.which("pdftotext")),
-                                reason="pdflatex or pdftotext is not installed")
+pytestmark = needs_tex
 
-ROOT = Path(__file__).resolve().parent.parent
-DERIVATIONS = sorted((ROOT / "derivations").glob("*.md"))
-TEX_TIMEOUT = 120  # seconds per pdflatex run
+DERIVATIONS = DOCUMENTS
 
 
 @dataclass(frozen=True)
@@ -138,37 +135,6 @@ def headings(path: Path) -> list[str]:
                 if opening.type == "heading_open":
                     found.append(" ".join(c.content for c in inline.children or [] if c.type == "text"))
     return found
-
-
-def pdflatex(tex: Path) -> Path:
-    """Compile in the file's folder (rerun once if LaTeX asks); on failure
-    fail with LaTeX's error and the offending source line."""
-    for _ in range(2):
-        run = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", tex.name],
-                             cwd=tex.parent, capture_output=True, text=True, errors="replace",
-                             timeout=TEX_TIMEOUT)
-        log = tex.with_suffix(".log").read_text(encoding="utf-8", errors="replace")
-        if run.returncode != 0:
-            error = re.search(r"^!.*?(?=^\s*$|^Here is how much)", log, re.S | re.M)
-            where = re.search(r"^l\.(\d+)", log, re.M)
-            line = ""
-            if where:
-                number = int(where.group(1))
-                source = tex.read_text(encoding="utf-8").splitlines()
-                if number <= len(source):  # l.N counts in the file being read, maybe an \input one
-                    line = f"\n{tex.name}:{number}: {source[number - 1]}"
-            pytest.fail(f"pdflatex failed on {tex.name}:\n{error.group(0) if error else log[-2000:]}{line}")
-        if "Rerun to get" not in log:
-            break
-    pdf = tex.with_suffix(".pdf")
-    assert pdf.is_file() and pdf.stat().st_size > 0
-    return pdf
-
-
-def pdf_text(pdf: Path) -> str:
-    run = subprocess.run(["pdftotext", "-layout", pdf.name, "-"], cwd=pdf.parent,
-                         capture_output=True, text=True, check=True, timeout=TEX_TIMEOUT)
-    return run.stdout
 
 
 def anomark_build(path: Path, out: Path, formats: str, standalone: bool) -> None:

@@ -8,9 +8,9 @@ from fractions import Fraction
 
 import pytest
 
-from compiler.document import (Block, ConventionEntry, FrontMatter, ProsePart, Ref,
-                               read_document)
+from compiler.document import Block, ProsePart, Ref, read_document
 from compiler.errors import DocumentError
+from compiler.front_matter import ConventionEntry, FrontMatter
 from compiler.markdown import make_markdown
 
 

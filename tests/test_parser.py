@@ -10,7 +10,7 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from compiler.errors import DocumentError
-from compiler.statements import nodes as n
+from compiler.statements import nodes as n, words
 from compiler.statements.parser import parse_block
 
 
@@ -173,7 +173,8 @@ def test_backslash_before_blank_line_ends_the_statement():
 
 def test_indented_line_outside_fiber_body_is_an_error():
     assert problem("let a = 1\n  let b = 2") == (
-        2, 3, "unexpected indentation: only the body lines of a 'fiber F: dimension n' are indented")
+        2, 3, "unexpected indentation: only the body lines of a fiber ('dimension n', "
+              "'fixed points' or 'spindle') are indented")
 
 
 # ---------------------------------------------------------------- fibers
@@ -206,8 +207,8 @@ def test_blank_line_ends_fiber_body():
           class x: 2
 
           integral x = 1
-    """) == (4, 3, "unexpected indentation: only the body lines of a 'fiber F: dimension n' "
-                   "are indented")
+    """) == (4, 3, "unexpected indentation: only the body lines of a fiber ('dimension n', "
+                   "'fixed points' or 'spindle') are indented")
 
 
 def test_fiber_body_is_followed_by_statements():
@@ -247,8 +248,7 @@ def test_each_bad_body_line_is_reported():
 
 
 def test_class_at_top_level_explains_itself():
-    assert problem("class x: 2")[2] == ("'class' belongs in the indented body of a "
-                                        "'fiber F: dimension n'")
+    assert problem("class x: 2")[2] == "'class' belongs in the indented body of a fiber"
 
 
 # ---------------------------------------------------------------- statement forms
@@ -390,8 +390,8 @@ def test_every_statement_word_has_a_form():
         plot a over x in 0..1
     """
     kinds = [s.kind for s in parse(block)]
-    assert set(kinds) == n.STATEMENT_WORDS
-    assert len(kinds) == len(n.STATEMENT_WORDS)
+    assert set(kinds) == words.STATEMENT_WORDS
+    assert len(kinds) == len(words.STATEMENT_WORDS)
 
 
 # ---------------------------------------------------------------- errors
@@ -440,7 +440,10 @@ def test_every_statement_word_has_a_form():
     ("symbol x: y > 0", 1, 11, "a bound on 'y', which this statement does not declare"),
     ("symbol x: 0 < x > 1", 1, 17, "a chained bound runs one way, as in 0 < x < 1"),
     ("symbol x: x == 0", 1, 13, "a bound compares with <, <=, > or >=, found '=='"),
-    ("symbol x: x > y", 1, 15, "expected a rational number such as 2, -3 or 1/2, found 'y'"),
+    # (``x > y`` is a relation since symbols may be related; a nonlinear side is refused)
+    ("symbol x: x > y^2", 1, 16, "a relation between symbols is linear: rational multiples of "
+                                 "symbols, added (such as 3*Nc or Nc/2 + 1)"),
+    ("symbol x: x > 2*3", 1, 15, "expected a rational number such as 2, -3 or 1/2, found '2'"),
     ("symbol x: x > 1/0", 1, 16, "division by zero"),
     ("symbol x, x", 1, 11, "'x' appears twice"),
     ("bundle B: real", 1, 11, "a real bundle needs its rank, as in 'real, rank 4'"),
@@ -452,7 +455,8 @@ def test_every_statement_word_has_a_form():
     ("split B = L1 + trivial(0)", 1, 24, "the rank of trivial(k) must be positive, not 0"),
     ("split B = L1 + 3", 1, 16, "expected a bundle name or trivial(k), found '3'"),
     ("fiber F: torus", 1, 10, "unknown fiber kind 'torus' (allowed: 'surface, genus g, "
-                              "tangent T', 'sphere of B, angular e', 'dimension n')"),
+                              "tangent T', 'sphere of B, angular e', 'dimension n', 'fixed "
+                              "points, dimension n, rotation t', 'spindle a, b, rotation t')"),
     ("fiber S: surface, genus g", 1, 26, "expected ', tangent ...', found end of line"),
     ("fiber S: surface, genus g, genus h, tangent T", 1, 28, "'genus' given twice"),
     ("fiber S: sphere NW, angular e", 1, 17, "expected 'of', found 'NW'"),
@@ -547,7 +551,7 @@ def _parses_or_reports(text: str) -> None:
             assert p.location.path == "doc.md" and p.location.line >= 1
             assert p.location.column >= 1 and p.message
         return
-    assert all(s.kind in n.STATEMENT_WORDS for s in statements)
+    assert all(s.kind in words.STATEMENT_WORDS for s in statements)
 
 
 @settings(max_examples=400, deadline=None)

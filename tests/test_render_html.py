@@ -13,7 +13,7 @@ from compiler.render.html import to_html
 from compiler.render.mathml import to_mathml
 from compiler.render.printers import MathMLPrinter
 from compiler.results import CheckResult, Prose, Report, Step, ValueRecord
-from report_fixture import make_report
+from support import make_report
 
 
 def _html(report=None) -> str:

@@ -6,7 +6,7 @@ import json
 
 from compiler.render.json import to_json
 from compiler.results import STATUSES, CheckResult, PlotData, Report, Step, ValueRecord
-from report_fixture import I8_DISPLAY, I8_LATEX, I8_TEXT, a_star, make_report
+from support import I8_DISPLAY, I8_LATEX, I8_TEXT, a_star, make_report
 
 
 def _record(report=None) -> dict:
@@ -15,7 +15,8 @@ def _record(report=None) -> dict:
 
 def test_top_level_keys_in_spec_order():
     rec = _record()
-    assert list(rec) == ["tool", "document", "passed", "conventions", "steps", "values", "results", "counts"]
+    assert list(rec) == ["tool", "document", "passed", "conventions", "steps", "values", "cached_steps",
+                         "results", "counts"]
     assert rec["tool"] == {"name": "anomark", "version": "0.1.0"}
     assert rec["document"] == "derivations/twisted.md"
     assert rec["conventions"] == {"angular_integral": "2"}

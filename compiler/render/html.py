@@ -21,7 +21,8 @@ from compiler.render.notation import name_tree
 from compiler.render.printers import LatexPrinter, MathMLPrinter, lines
 
 _tex_width = LatexPrinter.measure
-from compiler.render.tex import TEMPLATES, degrees_text
+from compiler.render.templates import loader
+from compiler.render.tex import degrees_text
 from compiler.results import STATUSES, PlotData, Report, Step, ValueRecord
 
 GLYPHS = {"proven": "\u2713", "sampled": "\u2248", "failed": "\u2717", "error": "!"}
@@ -152,7 +153,7 @@ def _extremum(check, printer: LatexPrinter) -> Markup:
 
 def _environment(report: Report) -> jinja2.Environment:
     env = jinja2.Environment(
-        loader=jinja2.FileSystemLoader(TEMPLATES),
+        loader=loader(),
         autoescape=True,
         trim_blocks=True,
         lstrip_blocks=True,

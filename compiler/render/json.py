@@ -78,6 +78,7 @@ def to_record(report: Report) -> dict:
         "conventions": dict(report.conventions),
         "steps": [step_record(s) for s in report.steps],
         "values": {name: _value(v) for name, v in report.values.items()},
+        "cached_steps": report.cached_steps,
         # after the keys the format fixes: the headline values, and steps and checks counted apart
         "results": {name: _value(report.values[name]) for name in report.headline if name in report.values},
         "counts": {"steps": len(report.steps), "checks": report.check_count,

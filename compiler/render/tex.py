@@ -19,10 +19,9 @@ import jinja2
 from compiler.render.claims import claim_latex
 from compiler.render.notation import name_tree
 from compiler.render.printers import LatexPrinter, lines
+from compiler.render.templates import loader
 from compiler.render.texprose import WIDTH, code_lines, escape_code, escape_detail, escape_tex, prose_tex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
-
-TEMPLATES = Path(__file__).resolve().parents[2] / "templates"  # the repo's templates/
 
 STYLES = ("appendix", "audit")
 #: Statements that only declare: the appendix leaves them out.
@@ -174,7 +173,7 @@ def _verification(report: Report) -> str:
 def _environment() -> jinja2.Environment:
     """Jinja with delimiters that cannot clash with TeX braces; we escape ourselves."""
     return jinja2.Environment(
-        loader=jinja2.FileSystemLoader(TEMPLATES),
+        loader=loader(),
         block_start_string="((*", block_end_string="*))",
         variable_start_string="(((", variable_end_string=")))",
         comment_start_string="((=", comment_end_string="=))",

@@ -11,7 +11,7 @@ import re
 from dataclasses import dataclass, field
 from fractions import Fraction
 
-from compiler.statements.nodes import STATEMENT_WORDS
+from compiler.statements.words import STATEMENT_WORDS
 
 #: Longer operators first, so ``**`` is not read as two ``*``.
 OPERATORS = (

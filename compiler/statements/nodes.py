@@ -2,16 +2,18 @@
 
 Every node is a small frozen dataclass that remembers where it came from
 (1-based ``line`` and ``column`` in the Markdown file), so every later stage
-can point at the exact spot.  Numbers are kept as ``fractions.Fraction``;
+can point at the exact spot; every identifier is an ``Ident`` (a positioned
+``str``, see ``tree``), so passes find names generically.  Numbers are kept as ``fractions.Fraction``;
 turning the tree into algebra is the expression evaluator's job, and this
 package never imports sympy.
 """
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Optional, Union
+
+from compiler.statements.tree import Ident
 
 
 # ---------------------------------------------------------------- expressions
@@ -30,7 +32,7 @@ class Num:
 class Name:
     """An author's identifier: a symbol, bundle, fiber class or bound value."""
 
-    id: str
+    id: Ident
     line: int
     column: int
 
@@ -88,9 +90,9 @@ class Equation:
 
 @dataclass(frozen=True)
 class Bound:
-    """``g >= 2``: symbol, comparison operator, rational literal."""
+    """``g >= 2``: a symbol of its statement, operator, rational literal."""
 
-    name: str
+    name: Ident
     op: str  # one of < <= > >=, always with the symbol on the left
     value: Fraction
     line: int
@@ -116,7 +118,7 @@ class ForClause:
     as integers.
     """
 
-    name: str
+    name: Ident
     value: Optional[Expr]
     range: Optional[tuple[int, int]]
     line: int
@@ -127,7 +129,7 @@ class ForClause:
 class Variable:
     """An extremization variable, optionally restricted: ``eps in (-1, 1)``."""
 
-    name: str
+    name: Ident
     interval: Optional[Interval]
     line: int
     column: int
@@ -137,7 +139,7 @@ class Variable:
 class SplitPart:
     """A summand of ``split``: a declared bundle name, or ``trivial(k)``."""
 
-    name: Optional[str]
+    name: Optional[Ident]
     trivial: Optional[int]
     line: int
     column: int
@@ -147,173 +149,200 @@ class SplitPart:
 class FiberClass:
     """``class x: 2`` in a general fiber body."""
 
-    name: str
+    name: Ident
     degree: int
     line: int
     column: int
 
 
-# ---------------------------------------------------------------- statements
-#
-# Every statement has ``line``/``column`` (where its first token is),
-# ``end_line`` (the last physical line it spans) and ``source`` (its joined
-# text, comments removed) so the report can quote it.
+@dataclass(frozen=True)
+class FixedPointDecl:
+    """``point p: weights w1, w2, order d`` (order None: 1).  The label is
+    plain text, not an ``Ident``: it is not a name of the document."""
+
+    label: str
+    weights: tuple[Expr, ...]
+    order: Optional[Expr]
+    line: int
+    column: int
 
 
 @dataclass(frozen=True)
-class SymbolDecl:
-    names: tuple[str, ...]
-    assumptions: tuple[str, ...]  # integer, positive, nonnegative, real, nonzero
-    bounds: tuple[Bound, ...]
+class PointValue:
+    """``north = -t/3`` in a fixed-point fiber's ``line``: a restriction."""
+
+    label: str
+    value: Expr
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class Relation:
+    """``Nf > Nc``, ``q < p``, ``Nf < 3*Nc`` in a ``symbol`` declaration.
+
+    Each side is a linear expression with rational coefficients in symbols
+    (those of this statement or declared earlier); at least one side names a
+    symbol of this statement.  ``op`` is one of < <= > >=, as written:
+    ``lhs op rhs``.  A chain ``Nc < Nf < 3*Nc`` gives two relations (each at
+    the position of its left side).  A comparison of a symbol of this
+    statement with a rational literal stays a ``Bound``.
+    """
+
+    lhs: Expr
+    op: str
+    rhs: Expr
+    line: int
+    column: int
+
+
+# ---------------------------------------------------------------- statements
+
+
+@dataclass(frozen=True, kw_only=True)
+class _Statement:
+    """Where a statement stands: ``line``/``column`` of its first token,
+    ``end_line`` the last physical line it spans and ``source`` its joined
+    text without comments, so the report can quote it."""
+
     line: int
     column: int
     end_line: int
     source: str
+
+
+@dataclass(frozen=True)
+class SymbolDecl(_Statement):
+    names: tuple[Ident, ...]
+    assumptions: tuple[str, ...]  # integer, positive, nonnegative, real, nonzero
+    bounds: tuple[Bound, ...]
+    relations: tuple[Relation, ...] = ()
     kind = "symbol"
 
 
 @dataclass(frozen=True)
-class ConventionDecl:
-    name: str
+class ConventionDecl(_Statement):
+    name: Ident
     value: Fraction
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "convention"
 
 
 @dataclass(frozen=True)
-class BundleDecl:
-    names: tuple[str, ...]
+class BundleDecl(_Statement):
+    names: tuple[Ident, ...]
     bundle_kind: str  # "real", "complex" or "line"
     rank: Optional[int]  # None for line bundles
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "bundle"
 
 
 @dataclass(frozen=True)
-class SplitDecl:
-    bundle: str
+class SplitDecl(_Statement):
+    bundle: Ident
     parts: tuple[SplitPart, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "split"
 
 
 @dataclass(frozen=True)
-class SurfaceFiber:
+class SurfaceFiber(_Statement):
     """``fiber Sigma: surface, genus g, tangent TS``; genus is a name or int."""
 
-    name: str
+    name: Ident
     genus: Expr
-    tangent: str
-    line: int
-    column: int
-    end_line: int
-    source: str
+    tangent: Ident
     kind = "fiber"
 
 
 @dataclass(frozen=True)
-class SphereFiber:
+class SphereFiber(_Statement):
     """``fiber S4: sphere of NW, angular e4``."""
 
-    name: str
-    bundle: str
-    angular: str
-    line: int
-    column: int
-    end_line: int
-    source: str
+    name: Ident
+    bundle: Ident
+    angular: Ident
     kind = "fiber"
 
 
 @dataclass(frozen=True)
-class GeneralFiber:
+class GeneralFiber(_Statement):
     """``fiber F: dimension 2`` with an indented body of class/relation/integral."""
 
-    name: str
+    name: Ident
     dimension: int
     classes: tuple[FiberClass, ...]
     relations: tuple[Equation, ...]
     integrals: tuple[Equation, ...]  # lhs a monomial, rhs its integral
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "fiber"
 
 
 @dataclass(frozen=True)
-class Let:
-    name: str
+class FixedPointFiber(_Statement):
+    """``fiber D: fixed points, dimension 2, rotation t = v, tangent TD`` with a body
+    of ``point`` and ``line``, or ``fiber D: spindle a, b, ...``.  ``identified[i]``
+    is what parameter i stands for (None: formal); ``line_values[i]`` restrict
+    ``lines[i]`` to the points."""
+
+    name: Ident
+    dimension: int
+    parameters: tuple[Ident, ...]
+    identified: tuple[Optional[Expr], ...]
+    tangent: Optional[Ident]
+    points: tuple[FixedPointDecl, ...]
+    lines: tuple[Ident, ...]
+    line_values: tuple[tuple[PointValue, ...], ...]
+    kind = "fiber"
+
+
+@dataclass(frozen=True)
+class Let(_Statement):
+    name: Ident
     expr: Expr
     rebind: bool
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "let"
 
 
 @dataclass(frozen=True)
-class Substitute:
+class Substitute(_Statement):
     target: Expr
     pairs: tuple[Equation, ...]
-    outputs: tuple[str, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
+    outputs: tuple[Ident, ...]
     kind = "substitute"
 
 
 @dataclass(frozen=True)
-class Reduce:
+class Reduce(_Statement):
     target: Expr
     relations: tuple[Equation, ...]
-    outputs: tuple[str, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
+    outputs: tuple[Ident, ...]
     kind = "reduce"
 
 
 @dataclass(frozen=True)
-class Integrate:
+class Integrate(_Statement):
     target: Expr
-    fiber: str
-    fiber_line: int
-    fiber_column: int
-    outputs: tuple[str, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
+    fiber: Ident
+    outputs: tuple[Ident, ...]
     kind = "integrate"
+
+    # The engine still reads these two; it can use ``fiber.line`` instead.
+    @property
+    def fiber_line(self) -> int:
+        return self.fiber.line
+
+    @property
+    def fiber_column(self) -> int:
+        return self.fiber.column
 
 
 @dataclass(frozen=True)
-class Coefficients:
+class Coefficients(_Statement):
     target: Expr
     monomials: tuple[Expr, ...]
-    outputs: tuple[str, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
+    outputs: tuple[Ident, ...]
     kind = "coefficients"
 
 
 @dataclass(frozen=True)
-class Extremize:
+class Extremize(_Statement):
     """``maximize``/``minimize``/``extremize``.
 
     ``point`` names the critical point's coordinates (one per variable, in
@@ -324,91 +353,51 @@ class Extremize:
     mode: str  # "maximize", "minimize" or "extremize"
     target: Expr
     variables: tuple[Variable, ...]
-    point: tuple[str, ...]
-    value: str
-    line: int
-    column: int
-    end_line: int
-    source: str
+    point: tuple[Ident, ...]
+    value: Ident
 
     @property
     def kind(self) -> str:
         return self.mode
 
     @property
-    def outputs(self) -> tuple[str, ...]:
+    def outputs(self) -> tuple[Ident, ...]:
         return self.point + (self.value,)
 
 
 @dataclass(frozen=True)
-class Check:
+class Check(_Statement):
     lhs: Expr
     op: str  # == != < <= > >=
     rhs: Expr
     clauses: tuple[ForClause, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "check"
 
 
 @dataclass(frozen=True)
-class Show:
+class Show(_Statement):
     exprs: tuple[Expr, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "show"
 
 
 @dataclass(frozen=True)
-class Table:
+class Table(_Statement):
     exprs: tuple[Expr, ...]
     clauses: tuple[ForClause, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "table"
 
 
 @dataclass(frozen=True)
-class Plot:
+class Plot(_Statement):
     exprs: tuple[Expr, ...]
-    variable: str
+    variable: Ident
     interval: Interval
     clauses: tuple[ForClause, ...]
-    line: int
-    column: int
-    end_line: int
-    source: str
     kind = "plot"
 
 
 Statement = Union[
     SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
-    SphereFiber, GeneralFiber, Let, Substitute, Reduce, Integrate,
+    SphereFiber, GeneralFiber, FixedPointFiber, Let, Substitute, Reduce, Integrate,
     Coefficients, Extremize, Check, Show, Table, Plot,
 ]
-
-#: Words that begin a statement; they cannot be used as names.
-STATEMENT_WORDS = frozenset({
-    "symbol", "convention", "bundle", "split", "fiber", "let", "substitute",
-    "reduce", "integrate", "coefficients", "maximize", "minimize",
-    "extremize", "check", "show", "table", "plot",
-})
-
-#: Built-in functions; a name is a function only in call position.
-BUILTIN_FUNCTIONS = frozenset({
-    "p", "c", "e", "Ahat", "L", "td", "ch", "S", "dual", "wedge", "sym",
-    "part", "degree", "sqrt", "trivial",
-})
-
-_INDEXED_CLASS = re.compile(r"[pc][1-9][0-9]*")
-
-
-def is_builtin_function(name: str) -> bool:
-    """True for ``p``, ``ch``, ... and the indexed classes ``p1``, ``c12``."""
-    return name in BUILTIN_FUNCTIONS or _INDEXED_CLASS.fullmatch(name) is not None

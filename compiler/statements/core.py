@@ -1,0 +1,305 @@
+"""The token cursor every parsing rule reads from, and the Pratt expression parser.
+
+A ``Cursor`` walks the tokens of one logical line; rule functions (the
+statement table in ``rules``, the fiber tables in ``fibers``) take it and
+return nodes.  A rule that meets something wrong calls ``fail``, which
+raises a ``DocumentError`` at the offending token: one problem per statement.
+"""
+from __future__ import annotations
+
+import difflib
+from fractions import Fraction
+from typing import NoReturn, Optional
+
+from compiler.errors import DocumentError, Location
+from compiler.statements import nodes as n, words
+from compiler.statements.lexer import LogicalLine, Token
+from compiler.statements.tree import Ident
+
+MAX_EXPONENT = 1000
+#: Deep enough for any formula, shallow enough never to hit Python's stack.
+MAX_NESTING = 60
+
+#: Binding powers: ``^`` above unary minus above ``* /`` above ``+ -``.
+_INFIX = {"+": 10, "-": 10, "*": 20, "/": 20, "^": 40, "**": 40}
+_UNARY = 30
+
+_TWO_ARGUMENTS = frozenset({"wedge", "sym", "part"})
+
+
+def arity(func: str) -> int:
+    return 2 if func in _TWO_ARGUMENTS else 1
+
+
+def did_you_mean(word: str, choices) -> str:
+    close = difflib.get_close_matches(word, sorted(choices), n=1)
+    return f"; did you mean '{close[0]}'?" if close else ""
+
+
+class Cursor:
+    """The tokens of one logical line and the position reached in them."""
+
+    def __init__(self, logical: LogicalLine, path: str):
+        self.tokens = logical.tokens
+        self.path = path
+        self.pos = 0
+        self.depth = 0
+        last = self.tokens[-1]
+        self.end = Token("end", "", last.line, last.end_column, last.end_column)
+        first = self.tokens[0]
+        #: The position fields every statement node carries.
+        self.span = dict(line=first.line, column=first.column,
+                         end_line=logical.end_line, source=logical.source)
+
+    def fail(self, at, message: str) -> NoReturn:
+        """Stop this statement with a problem at ``at``: a token, an
+        ``Ident`` or a node (anything with ``line`` and ``column``)."""
+        raise DocumentError(Location(self.path, at.line, at.column), message)
+
+    def peek(self, offset: int = 0) -> Token:
+        index = self.pos + offset
+        return self.tokens[index] if index < len(self.tokens) else self.end
+
+    def next(self) -> Token:
+        token = self.peek()
+        self.pos += 1
+        return token
+
+    def at(self, text: str) -> bool:
+        token = self.peek()
+        return token.kind == "op" and token.text == text
+
+    def at_word(self, word: str) -> bool:
+        token = self.peek()
+        return token.kind == "name" and token.text == word
+
+    def accept(self, text: str) -> bool:
+        if self.at(text):
+            self.pos += 1
+            return True
+        return False
+
+    @staticmethod
+    def describe(token: Token) -> str:
+        return "end of line" if token.kind == "end" else f"'{token.text}'"
+
+    def expected(self, what: str) -> NoReturn:
+        token = self.peek()
+        self.fail(token, f"expected {what}, found {self.describe(token)}")
+
+    def expect(self, text: str) -> Token:
+        if not self.at(text):
+            self.expected(f"'{text}'")
+        return self.next()
+
+    def expect_word(self, word: str) -> Token:
+        if not self.at_word(word):
+            self.expected(f"'{word}'")
+        return self.next()
+
+    def expect_end(self) -> None:
+        token = self.peek()
+        if token.kind == "end":
+            return
+        previous = self.tokens[self.pos - 1] if self.pos else None
+        hint = ""
+        if previous is not None and _ends_operand(previous) and _starts_operand(token):
+            hint = " (there is no implicit multiplication; write '*')"
+        self.fail(token, f"unexpected {self.describe(token)}{hint}")
+
+    def lexing_problems(self) -> None:
+        """The first bad character or literal of the line, if any."""
+        for token in self.tokens:
+            if token.kind == "error":
+                self.fail(token, token.text)
+
+    # ------------------------------------------------------------ names and numbers
+
+    def name(self, what: str = "a name") -> Ident:
+        token = self.peek()
+        if token.kind != "name":
+            self.expected(what)
+        if token.text in words.STATEMENT_WORDS:
+            self.fail(token, f"'{token.text}' is a statement word and cannot be a name")
+        self.next()
+        return Ident(token.text, token.line, token.column)
+
+    def name_list(self, what: str) -> list[Ident]:
+        names = [self.name(what)]
+        while self.accept(","):
+            names.append(self.name(what))
+        self.no_duplicates(names)
+        return names
+
+    def no_duplicates(self, names: list[Ident]) -> None:
+        seen = set()
+        for name in names:
+            if name in seen:
+                self.fail(name, f"'{name}' appears twice")
+            seen.add(name)
+
+    def outputs(self, count: Optional[int] = None, what: str = "") -> tuple[Ident, ...]:
+        arrow = self.expect("->")
+        names = self.name_list("an output name")
+        if count is not None and len(names) != count:
+            self.fail(arrow, f"{what} needs {count} output name{'s' if count != 1 else ''}, "
+                             f"found {len(names)}")
+        return tuple(names)
+
+    def sign(self) -> int:
+        if self.accept("-"):
+            return -1
+        self.accept("+")
+        return 1
+
+    def integer(self, what: str) -> int:
+        sign = self.sign()
+        if self.peek().kind != "int":
+            self.expected(what)
+        return sign * self.next().value
+
+    def positive_integer(self, what: str, limit: Optional[int] = None) -> int:
+        """A positive integer literal; with ``limit``, at most that (the
+        digits are checked before any work depends on the value)."""
+        token = self.peek()
+        value = self.integer(what)
+        if value <= 0:
+            self.fail(token, f"{what} must be positive, not {value}")
+        if limit is not None and value > limit:
+            self.fail(token, f"{what} is at most {limit}, not {value}")
+        return value
+
+    def rational(self, what: str = "a rational number such as 2, -3 or 1/2") -> Fraction:
+        sign = self.sign()
+        if self.peek().kind != "int":
+            self.expected(what)
+        numerator = self.next().value
+        denominator = 1
+        if self.at("/"):
+            slash = self.next()
+            if self.peek().kind != "int":
+                self.expected(what)
+            denominator = self.next().value
+            if denominator == 0:
+                self.fail(slash, "division by zero")
+        return sign * Fraction(numerator, denominator)
+
+
+# ---------------------------------------------------------------- expressions
+
+
+def expr(c: Cursor, rbp: int = 0) -> n.Expr:
+    """Pratt loop: operators bind while their power exceeds ``rbp``."""
+    c.depth += 1
+    if c.depth > MAX_NESTING:
+        c.fail(c.peek(), f"expression nested more than {MAX_NESTING} deep")
+    left = _prefix(c)
+    while True:
+        token = c.peek()
+        power = _INFIX.get(token.text) if token.kind == "op" else None
+        if power is None or power <= rbp:
+            break
+        c.next()
+        if power == _INFIX["^"]:
+            left = n.Binary("^", left, _exponent(c), token.line, token.column)
+            if c.at("^") or c.at("**"):
+                c.fail(c.peek(), "an exponent must be an integer literal; "
+                                 "use parentheses, as in (x^2)^3")
+        else:
+            left = n.Binary(token.text, left, expr(c, power), token.line, token.column)
+    c.depth -= 1
+    return left
+
+
+def _prefix(c: Cursor) -> n.Expr:
+    token = c.peek()
+    if token.kind == "int":
+        c.next()
+        return n.Num(Fraction(token.value), token.line, token.column)
+    if token.kind == "name":
+        return _name_or_call(c)
+    if c.accept("("):
+        inner = expr(c)
+        c.expect(")")
+        return inner
+    if c.at("-") or c.at("+"):
+        c.next()
+        return n.Unary(token.text, expr(c, _UNARY), token.line, token.column)
+    if c.at("["):
+        c.fail(token, "square brackets are not used in expressions; use parentheses")
+    c.expected("an expression")
+
+
+def _name_or_call(c: Cursor) -> n.Expr:
+    token = c.peek()
+    name = c.name()
+    if not c.at("("):
+        return n.Name(name, name.line, name.column)
+    if not words.is_builtin_function(name):
+        c.fail(token, f"'{name}' is not a built-in function"
+               + did_you_mean(name, words.BUILTIN_FUNCTIONS))
+    c.next()
+    args = [expr(c)]
+    while c.accept(","):
+        args.append(expr(c))
+    c.expect(")")
+    wanted = arity(name)
+    if len(args) != wanted:
+        c.fail(token, f"{name}() takes {wanted} argument"
+                      f"{'s' if wanted != 1 else ''}, found {len(args)}")
+    return n.Call(str(name), tuple(args), token.line, token.column)
+
+
+def _exponent(c: Cursor) -> n.Num:
+    """An integer literal, optionally signed or in parentheses: ``x^-1``."""
+    start = c.peek()
+    depth = 0
+    while c.accept("("):
+        depth += 1
+        if depth > MAX_NESTING:
+            c.fail(start, f"expression nested more than {MAX_NESTING} deep")
+    sign = c.sign()
+    if c.peek().kind != "int" or any(
+            not (c.peek(1 + i).kind == "op" and c.peek(1 + i).text == ")")
+            for i in range(depth)):
+        c.fail(start, "an exponent must be an integer literal such as 2 or -1"
+                      " (use sqrt(x) for a square root)")
+    value = sign * c.next().value
+    c.pos += depth
+    if abs(value) > MAX_EXPONENT:
+        c.fail(start, f"exponent {value} is too large (at most {MAX_EXPONENT} in size)")
+    return n.Num(Fraction(value), start.line, start.column)
+
+
+def equation(c: Cursor, bare: bool) -> n.Equation:
+    """``lhs = rhs``; with ``bare``, a lone expression (it vanishes)."""
+    start = c.peek()
+    lhs = expr(c)
+    if c.at("="):
+        c.next()
+        return n.Equation(lhs, expr(c), start.line, start.column)
+    if not bare:
+        c.expected("'='")
+    return n.Equation(lhs, None, start.line, start.column)
+
+
+def equations(c: Cursor, bare: bool) -> tuple[n.Equation, ...]:
+    items = [equation(c, bare)]
+    while c.accept(","):
+        items.append(equation(c, bare))
+    return tuple(items)
+
+
+def expr_list(c: Cursor) -> tuple[n.Expr, ...]:
+    items = [expr(c)]
+    while c.accept(","):
+        items.append(expr(c))
+    return tuple(items)
+
+
+def _ends_operand(token: Token) -> bool:
+    return token.kind in ("name", "int") or (token.kind == "op" and token.text in (")", "]"))
+
+
+def _starts_operand(token: Token) -> bool:
+    return token.kind in ("name", "int") or (token.kind == "op" and token.text == "(")
