@@ -231,7 +231,7 @@ class ConventionDecl(_Statement):
 class BundleDecl(_Statement):
     names: tuple[Ident, ...]
     bundle_kind: str  # "real", "complex" or "line"
-    rank: Optional[int]  # None for line bundles
+    rank: Union[int, Ident, None]  # None for line bundles; an Ident: a declared integer symbol
     kind = "bundle"
 
 

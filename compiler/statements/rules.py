@@ -7,12 +7,13 @@ is adding a rule here (and its node, and its entry in ``names.RULES``).
 from __future__ import annotations
 
 from fractions import Fraction
-from typing import Optional
+from typing import Optional, Union
 
 from compiler.statements import nodes as n
 from compiler.statements.core import Cursor, did_you_mean, equations, expr, expr_list
 from compiler.statements.fibers import fiber_rule
 from compiler.statements.lexer import Token
+from compiler.statements.tree import Ident
 from compiler.statements.symbols import symbol_rule
 
 CHECK_OPS = ("==", "!=", "<", "<=", ">", ">=")
@@ -32,7 +33,7 @@ def _bundle(c: Cursor) -> n.BundleDecl:
     names = c.name_list("a bundle name")
     c.expect(":")
     kind: Optional[Token] = None
-    rank: Optional[int] = None
+    rank: Union[int, Ident, None] = None
     rank_token: Optional[Token] = None
     while True:
         token = c.peek()
@@ -40,7 +41,8 @@ def _bundle(c: Cursor) -> n.BundleDecl:
             if rank_token is not None:
                 c.fail(token, "'rank' given twice")
             rank_token = c.next()
-            rank = c.positive_integer("the rank", MAX_RANK)
+            rank = (c.name("the rank symbol") if c.peek().kind == "name"
+                    else c.positive_integer("the rank", MAX_RANK))
         elif token.kind == "name" and token.text in BUNDLE_KINDS:
             if kind is not None:
                 c.fail(token, "the bundle kind is given twice")

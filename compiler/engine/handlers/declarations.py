@@ -32,11 +32,28 @@ def _convention(scope, s: n.ConventionDecl, step: Step) -> None:
 
 
 def _bundle(scope, s: n.BundleDecl, step: Step) -> None:
+    if isinstance(s.rank, str):
+        return _symbolic_bundle(scope, s, step)
     for name in s.names:
         scope.bundles.declare(name, s.bundle_kind, s.rank)
         scope.bind(name, "bundle", name, s.line)
     rank = f"rank {s.rank}" if s.rank is not None else "rank 1"
     step.summary = f"{', '.join(s.names)}: {s.bundle_kind} bundle{'s' if len(s.names) > 1 else ''}, {rank}"
+
+
+def _symbolic_bundle(scope, s: n.BundleDecl, step: Step) -> None:
+    """``bundle V: complex, rank N``: the rank symbol must be a nonnegative integer."""
+    spec = scope.symbols_by_name[s.rank]
+    nonnegative = spec.lower is not None and (spec.lower >= 0 or spec.lower_strict and spec.lower > -1)
+    if not (spec.integer and nonnegative):
+        raise scope.fail(s, f"the rank {s.rank} must be a symbol declared integer and "
+                            f"nonnegative, as in 'symbol {s.rank}: integer, positive'")
+    for name in s.names:
+        scope.bundles.declare_symbolic(name, s.bundle_kind, spec.symbol)
+        scope.bind(name, "bundle", name, s.line)
+    plural = "s" if len(s.names) > 1 else ""
+    step.summary = (f"{', '.join(s.names)}: {s.bundle_kind} bundle{plural}, rank {s.rank}; "
+                    "classes from the Chern character ch_k")
 
 
 def _split(scope, s: n.SplitDecl, step: Step) -> None:
