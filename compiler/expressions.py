@@ -145,8 +145,9 @@ class Evaluator:
     def _eval_Call(self, node: n.Call) -> Value:
         rule = FUNCTIONS.get(node.func)
         if rule is None:
-            if node.func[0] in "pc" and node.func[1:].isdigit():
-                return CLASS_RULES[node.func[0]](self, node, int(node.func[1:]))
+            prefix = node.func.rstrip("0123456789")
+            if prefix in CLASS_RULES and prefix != node.func:
+                return CLASS_RULES[prefix](self, node, int(node.func[len(prefix):]))
             raise self.fail(node, f"'{node.func}' cannot be called here")
         return rule(self, node)
 
@@ -202,7 +203,13 @@ def _chern(ev: Evaluator, node: n.Call, i: int) -> Value:
     return ev.scope.bundles.chern(ev.bundle_arg(node), i)
 
 
-CLASS_RULES = {"p": _pontryagin, "c": _chern}
+def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
+    """ch_k(X) = part(ch(X), 2k): a generator for a bundle of symbolic rank."""
+    ev.arity(node, 1)
+    return ev.construction(node.args[0]).ch.part(2 * k)
+
+
+CLASS_RULES = {"p": _pontryagin, "c": _chern, "ch": _ch_component}
 
 
 def _euler(ev, node):

@@ -21,9 +21,9 @@ BUILTIN_FUNCTIONS = frozenset({
     "part", "degree", "sqrt", "trivial",
 })
 
-_INDEXED_CLASS = re.compile(r"[pc][1-9][0-9]*")
+_INDEXED_CLASS = re.compile(r"(?:[pc]|ch)[1-9][0-9]*")
 
 
 def is_builtin_function(name: str) -> bool:
-    """True for ``p``, ``ch``, ... and the indexed classes ``p1``, ``c12``."""
+    """True for ``p``, ``ch``, ... and the indexed classes ``p1``, ``c12``, ``ch3``."""
     return name in BUILTIN_FUNCTIONS or _INDEXED_CLASS.fullmatch(name) is not None

@@ -46,7 +46,7 @@ def _symbolic_bundle(scope, s: n.BundleDecl, step: Step) -> None:
     spec = scope.symbols_by_name[s.rank]
     nonnegative = spec.lower is not None and (spec.lower >= 0 or spec.lower_strict and spec.lower > -1)
     if not (spec.integer and nonnegative):
-        raise scope.fail(s, f"the rank {s.rank} must be a symbol declared integer and "
+        raise scope.fail(s.rank, f"the rank {s.rank} must be a symbol declared integer and "
                             f"nonnegative, as in 'symbol {s.rank}: integer, positive'")
     for name in s.names:
         scope.bundles.declare_symbolic(name, s.bundle_kind, spec.symbol)
