@@ -190,7 +190,7 @@ class BundleTable:
         """Rank in the bundle's own kind (complex rank for complex bundles)."""
         b = self.get(name)
         if b.symbolic is not None:
-            raise symbolic_rank.refuse(b.symbolic, f"{name} here")
+            raise symbolic_rank.refuse(b.symbolic, "this step")
         return b.rank
 
     def real_rank(self, name: str) -> int:
