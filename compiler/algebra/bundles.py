@@ -87,7 +87,7 @@ class BundleTable:
             raise AlgebraError(f"bundle {name} is already declared")
         if kind not in (REAL, COMPLEX):
             raise AlgebraError(f"a bundle of symbolic rank is real or complex, not {kind}")
-        b = Bundle(name, kind, 0, group, symbolic=symbolic_rank.SymbolicRank(name, kind, symbol))
+        b = Bundle(name, kind, 0, group, symbolic=symbolic_rank.SymbolicRank(name, kind == REAL, symbol))
         self._bundles[name] = b
         b.keys = tuple(symbolic_rank.register(self.ring, b.symbolic, name_latex(name), group))
         return b
@@ -223,7 +223,7 @@ class BundleTable:
         b = self.get(name)
         ring = self.ring
         if b.symbolic is not None:
-            return symbolic_rank.total_pontryagin(self.character(name), b.kind)
+            return symbolic_rank.total_pontryagin(self.character(name), b.kind == REAL)
         if b.kind == COMPLEX:
             c = self.total_chern(name)
             cbar = self._conjugate(c)
@@ -314,7 +314,7 @@ class BundleTable:
 
     def chern_classes(self, name: str) -> list[Element]:
         total = self.total_chern(name)
-        return [total.part(2 * k) for k in range(1, self.get(name).rank + 1)]
+        return [total.part(2 * k) for k in range(1, self.rank(name) + 1)]
 
     @staticmethod
     def _conjugate(x: Element) -> Element:

@@ -156,7 +156,7 @@ def _genus_of(table: BundleTable, series: str, name: str, squares: bool) -> Elem
     """The genus of a declared bundle: through its classes, or through its ch
     components when its rank is symbolic (Q(0) = 1 for every series here)."""
     if table.is_symbolic(name):
-        sums = symbolic_rank.power_sums(table.character(name), table.kind(name), squares)
+        sums = symbolic_rank.power_sums(table.character(name), table.kind(name) != COMPLEX, squares)
         return symbolic_rank.multiplicative(log_coefficients(series, len(sums))[1], sums)
     if squares:
         return _genus(table, series, table.pontryagin_classes(name), 4)

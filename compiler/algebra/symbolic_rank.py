@@ -30,21 +30,15 @@ from math import factorial
 from .errors import AlgebraError
 from .graded import Element, Ring
 
-REAL, COMPLEX = "real", "complex"
-
 
 @dataclass(frozen=True)
 class SymbolicRank:
-    """How a bundle of symbolic rank sits in the ring: its kind and rank symbol."""
+    """How a bundle of symbolic rank sits in the ring: its name, whether it
+    is real (rank N real) or complex (rank N complex), and the symbol N."""
 
     name: str
-    kind: str      # REAL (rank N real) or COMPLEX (rank N complex)
+    real: bool
     symbol: object  # the declared sympy Symbol N
-
-
-def step(kind: str) -> int:
-    """Degree step of the ch generators: 2 for complex, 4 for real (odd ch vanish)."""
-    return 2 if kind == COMPLEX else 4
 
 
 def key(name: str, k: int) -> str:
@@ -52,15 +46,14 @@ def key(name: str, k: int) -> str:
 
 
 def register(ring: Ring, b: SymbolicRank, latex_name: str, group: int = 0) -> list[str]:
-    """Register the generators ch_k(V) up to the truncation; return their keys."""
+    """Register the generators ch_k(V) up to the truncation (only even k for a
+    real V, whose complexification has no odd ch); return their keys."""
     keys = []
-    index = 1 if b.kind == COMPLEX else 2
-    while index * 2 <= ring.truncate:
+    for index in range(2 if b.real else 1, ring.truncate // 2 + 1, 2 if b.real else 1):
         k = key(b.name, index)
         ring.generator(k, 2 * index, text=k, latex=rf"\mathrm{{ch}}_{{{index}}}({latex_name})",
                        group=group)
         keys.append(k)
-        index += 1 if b.kind == COMPLEX else 2
     return keys
 
 
@@ -72,7 +65,7 @@ def character(ring: Ring, b: SymbolicRank, keys) -> Element:
     return total
 
 
-def power_sums(ch: Element, kind: str, squares: bool) -> list[Element]:
+def power_sums(ch: Element, real: bool, squares: bool) -> list[Element]:
     """[_, P_1, P_2, ...] from a Chern character.
 
     For the Chern roots x_i of a complex bundle, P_k = sum x_i^k = k! ch_k;
@@ -81,7 +74,7 @@ def power_sums(ch: Element, kind: str, squares: bool) -> list[Element]:
     complexification of a real one (whose roots come in pairs +-x_i).
     """
     ring = ch.ring
-    scale = Fraction(1, 2) if kind == REAL else Fraction(1)
+    scale = Fraction(1, 2) if real else Fraction(1)
     width = 4 if squares else 2
     out = [ring.zero()]
     for k in range(1, ring.truncate // width + 1):
@@ -119,14 +112,14 @@ def _log_one_plus(n: int) -> list[Fraction]:
 
 def total_chern(ch: Element) -> Element:
     """c = prod (1 + x_i) from ch of a complex bundle (Newton's identities)."""
-    sums = power_sums(ch, COMPLEX, squares=False)
+    sums = power_sums(ch, real=False, squares=False)
     return multiplicative(_log_one_plus(len(sums)), sums)
 
 
-def total_pontryagin(ch: Element, kind: str) -> Element:
+def total_pontryagin(ch: Element, real: bool) -> Element:
     """p = prod (1 + x_i^2), with x_i the Chern roots (complex) or the
     Pontryagin roots (real, ch of the complexification)."""
-    sums = power_sums(ch, kind, squares=True)
+    sums = power_sums(ch, real, squares=True)
     return multiplicative(_log_one_plus(len(sums)), sums)
 
 
