@@ -28,6 +28,7 @@ def pair(n: int, kind: str, truncate: int = TRUNCATE) -> BundleTable:
     t = BundleTable(Ring([N], truncate))
     t.declare_symbolic("V", kind, N)
     t.declare("W", kind, n)
+    t.declare("Y", "complex", 2)   # a numeric-rank bundle to combine with
     return t
 
 
@@ -55,6 +56,9 @@ COMPLEX_CASES = {
     "td": lambda t, b: todd(t, b),
     "Ahat": lambda t, b: ahat(t, b),
     "L": lambda t, b: hirzebruch_l(t, b),
+    "nested": lambda t, b: (value(t, b).sym(2).wedge(2) * value(t, b).dual() + value(t, b)).ch,
+    "with a numeric bundle": lambda t, b: (value(t, b) * value(t, "Y").dual()
+                                           + value(t, b).wedge(2) * value(t, "Y")).ch,
 }
 
 REAL_CASES = {
@@ -64,6 +68,7 @@ REAL_CASES = {
     "sym2": lambda t, b: value(t, b).sym(2).ch,
     "Ahat": lambda t, b: ahat(t, b),
     "L": lambda t, b: hirzebruch_l(t, b),
+    "with a numeric bundle": lambda t, b: (value(t, b) * value(t, "Y")).ch,
 }
 
 
