@@ -224,3 +224,16 @@ def test_sqcd_a_wrong_r_charge_is_caught(tmp_path):
     failed = " ".join(report.diagnostics)
     assert "check failed: kGGR == 0" in failed
     assert "check failed: m2R == k2R" in failed
+
+
+def test_classes_from_the_chern_character_of_a_construction():
+    # Whitney product formula (Milnor and Stasheff, "Characteristic Classes", 1974, §14):
+    # c(W + Y) = c(W) c(Y), here read off the ch of the sum through Newton's identities.
+    from compiler.algebra import symbolic_rank
+    t = pair(3, "complex")
+    total = (value(t, "W") + value(t, "Y")).ch
+    assert symbolic_rank.total_chern(total) == t.total_chern("W") * t.total_chern("Y")
+    assert symbolic_rank.total_pontryagin(total, real=False) == \
+        t.total_pontryagin("W") * t.total_pontryagin("Y")
+    with pytest.raises(AlgebraError, match="degree-0"):
+        symbolic_rank.exp_nilpotent(t.ring.one())

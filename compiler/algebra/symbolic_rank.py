@@ -85,6 +85,8 @@ def power_sums(ch: Element, real: bool, squares: bool) -> list[Element]:
 
 def exp_nilpotent(y: Element) -> Element:
     """exp(y) for y without a degree-0 part (the series stops at the truncation)."""
+    if not y.part(0).is_zero:
+        raise AlgebraError("exp of a value with a degree-0 part does not truncate")
     ring = y.ring
     total, term, j = ring.one(), ring.one(), 0
     while True:
@@ -111,7 +113,8 @@ def _log_one_plus(n: int) -> list[Fraction]:
 
 
 def total_chern(ch: Element) -> Element:
-    """c = prod (1 + x_i) from ch of a complex bundle (Newton's identities)."""
+    """c = prod (1 + x_i) from the ch of any complex bundle or construction
+    (Newton's identities)."""
     sums = power_sums(ch, real=False, squares=False)
     return multiplicative(_log_one_plus(len(sums)), sums)
 
