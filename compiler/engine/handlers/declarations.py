@@ -44,7 +44,7 @@ def _bundle(scope, s: n.BundleDecl, step: Step) -> None:
 def _symbolic_bundle(scope, s: n.BundleDecl, step: Step) -> None:
     """``bundle V: complex, rank N``: the rank symbol must be a nonnegative integer."""
     spec = scope.symbols_by_name[s.rank]
-    nonnegative = spec.lower is not None and (spec.lower >= 0 or spec.lower_strict and spec.lower > -1)
+    nonnegative = spec.lower is not None and (spec.lower >= 0 or (spec.lower_strict and spec.lower > -1))
     if not (spec.integer and nonnegative):
         raise scope.fail(s.rank, f"the rank {s.rank} must be a symbol declared integer and "
                             f"nonnegative, as in 'symbol {s.rank}: integer, positive'")
