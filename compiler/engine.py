@@ -22,7 +22,7 @@ from typing import Callable, Optional
 
 import sympy
 
-from . import __version__, names as names_pass, notation
+from . import __version__, names as names_pass, notation, preambles
 from .algebra import bundles as bundles_mod, fibers as fibers_mod
 from .algebra.extremize import ExtremizeError, extremize, tidy
 from .algebra.graded import AlgebraError, Element, Ring
@@ -31,6 +31,7 @@ from .cache import CODE, StepCache, digest, expr_from_data, expr_to_data, restor
 from .checks import Context, claim, free_symbols, show, substitute
 from .document import Block, ProsePart, read_document
 from .errors import DocumentError, Location, Problem
+from .calls import Function
 from .expressions import (Evaluator, Missing, MissingValue, Scope, Value, as_expr, from_expr,
                           is_class_free, rational_value)
 from .results import CheckResult, PlotData, Prose, Report, Step, TableData, ValueRecord
@@ -97,6 +98,10 @@ def build(path: str, text: str, options: BuildOptions = BuildOptions()) -> Repor
     """Compile one document.  Raises DocumentError when it cannot be compiled."""
     document, statements_by_block = parse(path, text)
     statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
+    loaded = iter(preambles.load(path, statements, parse))
+    statements_by_block = {i: [next(loaded) for _ in statements_by_block[i]]
+                           for i in sorted(statements_by_block)}
+    statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
     refs = [(r.name, r.line, r.column) for part in document.parts
             if isinstance(part, ProsePart) for r in part.refs]
     front_conventions = [(c.name, c.line, c.column) for c in document.front.conventions]
@@ -123,6 +128,7 @@ class Run(Scope):
         self.specs: dict[sympy.Symbol, SymbolSpec] = {}
         self.symbols_by_name: dict[str, SymbolSpec] = {}
         declared = []
+        statements = list(preambles.flatten(statements))
         for s in statements:
             if isinstance(s, n.SymbolDecl):
                 for name in s.names:
@@ -144,6 +150,8 @@ class Run(Scope):
         self.diagnostics: list[Problem] = []
         self.evaluator = Evaluator(self, path)
         self.cache = StepCache(path, options.use_cache)
+        self.top_path = path
+        self.used: set[str] = set()  # the documents whose statements have run
         self.keys: dict[str, str] = {}
         # The declarations so far (symbols, bundles, splits, fibers), the
         # conventions and the truncation: the ring every value lives in.
@@ -215,6 +223,19 @@ class Run(Scope):
 
     def evaluate(self, expr) -> Value:
         return self.evaluator.evaluate(expr)
+
+    @contextmanager
+    def reading(self, path: str):
+        """Run a used document's statements: their problems point into it."""
+        outer = self.path
+        self.path = self.evaluator.path = path
+        try:
+            yield
+        finally:
+            self.path = self.evaluator.path = outer
+
+    def where(self, line: int) -> str:
+        return f"at line {line}" if self.path == self.top_path else f"at line {line} of {self.path}"
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)
@@ -575,6 +596,49 @@ def _let(run: Run, s: n.Let, step: Step) -> None:
     run.output(step, s.name, value, s.line)
 
 
+def _define(run: Run, s: n.Define, step: Step) -> None:
+    """The body's other names keep the values they have now (``let!`` later
+    does not change the function); the report shows the definition once."""
+    captured = {name: run.lookup(name, name.line, name.column) for name in names_pass.references(s)}
+    function = Function(s.name, tuple(map(str, s.params)), s.body, captured, run.where(s.line))
+    run.bind(s.name, "function", function, s.line)
+    step.summary = s.source.split(None, 1)[1].lstrip("!").strip()
+
+
+def _use(run: Run, s: n.UseDecl, step: Step) -> None:
+    """Run a used document's statements once; its checks become this step's,
+    its problems are reported here with their own location."""
+    module = s.module
+    own = [d for d in module.exports if d.origin == module.display]
+    step.summary = f"{module.display}: " + ", ".join(
+        f"{d.name} ({d.kind}, line {d.line})" for d in own)
+    if module.key in run.used:
+        step.summary = f"{module.display}: already used above"
+        return
+    run.used.add(module.key)
+    first = len(run.diagnostics)
+    with run.reading(module.display):
+        for inner in module.statements:
+            done = run.run_step(0, inner)
+            step.checks.extend(CheckResult(f"{module.display}:{done.line}: {c.what}", c.status, c.detail)
+                               for c in done.checks)
+    inner = run.diagnostics[first:]
+    del run.diagnostics[first:]
+    run.diagnostics.extend(Problem(Location(run.path, s.line, s.column), f"{p.location}: {p.message}")
+                           for p in inner if not p.message.startswith("check failed"))
+    for d in module.exports:
+        binding = run.bindings.get(d.name)
+        if binding is None:
+            continue
+        if isinstance(binding.value, Missing):
+            run.bind(d.name, binding.kind, Missing(d.name, s.line), s.line)
+        elif d.name in run.history:
+            # Prose refers to what the use brought in at the use line.
+            run.history[d.name] = [(s.line, rec) for _, rec in run.history[d.name]]
+            if binding.kind == "value":
+                step.values.append(run.history[d.name][-1][1])
+
+
 def _element(run: Run, node, what: str) -> Element:
     value = run.evaluate(node)
     if not isinstance(value, Element):
@@ -811,7 +875,8 @@ CACHED = frozenset({n.Let, n.Substitute, n.Reduce, n.Integrate, n.Coefficients,
 HANDLERS = {
     n.SymbolDecl: _symbol, n.ConventionDecl: _convention, n.BundleDecl: _bundle,
     n.SplitDecl: _split, n.SurfaceFiber: _surface, n.SphereFiber: _sphere,
-    n.GeneralFiber: _general, n.Let: _let, n.Substitute: _substitute,
+    n.GeneralFiber: _general, n.Let: _let, n.Define: _define, n.UseDecl: _use,
+    n.Substitute: _substitute,
     n.Reduce: _reduce, n.Integrate: _integrate, n.Coefficients: _coefficients,
     n.Extremize: _extremize, n.Check: _check, n.Show: _show, n.Table: _table,
     n.Plot: _plot,

@@ -9,7 +9,7 @@ package never imports sympy.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Optional, Union
 
@@ -68,7 +68,46 @@ class Binary:
     column: int
 
 
-Expr = Union[Num, Name, Call, Unary, Binary]
+@dataclass(frozen=True)
+class Apply:
+    """A call of a function the document defined: ``a_chiral(r)``."""
+
+    func: Ident
+    args: tuple["Expr", ...]
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class Sum:
+    """``sum(body, k = low..high)`` or ``prod(...)``: ``index`` is local to
+    ``body`` (the bounds are read outside it)."""
+
+    op: str  # "sum" or "prod"
+    body: "Expr"
+    index: Ident
+    low: "Expr"
+    high: "Expr"
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class Expansion:
+    """``leading(f, N)`` or ``series(f, N, 3)``: the first ``terms`` nonzero
+    terms of ``f`` in the symbol ``variable`` at infinity (``point`` None)
+    or at a rational point (``series(f, x = 0, 3)``)."""
+
+    op: str  # "leading" or "series"
+    target: "Expr"
+    variable: Ident
+    point: Optional[Fraction]
+    terms: int
+    line: int
+    column: int
+
+
+Expr = Union[Num, Name, Call, Unary, Binary, Apply, Sum, Expansion]
 
 
 @dataclass(frozen=True)
@@ -261,6 +300,30 @@ class Let(_Statement):
 
 
 @dataclass(frozen=True)
+class Define(_Statement):
+    """``define f(x, y) = body``: ``params`` are local to ``body``."""
+
+    name: Ident
+    params: tuple[Ident, ...]
+    body: Expr
+    rebind: bool
+    kind = "define"
+
+
+@dataclass(frozen=True)
+class UseDecl(_Statement):
+    """``use "common.md"`` (a document in this one's folder or below) or
+    ``use library "anomalies-4d.md"`` (a bundled one)."""
+
+    path: str
+    library: bool
+    #: The loaded document (``compiler.preambles.Module``), set after parsing;
+    #: not a node, so passes over the syntax tree do not enter it.
+    module: object = field(default=None, compare=False, repr=False)
+    kind = "use"
+
+
+@dataclass(frozen=True)
 class Substitute(_Statement):
     target: Expr
     pairs: tuple[Equation, ...]
@@ -358,6 +421,6 @@ class Plot(_Statement):
 
 Statement = Union[
     SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
-    SphereFiber, GeneralFiber, Let, Substitute, Reduce, Integrate,
+    SphereFiber, GeneralFiber, Let, Define, UseDecl, Substitute, Reduce, Integrate,
     Coefficients, Extremize, Check, Show, Table, Plot,
 ]
