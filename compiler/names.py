@@ -108,7 +108,8 @@ class NameTable:
                          + did_you_mean(name, known))
         elif found.kind != "function":
             self.problem(name.line, name.column, f"'{name}' is a {found.kind} "
-                                                 f"(line {found.line}), not a function")
+                                                 f"(line {found.line}), not a built-in "
+                                                 "function or a function defined earlier")
         elif count != found.arity:
             self.problem(name.line, name.column,
                          f"{name}() takes {found.arity} argument{'s' if found.arity != 1 else ''}"
