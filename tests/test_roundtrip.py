@@ -8,6 +8,7 @@ but denotes the very value that was computed.
 """
 from __future__ import annotations
 
+import shutil
 from pathlib import Path
 
 import pytest
@@ -25,7 +26,8 @@ def test_value_texts_read_back_to_the_same_values(path, tmp_path):
     values = to_record(report)["values"]
     assert values, "a bundled derivation binds values"
     claims = "\n".join(f"check {name} == {value['text']}" for name, value in values.items())
-    copy = tmp_path / path.name
+    # the whole folder, for the documents this one uses
+    copy = Path(shutil.copytree(path.parent, tmp_path / "d", ignore=shutil.ignore_patterns(".*"))) / path.name
     copy.write_text(text + "\n\n```derive\n" + claims + "\n```\n", encoding="utf-8")
     again = build(str(copy), copy.read_text(encoding="utf-8"), BuildOptions(use_cache=False))
     readback = again.steps[len(report.steps):]
