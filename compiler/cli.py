@@ -1,4 +1,4 @@
-"""The ``anomark`` command: build, check, diff.
+"""The ``anomark`` command: build, check, diff, watch.
 
 This is the only place that talks to the terminal.  It reaches the rest of
 the program through the engine (a Report out) and the renderers (text out),
@@ -8,8 +8,10 @@ status 2, and keeps Python tracebacks for anomark's own bugs (``--debug``).
 from __future__ import annotations
 
 import argparse
+import contextlib
 import os
 import re
+import signal
 import sys
 import tempfile
 import time
@@ -17,13 +19,14 @@ import traceback
 from fractions import Fraction
 from pathlib import Path
 
-from . import __version__
+from . import __version__, usage
 from .diff import diff_records, diff_to_json, format_diff, load_record
 from .engine import BuildOptions, build
 from .errors import DocumentError, Location
 from .render.html import to_html
 from .render.json import to_json
 from .render.tex import plot_files, to_tex
+from .results import STATUSES
 
 FORMATS = ("html", "json", "tex")
 _RATIONAL = re.compile(r"[+-]?\d+(/\d+)?")
@@ -39,46 +42,76 @@ def rational(text: str) -> Fraction:
 
 
 def parser() -> argparse.ArgumentParser:
-    top = argparse.ArgumentParser(prog="anomark", description="Checked derivations of anomalies.")
+    top = argparse.ArgumentParser(prog="anomark", description=usage.TOP, epilog=usage.TOP_EPILOG,
+                                  formatter_class=argparse.RawDescriptionHelpFormatter)
     top.add_argument("--version", action="version", version=f"anomark {__version__}")
-    sub = top.add_subparsers(dest="command", required=True)
+    sub = top.add_subparsers(dest="command", required=True, metavar="COMMAND")
+
+    def command(name, summary, description, epilog):
+        return sub.add_parser(name, help=summary, description=description, epilog=epilog,
+                              formatter_class=argparse.RawDescriptionHelpFormatter)
 
     def common(p):
         p.add_argument("--set", action="append", default=[], metavar="NAME=VALUE",
-                       help="override a declared convention with an exact rational")
-        p.add_argument("--allow-html", action="store_true", help="pass raw HTML in prose through")
-        p.add_argument("--no-cache", action="store_true", help="recompute every step")
-        p.add_argument("--quiet", action="store_true", help="no progress lines")
-        p.add_argument("--time-limit", type=float, default=120.0, metavar="SECONDS",
-                       help="longest a single step may run (default 120)")
+                       help="override a declared convention with an exact rational such as 1/2 "
+                            "(repeatable; default: the document's values)")
+        p.add_argument("--allow-html", action="store_true",
+                       help="pass raw HTML in prose through (default: shown as text)")
+        p.add_argument("--no-cache", action="store_true",
+                       help="recompute every step (default: reuse .anomark-cache/ beside the document)")
+        p.add_argument("--quiet", action="store_true",
+                       help="no summary or progress lines; problems are still printed")
+        p.add_argument("--time-limit", type=float, default=30.0, metavar="SECONDS",
+                       help="longest a single step may run (default: 30)")
+        p.add_argument("--build-time-limit", type=float, default=300.0, metavar="SECONDS",
+                       help="longest a whole build may run, reading included (default: 300)")
         p.add_argument("--debug", action="store_true", help="show tracebacks of internal errors")
 
-    b = sub.add_parser("build", help="compile a document into reports")
-    b.add_argument("file")
-    b.add_argument("-o", "--output", metavar="DIR", help="output folder (default: the document's)")
-    b.add_argument("--format", default="html,json", help="comma-separated: html,json,tex")
-    b.add_argument("--standalone", action="store_true", help="LaTeX as a full article")
+    def output(p):
+        p.add_argument("-o", "--output", metavar="DIR",
+                       help="output folder (default: the document's own folder)")
+
+    b = command("build", "compile a document into reports", usage.BUILD, usage.BUILD_EPILOG)
+    b.add_argument("file", metavar="FILE.md")
+    output(b)
+    b.add_argument("--format", default="html,json",
+                   help="comma-separated, from html,json,tex (default: html,json)")
+    b.add_argument("--standalone", action="store_true",
+                   help="LaTeX as a whole article rather than a fragment to \\input")
     common(b)
 
-    c = sub.add_parser("check", help="compile without writing files; exit status only")
-    c.add_argument("files", nargs="+")
+    c = command("check", "compile and check without writing files", usage.CHECK, usage.CHECK_EPILOG)
+    c.add_argument("files", nargs="+", metavar="FILE.md")
+    c.add_argument("--recompute", action="store_true",
+                   help="compute every step and report where the cache disagrees (default: reuse it)")
     common(c)
 
-    d = sub.add_parser("diff", help="what changed between two JSON records")
-    d.add_argument("old")
-    d.add_argument("new")
-    d.add_argument("--json", action="store_true", help="machine-readable output")
-    d.add_argument("--debug", action="store_true")
+    d = command("diff", "what changed between two JSON records", usage.DIFF, usage.DIFF_EPILOG)
+    d.add_argument("old", metavar="OLD.json")
+    d.add_argument("new", metavar="NEW.json")
+    d.add_argument("--json", action="store_true", help="a JSON object for tools (default: text lines)")
+    d.add_argument("--debug", action="store_true", help="show tracebacks of internal errors")
+
+    w = command("watch", "rebuild on save and serve a live-reloading report",
+                usage.WATCH, usage.WATCH_EPILOG)
+    w.add_argument("file", metavar="FILE.md")
+    output(w)
+    w.add_argument("--port", type=int, default=0,
+                   help="port on 127.0.0.1 to serve the report on (default: 0, any free port, printed)")
+    common(w)
     return top
 
 
 def main(argv=None) -> int:
     args = parser().parse_args(argv)
     try:
-        return COMMANDS[args.command](args)
+        status = COMMANDS[args.command](args)
+        sys.stdout.flush()  # a closed pipe shows here, where it can be handled
+        return status
+    except BrokenPipeError:
+        return closed_pipe()
     except DocumentError as err:
-        for problem in err.problems:
-            print(problem, file=sys.stderr)
+        print_problems(err)
         return 2
     except KeyboardInterrupt:
         print("anomark: interrupted", file=sys.stderr)
@@ -93,6 +126,60 @@ def main(argv=None) -> int:
         return EXIT_INTERNAL
 
 
+def closed_pipe() -> int:
+    """The reader went away (``anomark diff ... | head -1``): stop quietly, as ``cat`` would.
+
+    Standard output is pointed at /dev/null so that the interpreter's last
+    flush does not fail again; the status is the shell's for SIGPIPE.
+    """
+    devnull = os.open(os.devnull, os.O_WRONLY)
+    os.dup2(devnull, sys.stdout.fileno())
+    os.close(devnull)
+    return 128 + signal.SIGPIPE
+
+
+# ------------------------------------------------------------ what the tool says
+
+def say(args, line: str) -> None:
+    """A line for the author on standard error, unless --quiet."""
+    if not getattr(args, "quiet", False):
+        print(line, file=sys.stderr)
+
+
+def print_warnings(source) -> None:
+    """Located warnings a build carries (near-miss ``derive`` fences), as FILE:LINE:COL: warning: ...
+
+    Read with getattr: reports and document errors without warnings have none.
+    """
+    for warning in getattr(source, "warnings", ()) or ():
+        location, message = getattr(warning, "location", None), getattr(warning, "message", None)
+        text = f"{location}: warning: {message}" if location is not None else str(warning)
+        print(text, file=sys.stderr)
+
+
+def print_problems(err: DocumentError) -> None:
+    print_warnings(err)
+    for problem in err.problems:
+        print(problem, file=sys.stderr)
+
+
+VERDICTS = {0: "passed", 1: "FAILED", 2: "ERRORS"}
+
+
+def plural(n: int, word: str) -> str:
+    return f"{n} {word}" if n == 1 else f"{n} {word}s"
+
+
+def summary(path: str, report, written=()) -> str:
+    """``doc.md: passed — 46 checks: 43 proven, 3 sampled (50 steps); wrote out/doc.html``."""
+    total = sum(len(s.checks) for s in report.steps)
+    counts = ", ".join(plural(report.count(s), s) if s == "error" else f"{report.count(s)} {s}"
+                       for s in STATUSES if report.count(s))
+    line = (f"{path}: {VERDICTS[status_of(report)]} \u2014 {plural(total, 'check')}"
+            f"{': ' + counts if counts else ''} ({plural(len(report.steps), 'step')})")
+    return line + (f"; wrote {', '.join(str(p) for p in written)}" if written else "")
+
+
 def options(args, path: str) -> BuildOptions:
     overrides = {}
     for item in args.set:
@@ -105,7 +192,8 @@ def options(args, path: str) -> BuildOptions:
             raise DocumentError(Location(path, 1, 1), f"--set {name.strip()}: {exc}") from None
     return BuildOptions(overrides=overrides, allow_html=args.allow_html,
                         use_cache=not args.no_cache, time_limit=args.time_limit,
-                        progress=progress_printer(args))
+                        build_time_limit=args.build_time_limit,
+                        recompute=getattr(args, "recompute", False), progress=progress_printer(args))
 
 
 def progress_printer(args):
@@ -136,6 +224,7 @@ def compile_file(args, path: str):
     finally:
         if opts.progress is not None:
             opts.progress.finish()
+    print_warnings(report)
     for line in report.diagnostics:
         print(line, file=sys.stderr)
     return report
@@ -155,16 +244,17 @@ def write_whole(files: dict[Path, bytes]) -> None:
         for target, data in files.items():
             target.parent.mkdir(parents=True, exist_ok=True)
             fd, tmp = tempfile.mkstemp(dir=target.parent, prefix=f".{target.name}.")
+            staged.append((tmp, target))
             with os.fdopen(fd, "wb") as handle:
                 handle.write(data)
             os.chmod(tmp, 0o666 & ~umask)
-            staged.append((tmp, target))
-    except BaseException:
+        while staged:
+            os.replace(*staged[0])
+            staged.pop(0)
+    finally:  # on any failure, no temporary file is left behind
         for tmp, _ in staged:
-            os.unlink(tmp)
-        raise
-    for tmp, target in staged:
-        os.replace(tmp, target)
+            with contextlib.suppress(OSError):
+                os.unlink(tmp)
 
 
 def cmd_build(args) -> int:
@@ -174,10 +264,38 @@ def cmd_build(args) -> int:
         print(f"anomark: unknown format {', '.join(unknown)} (choose from {', '.join(FORMATS)})",
               file=sys.stderr)
         return 2
+    return build_once(args, formats)
+
+
+def output_folder(args) -> Path:
+    return Path(args.output) if args.output else Path(args.file).parent
+
+
+def build_once(args, formats) -> int:
+    """Compile ``args.file``, write its reports whole, and say what happened."""
+    out, source = output_folder(args), Path(args.file)
+    if out.exists() and not out.is_dir():
+        print(f"anomark: {out}: not a folder (-o names the output folder)", file=sys.stderr)
+        return 2
     report = compile_file(args, args.file)
-    source = Path(args.file)
-    out = Path(args.output) if args.output else source.parent
-    stem = source.stem
+    files = report_files(args, report, formats)
+    clash = [target for target in files if target.resolve() == source.resolve()]
+    if clash:
+        print(f"anomark: {clash[0]}: the output would overwrite the document itself; "
+              "choose another folder with -o", file=sys.stderr)
+        return 2
+    try:
+        write_whole(files)
+    except OSError as exc:
+        print(f"anomark: cannot write into {out}: {exc.strerror or exc}", file=sys.stderr)
+        return 2
+    say(args, summary(args.file, report, files))
+    return status_of(report)
+
+
+def report_files(args, report, formats) -> dict[Path, bytes]:
+    """Every output file of one build, by path: the reports and, for LaTeX, the plots."""
+    out, stem = output_folder(args), Path(args.file).stem
     files: dict[Path, bytes] = {}
     if "html" in formats:
         files[out / f"{stem}.html"] = to_html(report).encode("utf-8")
@@ -187,19 +305,20 @@ def cmd_build(args) -> int:
         files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone).encode("utf-8")
         for name, data in plot_files(report).items():
             files[out / name] = data
-    write_whole(files)
-    return status_of(report)
+    return files
 
 
 def cmd_check(args) -> int:
     worst = 0
     for path in args.files:
         try:
-            worst = max(worst, status_of(compile_file(args, path)))
+            report = compile_file(args, path)
         except DocumentError as err:
-            for problem in err.problems:
-                print(problem, file=sys.stderr)
+            print_problems(err)
             worst = 2
+            continue
+        say(args, summary(path, report))
+        worst = max(worst, status_of(report))
     return worst
 
 
@@ -210,4 +329,34 @@ def cmd_diff(args) -> int:
     return 0 if result.empty else 1
 
 
-COMMANDS = {"build": cmd_build, "check": cmd_check, "diff": cmd_diff}
+def cmd_watch(args) -> int:
+    from .watch import Watch  # the server loads only for this command
+
+    source = Path(args.file)
+    if not source.is_file():
+        raise DocumentError(Location(args.file, 1, 1), "cannot read the document: no such file")
+
+    def rebuild() -> None:
+        try:
+            build_once(args, ["html"])
+        except DocumentError as err:
+            print_problems(err)
+
+    watch = Watch(source, output_folder(args) / f"{source.stem}.html", rebuild)
+    try:
+        url = watch.start(args.port)
+    except OSError as exc:
+        print(f"anomark: cannot serve on 127.0.0.1:{args.port}: {exc.strerror or exc}", file=sys.stderr)
+        return 2
+    print(f"anomark: serving {url} (rebuilds when {args.file} is saved; Ctrl-C stops)",
+          file=sys.stderr, flush=True)
+    try:
+        watch.run()
+    except KeyboardInterrupt:
+        return 0
+    finally:
+        watch.stop()
+    return 0
+
+
+COMMANDS = {"build": cmd_build, "check": cmd_check, "diff": cmd_diff, "watch": cmd_watch}

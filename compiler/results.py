@@ -113,6 +113,10 @@ class Report:
     #: ``FILE:LINE:COL: message`` lines for every failed check and step error,
     #: for the command line's standard error.
     diagnostics: list[str] = field(default_factory=list)
+    #: Located problems that did not stop the build (a near-miss ``derive`` fence).
+    warnings: list = field(default_factory=list)
+    #: How many steps were replayed from the build cache rather than computed.
+    cached_steps: int = 0
 
     @property
     def steps(self) -> list[Step]:

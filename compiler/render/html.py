@@ -15,7 +15,8 @@ from markupsafe import Markup, escape
 
 from compiler.markdown import expand_refs, make_markdown
 from compiler.render.mathml import to_mathml
-from compiler.render.tex import TEMPLATES, aligned_body, degrees_text, name_latex, value_lines
+from compiler.render.templates import loader
+from compiler.render.tex import aligned_body, degrees_text, name_latex, value_lines
 from compiler.results import STATUSES, PlotData, Report, Step, ValueRecord
 
 GLYPHS = {"proven": "\u2713", "sampled": "\u2248", "failed": "\u2717", "error": "!"}
@@ -105,7 +106,7 @@ def _value_math(v: ValueRecord) -> Markup:
 
 def _environment() -> jinja2.Environment:
     env = jinja2.Environment(
-        loader=jinja2.FileSystemLoader(TEMPLATES),
+        loader=loader(),
         autoescape=True,
         trim_blocks=True,
         lstrip_blocks=True,

@@ -19,9 +19,9 @@ import jinja2
 from compiler.errors import InternalError
 from compiler.markdown import expand_refs, make_markdown
 from compiler.notation import name_latex
+from compiler.render.templates import loader
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 
-TEMPLATES = Path(__file__).resolve().parents[2] / "templates"  # the repo's templates/
 
 # ------------------------------------------------------------------ escaping
 
@@ -363,7 +363,7 @@ def _step_view(step: Step, plot_file: str) -> dict:
 def _environment() -> jinja2.Environment:
     """Jinja with delimiters that cannot clash with TeX braces; we escape ourselves."""
     return jinja2.Environment(
-        loader=jinja2.FileSystemLoader(TEMPLATES),
+        loader=loader(),
         block_start_string="((*", block_end_string="*))",
         variable_start_string="(((", variable_end_string=")))",
         comment_start_string="((=", comment_end_string="=))",

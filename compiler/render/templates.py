@@ -1,0 +1,35 @@
+"""Where the report templates are read from: the one place that finds them.
+
+The templates' source lives in the checkout's top-level ``templates/``;
+packaging maps that folder to the package ``compiler.templates`` (see
+pyproject.toml), so a wheel, a plain ``pip install .`` and an editable
+install all reach them through importlib.resources.  Run straight from a
+checkout without any install (``PYTHONPATH=.``), that package does not
+exist and the checkout's folder is the only copy there is.
+"""
+from __future__ import annotations
+
+from importlib import resources
+from importlib.abc import Traversable
+from pathlib import Path
+
+import jinja2
+
+
+def template_root() -> Traversable:
+    """The folder holding ``report.html.j2`` and its companions."""
+    try:
+        return resources.files("compiler.templates")
+    except ModuleNotFoundError:  # a bare checkout on PYTHONPATH: no install mapped the folder
+        return Path(__file__).resolve().parents[2] / "templates"
+
+
+def loader() -> jinja2.BaseLoader:
+    """A Jinja loader over the template folder, wherever it was installed."""
+    root = template_root()
+
+    def load(name: str) -> str | None:
+        entry = root.joinpath(name)
+        return entry.read_text(encoding="utf-8") if entry.is_file() else None
+
+    return jinja2.FunctionLoader(load)

@@ -1,0 +1,1 @@
+"""The report templates; installed as the package ``compiler.templates`` (see pyproject.toml)."""
