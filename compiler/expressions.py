@@ -67,7 +67,6 @@ class Evaluator:
         self.path = path
         #: Local names (parameters, sum indices) in force: name -> (kind, value).
         self.frames: list[dict] = []
-        self.calls = 0  # function calls expanded so far (``calls.MAX_CALLS``)
 
     def lookup(self, name: str, line: int, column: int):
         """A local name first, then the document's."""

@@ -80,8 +80,7 @@ class Apply:
 
 @dataclass(frozen=True)
 class Sum:
-    """``sum(body, k = low..high)`` or ``prod(...)``: ``index`` is local to
-    ``body`` (the bounds are read outside it)."""
+    """``sum(body, k = low..high)`` or ``prod(...)``; ``index`` is local to ``body``."""
 
     op: str  # "sum" or "prod"
     body: "Expr"
@@ -94,9 +93,8 @@ class Sum:
 
 @dataclass(frozen=True)
 class Expansion:
-    """``leading(f, N)`` or ``series(f, N, 3)``: the first ``terms`` nonzero
-    terms of ``f`` in the symbol ``variable`` at infinity (``point`` None)
-    or at a rational point (``series(f, x = 0, 3)``)."""
+    """``leading(f, N)``, ``series(f, N, 3)``: the first ``terms`` nonzero terms
+    of ``f`` in ``variable`` at infinity (``point`` None) or at ``x = point``."""
 
     op: str  # "leading" or "series"
     target: "Expr"
@@ -312,13 +310,11 @@ class Define(_Statement):
 
 @dataclass(frozen=True)
 class UseDecl(_Statement):
-    """``use "common.md"`` (a document in this one's folder or below) or
-    ``use library "anomalies-4d.md"`` (a bundled one)."""
+    """``use "common.md"`` (in this folder or below) or ``use library "x.md"``."""
 
     path: str
     library: bool
-    #: The loaded document (``compiler.preambles.Module``), set after parsing;
-    #: not a node, so passes over the syntax tree do not enter it.
+    #: The loaded document (a ``preambles.Module``, not a node), set after parsing.
     module: object = field(default=None, compare=False, repr=False)
     kind = "use"
 
