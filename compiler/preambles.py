@@ -28,6 +28,9 @@ from .statements import nodes as n
 from .statements.core import did_you_mean
 
 LIBRARY = "library"
+#: Documents one build may use, and how deep uses may nest.
+MAX_USED_DOCUMENTS = 100
+MAX_USE_DEPTH = 16
 _LIBRARY_NAME = re.compile(r"[A-Za-z0-9][A-Za-z0-9_-]*\.md")
 
 
@@ -109,6 +112,10 @@ class _Loader:
             raise DocumentError(here, f"the documents use each other in a cycle: {cycle}")
         if key in self.modules:
             return self.modules[key]
+        if len(stack) > MAX_USE_DEPTH:
+            raise DocumentError(here, f"uses nest more than {MAX_USE_DEPTH} documents deep")
+        if len(self.modules) >= MAX_USED_DOCUMENTS:
+            raise DocumentError(here, f"a build uses at most {MAX_USED_DOCUMENTS} documents")
         try:
             document, blocks = self.parse(child, text)
             if document.front.conventions:

@@ -379,3 +379,11 @@ def test_large_n_of_the_twisted_compactification(tmp_path):
     # Gaiotto, Maldacena (2009): N^3/3 at z = 1
     assert {c["status"] for c in find_step(record, "check a_large == (g - 1)*N^3/3 for z = 1")["checks"]} == {"proven"}
     assert "sqrt(3*z^2 + 1)" in record["values"]["a_large"]["text"]
+
+
+def test_uses_nest_only_so_deep(tmp_path):
+    depth = preambles.MAX_USE_DEPTH + 2
+    for i in range(depth):
+        write(tmp_path, f"d{i}.md", f'use "d{i + 1}.md"' if i + 1 < depth else "let x = 1")
+    (found,) = problems(tmp_path, 'use "d0.md"')
+    assert f"uses nest more than {preambles.MAX_USE_DEPTH} documents deep" in found
