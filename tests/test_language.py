@@ -325,6 +325,9 @@ def test_the_library_ships_as_package_data():
     assert names == ["anomalies-2d.md", "anomalies-4d.md", "anomalies-6d.md"]
     config = tomllib.loads((ROOT / "pyproject.toml").read_text())
     assert "library/*.md" in config["tool"]["setuptools"]["package-data"]["compiler"]
+    # a non-editable install carries every package of the compiler (the engine too)
+    packages = {".".join(p.parent.relative_to(ROOT).parts) for p in (ROOT / "compiler").rglob("__init__.py")}
+    assert packages <= set(config["tool"]["setuptools"]["packages"]), packages
 
 
 def test_the_library_checks_pass_and_are_cached(tmp_path):
