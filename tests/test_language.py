@@ -267,6 +267,12 @@ def test_a_failed_check_in_a_used_document_is_reported_at_the_use(tmp_path):
                           cwd=ROOT)
     assert proc.returncode == 1, proc.stderr
     assert f"{main}:6:1: check failed: {tmp_path / 'common.md'}:7: x == 3" in proc.stderr
+    # a step that cannot run there: an error at the use line, with its own place
+    write(tmp_path, "common.md", "let x = 2", "let y = 1/(x - 2)")
+    report = compile_text(tmp_path, doc('use "common.md"', "let z = x"))
+    (error,) = [c for c in step_of(report, 'use "common.md"').checks if c.status == "error"]
+    assert error.detail == f"{tmp_path / 'common.md'}:7:1: division by zero"
+    assert step_of(report, "let z = x").status == "proven"
 
 
 def test_a_problem_inside_a_used_document_is_located_in_both(tmp_path):
@@ -299,6 +305,14 @@ def test_a_cycle_of_uses_is_located(tmp_path):
     assert "the documents use each other in a cycle" in found[0]
     write(tmp_path, "self.md", 'use "self.md"')
     assert "cycle" in problems(tmp_path, 'use "self.md"')[0]
+
+
+def test_uses_nest_only_so_deep(tmp_path):
+    depth = preambles.MAX_USE_DEPTH + 2
+    for i in range(depth):
+        write(tmp_path, f"d{i}.md", f'use "d{i + 1}.md"' if i + 1 < depth else "let x = 1")
+    (found,) = problems(tmp_path, 'use "d0.md"')
+    assert f"uses nest more than {preambles.MAX_USE_DEPTH} documents deep" in found
 
 
 def test_a_name_clash_with_a_used_document_is_located(tmp_path):
@@ -383,10 +397,3 @@ def test_large_n_of_the_twisted_compactification(tmp_path):
     assert {c["status"] for c in find_step(record, "check a_large == (g - 1)*N^3/3 for z = 1")["checks"]} == {"proven"}
     assert "sqrt(3*z^2 + 1)" in record["values"]["a_large"]["text"]
 
-
-def test_uses_nest_only_so_deep(tmp_path):
-    depth = preambles.MAX_USE_DEPTH + 2
-    for i in range(depth):
-        write(tmp_path, f"d{i}.md", f'use "d{i + 1}.md"' if i + 1 < depth else "let x = 1")
-    (found,) = problems(tmp_path, 'use "d0.md"')
-    assert f"uses nest more than {preambles.MAX_USE_DEPTH} documents deep" in found
