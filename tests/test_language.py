@@ -8,8 +8,6 @@ use the features are built at the end.
 from __future__ import annotations
 
 import os
-import subprocess
-import sys
 import tomllib
 from fractions import Fraction
 from pathlib import Path
@@ -21,7 +19,7 @@ from compiler.engine import BuildOptions, build
 from compiler.errors import DocumentError
 from compiler.statements import nodes as n
 from compiler.statements.parser import parse_block
-from test_derivations import DERIVATIONS, ROOT, build as build_cli, find_step
+from support import ROOT, anomark, check_statuses, find_step
 
 SETTLED = {"proven", "sampled"}
 
@@ -262,9 +260,7 @@ def test_a_used_document_brings_its_names_and_runs_its_checks_once(tmp_path):
 def test_a_failed_check_in_a_used_document_is_reported_at_the_use(tmp_path):
     write(tmp_path, "common.md", "let x = 2", "check x == 3")
     main = write(tmp_path, "main.md", 'use "common.md"', "check x == 2")
-    proc = subprocess.run([sys.executable, "-m", "compiler", "build", str(main), "-o",
-                           str(tmp_path / "out"), "--no-cache"], capture_output=True, text=True,
-                          cwd=ROOT)
+    proc = anomark("build", main, "-o", tmp_path / "out", "--no-cache")
     assert proc.returncode == 1, proc.stderr
     assert f"{main}:6:1: check failed: {tmp_path / 'common.md'}:7: x == 3" in proc.stderr
     # a step that cannot run there: an error at the use line, with its own place
@@ -366,9 +362,10 @@ def test_the_library_checks_pass_and_are_cached(tmp_path):
 
 # ---------------------------------------------------------------- the derivations
 
-def test_sqcd_in_the_conformal_window(tmp_path):
-    proc, record = build_cli(DERIVATIONS / "sqcd-conformal-window.md", tmp_path)
-    assert proc.returncode == 0 and record["passed"], proc.stderr
+def test_sqcd_in_the_conformal_window(bundled):
+    built = bundled("sqcd-conformal-window")
+    assert built.returncode == 0 and built.record["passed"], built.stderr
+    record = built.record
     for claim in (
         # SU(N) roots and sums of cubes (common practice, no source)
         "check positive_roots(Nc) == Nc*(Nc - 1)/2",
@@ -382,18 +379,19 @@ def test_sqcd_in_the_conformal_window(tmp_path):
         # Veneziano limit of the formula above
         "check leading(a_V, Nc) == 3/16*(2 - 3/r^2)*Nc^2",
     ):
-        assert {c["status"] for c in find_step(record, claim)["checks"]} == {"proven"}, claim
+        assert check_statuses(record, claim) == {"proven"}, claim
     use = find_step(record, 'use "preambles/su-n.md"')
     assert use["kind"] == "use" and "positive_roots (function, line 14)" in use["summary"]
+    assert use["summary"].startswith("derivations/preambles/su-n.md: ")
 
 
-def test_large_n_of_the_twisted_compactification(tmp_path):
-    proc, record = build_cli(DERIVATIONS / "large-n.md", tmp_path)
-    assert proc.returncode == 0 and record["passed"], proc.stderr
+def test_large_n_of_the_twisted_compactification(bundled):
+    built = bundled("large-n")
+    assert built.returncode == 0 and built.record["passed"], built.stderr
+    record = built.record
     # Bah, Beem, Bobev, Wecht, "Four-dimensional SCFTs from M5-branes" (2012): the N^3 coefficient
-    claim = ("check a_large == (g - 1)*N^3*(9*z^2 - 1 + (1 + 3*z^2)*sqrt(1 + 3*z^2))/(48*z^2)")
-    assert {c["status"] for c in find_step(record, claim)["checks"]} <= SETTLED
+    claim = "check a_large == (g - 1)*N^3*(9*z^2 - 1 + (1 + 3*z^2)*sqrt(1 + 3*z^2))/(48*z^2)"
+    assert check_statuses(record, claim) <= SETTLED
     # Gaiotto, Maldacena (2009): N^3/3 at z = 1
-    assert {c["status"] for c in find_step(record, "check a_large == (g - 1)*N^3/3 for z = 1")["checks"]} == {"proven"}
+    assert check_statuses(record, "check a_large == (g - 1)*N^3/3 for z = 1") == {"proven"}
     assert "sqrt(3*z^2 + 1)" in record["values"]["a_large"]["text"]
-
