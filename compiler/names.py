@@ -178,27 +178,45 @@ class Use:
 
     def __call__(self, table: "NameTable", statement) -> None:
         for name, parent, bound in _scoped(statement, self.field, self.local):
-            if not isinstance(name, Ident):
-                continue
-            called = isinstance(parent, n.Apply) and name is parent.func
-            if _binds(name, parent):
-                table.local(name, bound)
-            elif name in bound:
-                if called:
-                    table.problem(name.line, name.column, f"'{name}' is a local name, not a function")
-            elif called:
-                table.call(name, len(parent.args))
-            elif isinstance(parent, n.Expansion) and name is parent.variable:
-                table.use(name, name.line, name.column, ("symbol",), "declared symbol to expand in")
-            elif isinstance(parent, n.Name):
-                found = table.names.get(name)
-                if found is not None and found.kind == "function":
-                    table.problem(name.line, name.column, f"'{name}' is a function: call it with "
-                                                          f"its arguments, as in {name}(...)")
-                else:
-                    table.use(name, name.line, name.column, self.expr_kinds)
-            else:
-                table.use(name, name.line, name.column, self.kinds, self.role)
+            if isinstance(name, Ident):
+                _ROLES[_role(name, parent, bound)](self, table, name, parent, bound)
+
+    def standalone(self, table, name, parent, bound) -> None:
+        table.use(name, name.line, name.column, self.kinds, self.role)
+
+    def in_expression(self, table, name, parent, bound) -> None:
+        found = table.names.get(name)
+        if found is not None and found.kind == "function":
+            table.problem(name.line, name.column, f"'{name}' is a function: call it with "
+                                                  f"its arguments, as in {name}(...)")
+        else:
+            table.use(name, name.line, name.column, self.expr_kinds)
+
+
+def _role(name: Ident, parent, bound: frozenset) -> str:
+    """What a name does where it stands: binds an index, calls, is expanded in, is read."""
+    if _binds(name, parent):
+        return "index"
+    if isinstance(parent, n.Apply) and name is parent.func:
+        return "local call" if name in bound else "call"
+    if name in bound:
+        return "local"
+    if isinstance(parent, n.Expansion) and name is parent.variable:
+        return "expansion variable"
+    return "expression" if isinstance(parent, n.Name) else "standalone"
+
+
+_ROLES = {
+    "index": lambda use, table, name, parent, bound: table.local(name, bound),
+    "call": lambda use, table, name, parent, bound: table.call(name, len(parent.args)),
+    "local call": lambda use, table, name, parent, bound: table.problem(
+        name.line, name.column, f"'{name}' is a local name, not a function"),
+    "local": lambda use, table, name, parent, bound: None,
+    "expansion variable": lambda use, table, name, parent, bound: table.use(
+        name, name.line, name.column, ("symbol",), "declared symbol to expand in"),
+    "expression": Use.in_expression,
+    "standalone": Use.standalone,
+}
 
 
 @dataclass(frozen=True)
