@@ -118,7 +118,7 @@ def _faulhaber(ev, node: n.Sum, low, high):
     # Telescoping proves the closed form: S(m) - S(m - 1) = p(m).
     if sympy.expand(partial - partial.subs(m, m - 1) - p.subs(k, m)) != 0:
         raise InternalError(f"Faulhaber closed form of {p} does not telescope")
-    return sympy.expand(partial.subs(m, high) - partial.subs(m, low - 1))
+    return ex.from_expr(ev.scope.ring, sympy.expand(partial.subs(m, high) - partial.subs(m, low - 1)))
 
 
 def _partial_sum(poly: sympy.Poly, m):
