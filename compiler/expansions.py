@@ -13,7 +13,7 @@ from __future__ import annotations
 import sympy
 
 from . import expressions as ex, notation
-from .algebra.extremize import tidy
+from .algebra.radicals import tidy
 from .statements import nodes as n
 
 

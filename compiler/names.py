@@ -9,7 +9,7 @@ all at once and reported together, before the first computation.
 from __future__ import annotations
 
 import difflib
-from dataclasses import dataclass
+from dataclasses import dataclass, is_dataclass
 from typing import Iterator, Optional
 
 from .errors import DocumentError, Location, Problem
@@ -144,7 +144,7 @@ def _scoped(statement, field: str, local: Optional[str] = None):
     parent and the local names in force (a sum's index in its body only).
     Iterative, like ``walk``, for deep left-leaning sums."""
     bound = frozenset(getattr(statement, local)) if local else frozenset()
-    stack = [(item, None, bound) for item, _ in reversed(list(_top(getattr(statement, field))))]
+    stack = [(item, None, bound) for item in reversed(list(_top(getattr(statement, field))))]
     while stack:
         item, parent, bound = stack.pop()
         yield item, parent, bound
@@ -156,10 +156,13 @@ def _scoped(statement, field: str, local: Optional[str] = None):
                           else bound))
 
 
-def _top(root):
-    """The top-level items of a field (a node, an Ident or a tuple of them)."""
-    return ((item, None) for item in (root if isinstance(root, tuple) else (root,))
-            if item is not None)
+def _top(root) -> Iterator:
+    """The nodes and Idents of a field (tuples flattened), as ``walk`` reads them."""
+    if isinstance(root, tuple):
+        for item in root:
+            yield from _top(item)
+    elif isinstance(root, Ident) or is_dataclass(root):
+        yield root
 
 
 @dataclass(frozen=True)
