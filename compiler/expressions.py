@@ -13,12 +13,13 @@ extremization), a plain sympy expression.
 """
 from __future__ import annotations
 
+from contextlib import contextmanager
 from fractions import Fraction
 from typing import Callable, Union
 
 import sympy
 
-from . import notation
+from . import calls, expansions, notation
 from .algebra import budget, genera
 from .algebra.radicals import tidy
 from .algebra.genera import BundleValue
@@ -65,6 +66,26 @@ class Evaluator:
     def __init__(self, scope: Scope, path: str):
         self.scope = scope
         self.path = path
+        #: Local names (parameters, sum indices) in force: name -> (kind, value).
+        self.frames: list[dict] = []
+
+    def lookup(self, name: str, line: int, column: int):
+        """A local name first, then the document's."""
+        if self.frames and name in self.frames[-1]:
+            return self.frames[-1][name]
+        return self.scope.lookup(name, line, column)
+
+    @contextmanager
+    def frame(self, names: dict):
+        self.frames.append(names)
+        try:
+            yield
+        finally:
+            self.frames.pop()
+
+    def with_local(self, name: str, value) -> dict:
+        """The frame in force plus one local value."""
+        return {**(self.frames[-1] if self.frames else {}), name: ("value", value)}
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)
@@ -85,7 +106,7 @@ class Evaluator:
         return self.scope.ring.scalar(node.value)
 
     def _eval_Name(self, node: n.Name) -> Value:
-        kind, value = self.scope.lookup(node.id, node.line, node.column)
+        kind, value = self.lookup(node.id, node.line, node.column)
         if kind in ("bundle", "fiber"):
             raise self.fail(node, f"'{node.id}' is a {kind}; use it inside a class such as p1({node.id})"
                             if kind == "bundle" else f"'{node.id}' is a fiber; integrate over it")
@@ -151,6 +172,15 @@ class Evaluator:
             raise self.fail(node, f"'{node.func}' cannot be called here")
         return rule(self, node)
 
+    def _eval_Apply(self, node: n.Apply) -> Value:
+        return calls.apply(self, node)
+
+    def _eval_Sum(self, node: n.Sum) -> Value:
+        return calls.sum_or_prod(self, node)
+
+    def _eval_Expansion(self, node: n.Expansion) -> Value:
+        return expansions.expand(self, node)
+
     # ------------------------------------------------------------ helpers
 
     def arity(self, node: n.Call, count: int) -> None:
@@ -163,7 +193,7 @@ class Evaluator:
         arg = node.args[0]
         if not isinstance(arg, n.Name):
             raise self.fail(arg, f"{node.func}() takes a bundle name")
-        kind, _ = self.scope.lookup(arg.id, arg.line, arg.column)
+        kind, _ = self.lookup(arg.id, arg.line, arg.column)
         if kind != "bundle":
             raise self.fail(arg, f"{node.func}() takes a bundle, and '{arg.id}' is a {kind}")
         self.scope.note_class_use(arg.id, node.line)
@@ -178,7 +208,7 @@ class Evaluator:
     def construction(self, node):
         """A bundle construction inside ``ch(...)``: names, S, dual, +, *, wedge, sym."""
         if isinstance(node, n.Name):
-            kind, _ = self.scope.lookup(node.id, node.line, node.column)
+            kind, _ = self.lookup(node.id, node.line, node.column)
             if kind != "bundle":
                 raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle")
             self.scope.note_class_use(node.id, node.line)
