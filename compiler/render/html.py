@@ -137,7 +137,8 @@ def value_math(printer: MathMLPrinter, name: str, tree: list) -> Markup:
     cells = "".join(f'<mtr><mtd columnalign="right">{lhs if i == 0 else ""}</mtd>'
                     f'<mtd columnalign="left">{indent if i else ""}{row}</mtd></mtr>'
                     for i, row in enumerate(rows))
-    return math_element(f'<mtable columnalign="right left" columnspacing="0">{cells}</mtable>', display=True)
+    return math_element(f'<mtable displaystyle="true" columnalign="right left" columnspacing="0">{cells}</mtable>',
+                        display=True)
 
 
 def _extremum(check, printer: LatexPrinter) -> Markup:
