@@ -27,7 +27,7 @@ class Declared:
     """What a name stands for and where it was first bound."""
 
     name: str
-    kind: str  # symbol, convention, bundle, fiber, class, value
+    kind: str  # symbol, convention, bundle, gauge, fiber, class, value
     line: int
     column: int
 
@@ -153,6 +153,10 @@ RULES: dict[type, tuple] = {
                    Use("relations", expr_kinds=("symbol",)), _relations_not_evaluated),
     n.ConventionDecl: (Bind("name", "convention"),),
     n.BundleDecl: (Bind("names", "bundle"),),
+    n.GaugeDecl: (Use("rank_name", ("symbol",), "integer symbol for the rank"),
+                  Use("index_name", ("convention",), "convention for the trace index"),
+                  Bind("names", "gauge")),
+    n.Factorize: (Use("target"), *_OUT),
     n.SplitDecl: (Use("bundle", ("bundle",)), Use("parts", ("bundle",)), _not_into_itself),
     n.SurfaceFiber: (Use("genus"), Bind("name", "fiber"), Bind("tangent", "bundle")),
     n.SphereFiber: (Use("bundle", ("bundle",)), Bind("name", "fiber"), Bind("angular", "class")),
@@ -205,7 +209,7 @@ def resolve(path: str, statements, front_conventions, prose_refs) -> dict[str, D
         found = table.names.get(name)
         if found is None:
             table.problem(line, column, f"@{{{name}}}: unknown name '{name}'{table.suggest(name)}")
-        elif found.kind in ("bundle", "fiber"):
+        elif found.kind in ("bundle", "fiber", "gauge"):
             table.problem(line, column, f"@{{{name}}}: '{name}' is a {found.kind}, which has no value to show")
     if table.problems:
         raise DocumentError.of(sorted(table.problems, key=lambda p: (p.location.line, p.location.column)))

@@ -68,7 +68,19 @@ class Binary:
     column: int
 
 
-Expr = Union[Num, Name, Call, Unary, Binary]
+@dataclass(frozen=True)
+class RepSpec:
+    """A representation inside ``ch(G, ...)``/``tr(G, ..., k)``: a trade name
+    (``adjoint``, ``spinor+``, ``antisymmetric(3)``) or Dynkin labels ``[1, 0]``."""
+
+    name: str  # "" for Dynkin labels
+    power: Optional[int]
+    labels: tuple[int, ...]
+    line: int
+    column: int
+
+
+Expr = Union[Num, Name, Call, Unary, Binary, RepSpec]
 
 
 @dataclass(frozen=True)
@@ -210,6 +222,20 @@ class BundleDecl(_Statement):
     names: tuple[Ident, ...]
     bundle_kind: str  # "real", "complex" or "line"
     rank: Optional[int]  # None for line bundles
+    kind = "bundle"
+
+
+@dataclass(frozen=True)
+class GaugeDecl(_Statement):
+    """``bundle G: gauge SU(N), index t``: rank a literal or an integer symbol,
+    the trace index a rational literal or a convention."""
+
+    names: tuple[Ident, ...]
+    family: str
+    rank: Optional[int]
+    rank_name: Optional[Ident]
+    index: Optional[Fraction]
+    index_name: Optional[Ident]
     kind = "bundle"
 
 
@@ -356,8 +382,18 @@ class Plot(_Statement):
     kind = "plot"
 
 
+@dataclass(frozen=True)
+class Factorize(_Statement):
+    """``factorize I into 4, 8 -> X, Y``."""
+
+    target: Expr
+    degrees: tuple[int, ...]
+    outputs: tuple[Ident, ...]
+    kind = "factorize"
+
+
 Statement = Union[
-    SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
+    SymbolDecl, ConventionDecl, BundleDecl, GaugeDecl, Factorize, SplitDecl, SurfaceFiber,
     SphereFiber, GeneralFiber, Let, Substitute, Reduce, Integrate,
     Coefficients, Extremize, Check, Show, Table, Plot,
 ]

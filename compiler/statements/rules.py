@@ -12,6 +12,7 @@ from typing import Optional
 from compiler.statements import nodes as n
 from compiler.statements.core import Cursor, did_you_mean, equations, expr, expr_list
 from compiler.statements.fibers import fiber_rule
+from compiler.statements.gauge import factorize_rule, gauge_rule
 from compiler.statements.lexer import Token
 from compiler.statements.symbols import symbol_rule
 
@@ -31,6 +32,8 @@ def _convention(c: Cursor) -> n.ConventionDecl:
 def _bundle(c: Cursor) -> n.BundleDecl:
     names = c.name_list("a bundle name")
     c.expect(":")
+    if c.at_word("gauge"):
+        return gauge_rule(c, names)
     kind: Optional[Token] = None
     rank: Optional[int] = None
     rank_token: Optional[Token] = None
@@ -47,7 +50,7 @@ def _bundle(c: Cursor) -> n.BundleDecl:
             kind = c.next()
         elif token.kind == "name":
             c.fail(token, f"unknown bundle kind '{token.text}' (allowed: real, complex, "
-                          "line)" + did_you_mean(token.text, BUNDLE_KINDS))
+                          "line, gauge)" + did_you_mean(token.text, BUNDLE_KINDS + ("gauge",)))
         else:
             c.expected("real, complex, line or 'rank N'")
         if not c.accept(","):
@@ -279,4 +282,5 @@ RULES = {
     "show": _show,
     "table": _table,
     "plot": _plot,
+    "factorize": factorize_rule,
 }

@@ -1,0 +1,74 @@
+"""Built-ins on gauge bundles and chiral spinors: ch(G, rep), tr(G, rep, k), tr(G, k), pf(G), S+(B), S-(B).
+
+Each is a small function ``(evaluator, call node) -> value`` that the
+expression evaluator's table chooses; the group theory is in
+``algebra/gauge.py``.  A ``GroupError`` (an unknown representation, labels
+of the wrong length, a symbolic rank where only numeric ones are defined)
+becomes a located error with the group module's suggestion.
+"""
+from __future__ import annotations
+
+from functools import wraps
+
+from .algebra import gauge
+from .algebra.genera import BundleValue
+from .algebra.weights import GroupError
+from .statements import nodes as n
+
+_HOW = ("give a representation: a name such as adjoint, fundamental, vector, spinor+, "
+        "antisymmetric(3), or Dynkin labels such as [1, 0, 0]")
+
+
+def _located(rule):
+    @wraps(rule)
+    def checked(ev, node):
+        try:
+            return rule(ev, node)
+        except GroupError as exc:
+            raise ev.fail(node, str(exc)) from None
+    return checked
+
+
+def gauge_arg(ev, node: n.Call) -> gauge.GaugeBundle:
+    arg = node.args[0]
+    if not isinstance(arg, n.Name):
+        raise ev.fail(arg, f"{node.func}() takes a gauge bundle first")
+    kind, value = ev.scope.lookup(arg.id, arg.line, arg.column)
+    if kind != "gauge":
+        raise ev.fail(arg, f"{node.func}() with a representation takes a gauge bundle, "
+                           f"and '{arg.id}' is a {kind}")
+    return value
+
+
+def _rep(ev, node):
+    if not isinstance(node, n.RepSpec):
+        raise ev.fail(node, _HOW)
+    return (node.name or node.labels, node.power)
+
+
+@_located
+def character(ev, node: n.Call):
+    """ch(G, rep) = tr_rep exp(F)."""
+    bundle = gauge_arg(ev, node)
+    return gauge.character(ev.scope.ring, bundle, _rep(ev, node.args[1]))
+
+
+@_located
+def trace(ev, node: n.Call):
+    """tr(G, k): the trace in force; tr(G, rep, k): the trace in a representation."""
+    bundle = gauge_arg(ev, node)
+    degree = ev.integer_arg(node.args[-1])
+    if len(node.args) == 2:
+        return gauge.trace_in_force(ev.scope.ring, bundle, degree)
+    return gauge.trace(ev.scope.ring, bundle, _rep(ev, node.args[1]), degree)
+
+
+@_located
+def pfaffian(ev, node: n.Call):
+    return gauge.pfaffian(ev.scope.ring, gauge_arg(ev, node))
+
+
+def chiral_spinor(ev, node: n.Call) -> BundleValue:
+    """S+(B) or S-(B), a construction inside ch(...)."""
+    ev.arity(node, 1)
+    return BundleValue.chiral(ev.scope.bundles, ev.bundle_arg(node), 1 if node.func == "S+" else -1)
