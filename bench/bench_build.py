@@ -31,8 +31,10 @@ import sympy
 from sympy.core.cache import clear_cache
 
 from compiler.algebra.extremize import extremize
-from compiler.cache import CACHE_DIR
-from compiler.engine import CACHED, BuildOptions, Run, build, parse
+from compiler.engine.cache import CACHE_DIR
+from compiler.engine import BuildOptions, build, parse
+from compiler.engine.handlers import CACHED
+from compiler.engine.run import Run
 from compiler.errors import DocumentError
 from compiler.expressions import as_expr
 from compiler.statements import nodes as n
@@ -145,12 +147,12 @@ def maximize_side_by_side(source: Path) -> None:
         return
     run = Run(str(source), document, statements, BuildOptions(use_cache=False))
     run.execute(by_block)
-    f = as_expr(run.bindings[target.target.id].value)
-    v = run.symbols_by_name[target.variables[0].name].symbol
+    f = as_expr(run.scope.bindings[target.target.id].value)
+    v = run.scope.symbols_by_name[target.variables[0].name].symbol
 
     clear_cache()
     start = time.perf_counter()
-    result = extremize("maximize", f, [(v, None)], list(run.specs.values()), "bench")
+    result = extremize("maximize", f, [(v, None)], list(run.scope.specs.values()), "bench")
     ours = time.perf_counter() - start
     clear_cache()
     start = time.perf_counter()

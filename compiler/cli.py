@@ -8,6 +8,7 @@ status 2, and keeps Python tracebacks for anomark's own bugs (``--debug``).
 from __future__ import annotations
 
 import argparse
+import contextlib
 import os
 import re
 import signal
@@ -60,8 +61,10 @@ def parser() -> argparse.ArgumentParser:
                        help="recompute every step (default: reuse .anomark-cache/ beside the document)")
         p.add_argument("--quiet", action="store_true",
                        help="no summary or progress lines; problems are still printed")
-        p.add_argument("--time-limit", type=float, default=120.0, metavar="SECONDS",
-                       help="longest a single step may run (default: 120)")
+        p.add_argument("--time-limit", type=float, default=30.0, metavar="SECONDS",
+                       help="longest a single step may run (default: 30)")
+        p.add_argument("--build-time-limit", type=float, default=300.0, metavar="SECONDS",
+                       help="longest a whole build may run, reading included (default: 300)")
         p.add_argument("--debug", action="store_true", help="show tracebacks of internal errors")
 
     def output(p):
@@ -79,6 +82,8 @@ def parser() -> argparse.ArgumentParser:
 
     c = command("check", "compile and check without writing files", usage.CHECK, usage.CHECK_EPILOG)
     c.add_argument("files", nargs="+", metavar="FILE.md")
+    c.add_argument("--recompute", action="store_true",
+                   help="compute every step and report where the cache disagrees (default: reuse it)")
     common(c)
 
     d = command("diff", "what changed between two JSON records", usage.DIFF, usage.DIFF_EPILOG)
@@ -187,7 +192,8 @@ def options(args, path: str) -> BuildOptions:
             raise DocumentError(Location(path, 1, 1), f"--set {name.strip()}: {exc}") from None
     return BuildOptions(overrides=overrides, allow_html=args.allow_html,
                         use_cache=not args.no_cache, time_limit=args.time_limit,
-                        progress=progress_printer(args))
+                        build_time_limit=args.build_time_limit,
+                        recompute=getattr(args, "recompute", False), progress=progress_printer(args))
 
 
 def progress_printer(args):
@@ -238,16 +244,17 @@ def write_whole(files: dict[Path, bytes]) -> None:
         for target, data in files.items():
             target.parent.mkdir(parents=True, exist_ok=True)
             fd, tmp = tempfile.mkstemp(dir=target.parent, prefix=f".{target.name}.")
+            staged.append((tmp, target))
             with os.fdopen(fd, "wb") as handle:
                 handle.write(data)
             os.chmod(tmp, 0o666 & ~umask)
-            staged.append((tmp, target))
-    except BaseException:
+        while staged:
+            os.replace(*staged[0])
+            staged.pop(0)
+    finally:  # on any failure, no temporary file is left behind
         for tmp, _ in staged:
-            os.unlink(tmp)
-        raise
-    for tmp, target in staged:
-        os.replace(tmp, target)
+            with contextlib.suppress(OSError):
+                os.unlink(tmp)
 
 
 def cmd_build(args) -> int:
@@ -266,9 +273,22 @@ def output_folder(args) -> Path:
 
 def build_once(args, formats) -> int:
     """Compile ``args.file``, write its reports whole, and say what happened."""
+    out, source = output_folder(args), Path(args.file)
+    if out.exists() and not out.is_dir():
+        print(f"anomark: {out}: not a folder (-o names the output folder)", file=sys.stderr)
+        return 2
     report = compile_file(args, args.file)
     files = report_files(args, report, formats)
-    write_whole(files)
+    clash = [target for target in files if target.resolve() == source.resolve()]
+    if clash:
+        print(f"anomark: {clash[0]}: the output would overwrite the document itself; "
+              "choose another folder with -o", file=sys.stderr)
+        return 2
+    try:
+        write_whole(files)
+    except OSError as exc:
+        print(f"anomark: cannot write into {out}: {exc.strerror or exc}", file=sys.stderr)
+        return 2
     say(args, summary(args.file, report, files))
     return status_of(report)
 

@@ -19,7 +19,7 @@ from typing import Callable, Union
 import sympy
 
 from . import notation, representations
-from .algebra import genera
+from .algebra import budget, genera
 from .algebra.extremize import tidy
 from .algebra.genera import BundleValue
 from .algebra.graded import AlgebraError, Element, NotRational
@@ -43,6 +43,7 @@ class MissingValue(DocumentError):
     def __init__(self, location: Location, name: str, line: int):
         super().__init__(location, f"'{name}' has no value: the step at line {line} did not produce it")
         self.name = name
+        self.line = line  # the step that did not produce it
 
 
 #: Kinds of names that have no value of their own, and what to say instead.
@@ -78,6 +79,7 @@ class Evaluator:
     # ------------------------------------------------------------ node kinds
 
     def evaluate(self, node) -> Value:
+        budget.check()  # every node: a long evaluation stops at its deadline in any thread
         method = getattr(self, "_eval_" + type(node).__name__)
         try:
             return method(node)

@@ -115,6 +115,8 @@ class Report:
     diagnostics: list[str] = field(default_factory=list)
     #: Located problems that did not stop the build (a near-miss ``derive`` fence).
     warnings: list = field(default_factory=list)
+    #: How many steps were replayed from the build cache rather than computed.
+    cached_steps: int = 0
 
     @property
     def steps(self) -> list[Step]:

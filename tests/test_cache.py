@@ -14,10 +14,25 @@ import stat
 
 import pytest
 
-from compiler.cache import CACHE_DIR
 from compiler.engine import BuildOptions, build
+from compiler.engine.cache import CACHE_DIR, KEY_ENV, sign, signing_key
 from compiler.render.html import to_html
-from compiler.render.json import to_json
+from compiler.render.json import to_json as full_json
+
+
+@pytest.fixture(autouse=True)
+def key_folder(tmp_path_factory, monkeypatch):
+    """The signing secret in a folder of its own, outside every document folder."""
+    folder = tmp_path_factory.mktemp("key")
+    monkeypatch.setenv(KEY_ENV, str(folder))
+    return folder
+
+
+def to_json(report):
+    """The record without the count of cached steps (the one key a warm build changes)."""
+    record = json.loads(full_json(report))
+    record.pop("cached_steps")
+    return json.dumps(record)
 
 DOC = """# Cache
 
@@ -71,6 +86,8 @@ def test_warm_rebuild_is_identical_and_cached(tmp_path):
     assert not any(s.cached for s in cold.steps)
     steps = cacheable(warm)
     assert len(steps) == 11 and all(s.cached for s in steps)
+    assert (cold.cached_steps, warm.cached_steps) == (0, 11)
+    assert json.loads(full_json(warm))["cached_steps"] == 11
 
 
 def test_editing_a_statement_recomputes_it_and_its_dependents_only(tmp_path):
@@ -142,14 +159,20 @@ def test_a_corrupt_cache_file_is_ignored(tmp_path, garbage):
     json.loads(cache_file(tmp_path).read_text())  # rewritten whole
 
 
-def _damaged_builds(tmp_path, mutate):
-    """The record of a build over a cache whose first entry ``mutate`` damaged, and the reference."""
+def _damaged_builds(tmp_path, mutate, resign=True):
+    """The record of a build over a cache whose entry for ``a`` ``mutate`` damaged, and the
+    reference.  With ``resign`` the damaged entry is signed again with the user's own key: it
+    then stands for an entry this user's builds wrote (say, an older anomark) that is still
+    not what this version reads."""
     doc = tmp_path / "doc.md"
     reference = to_json(build_at(doc, use_cache=False))
     build_at(doc)
     data = json.loads(cache_file(tmp_path).read_text())
-    key = next(k for k, e in data["entries"].items() if "a" in e["outputs"])
-    mutate(data["entries"][key])
+    key = next(k for k, e in data["entries"].items() if "a" in e["entry"]["outputs"])
+    signed = data["entries"][key]
+    mutate(signed["entry"])
+    if resign:
+        signed["mac"] = sign(signing_key(), key, signed["entry"])
     cache_file(tmp_path).write_text(json.dumps(data))
     return reference, build_at(doc)
 

@@ -8,12 +8,16 @@ what the engine reports.
 """
 from __future__ import annotations
 
+import threading
 from fractions import Fraction
 
 import pytest
 
+from compiler import names
 from compiler.engine import BuildOptions, build
+from compiler.engine.handlers import CACHED, HANDLERS
 from compiler.errors import DocumentError
+from compiler.statements import nodes as n
 
 
 def compile_doc(tmp_path, *lines: str, front: str = "", **options):
@@ -330,6 +334,31 @@ def test_later_uses_of_a_failed_output_are_errors_reported_once(tmp_path):
     assert statuses(report, 5) == ["failed", "error", "error", "error", "proven"]
     about_z = [d for d in report.diagnostics if "'Z'" in d]
     assert len(about_z) == 1 and ":6:" in about_z[0]
+    # issue 10: one root cause prints one line; its follow-on uses a short count
+    assert len(report.diagnostics) == 2 and ":5:" in report.diagnostics[0]
+    assert about_z[0].endswith("(and 2 later steps for the same reason)")
+
+
+def test_a_chain_of_missing_values_counts_under_its_root(tmp_path):
+    # issue 10: a value computed from a missing one is missing too; still one line and a count
+    report = compile_doc(tmp_path, "bundle T: real, rank 4", "symbol x",
+                         "substitute x: x = p1(T) -> Z", "let u = Z + 1", "let v = u + 1",
+                         "let w = v + u")
+    assert statuses(report, 4) == ["failed", "error", "error", "error"]
+    assert len(report.diagnostics) == 2
+    assert ":5:9:" in report.diagnostics[1] and "(and 2 later steps" in report.diagnostics[1]
+
+
+@pytest.mark.parametrize("line, why", [
+    ("check p1(T) > 0", "inequalities compare class-free values only"),
+    ("check 1/x > 0 for x = 0", "denominator vanish"),
+])
+def test_a_check_whose_status_is_error_is_printed_at_its_line(tmp_path, line, why):
+    # issue 10: "Every step with status error prints its FILE:LINE:COL: message"
+    report = compile_doc(tmp_path, "bundle T: real, rank 4", "symbol x", line)
+    assert report.steps[-1].status == "error"
+    (message,) = report.diagnostics
+    assert message.startswith(f"{tmp_path / 'doc.md'}:4:1: could not decide") and why in message
 
 
 # ---------------------------------------------------------------- conventions
@@ -388,6 +417,47 @@ def test_time_limit_turns_a_heavy_step_into_an_error(tmp_path):
     heavy, after = report.steps[-2:]
     assert heavy.status == "error" and "time limit" in heavy.checks[-1].detail
     assert after.status == "proven"
+
+
+HEAVY_TABLE = ("symbol N: integer, positive", "let f = (N + 1)^400",
+               "table f for N = 1..9999", "let after = 1", "let later = 2")
+
+
+def in_a_thread(function):
+    """Run ``function`` in a worker thread, where no signal can interrupt it."""
+    out = {}
+    worker = threading.Thread(target=lambda: out.setdefault("result", function()))
+    worker.start()
+    worker.join()
+    return out["result"]
+
+
+def test_the_step_time_limit_holds_in_a_worker_thread(tmp_path):
+    # issue 10: "The time limit must work wherever the engine is called from, not only the main
+    # thread"; the table takes minutes, a hundred times the limit on any machine, while the
+    # other steps take milliseconds
+    report = in_a_thread(lambda: compile_doc(tmp_path, *HEAVY_TABLE, time_limit=3))
+    assert statuses(report, 2) == ["proven", "proven", "error", "proven", "proven"]
+    assert report.diagnostics == [f"{tmp_path / 'doc.md'}:4:1: the step time limit of 3 s "
+                                  "(--time-limit) exceeded"]
+
+
+@pytest.mark.parametrize("threaded", [False, True], ids=["main-thread", "worker-thread"])
+def test_the_build_time_limit_stops_the_rest_with_one_line(tmp_path, threaded):
+    # issue 10: "a total build time limit", "a located message naming the limit"
+    def heavy():
+        return compile_doc(tmp_path, *HEAVY_TABLE, time_limit=1000, build_time_limit=3)
+    report = in_a_thread(heavy) if threaded else heavy()
+    assert statuses(report, 2) == ["proven", "proven", "error", "error", "error"]
+    assert report.steps[-1].checks[0].detail == "not run: the build time limit was reached at line 4"
+    assert report.diagnostics == [f"{tmp_path / 'doc.md'}:4:1: the build time limit of 3 s "
+                                  "(--build-time-limit) exceeded (and 2 later steps for the same reason)"]
+
+
+def test_the_handler_table_covers_exactly_the_statement_kinds_of_the_name_pass():
+    # every statement the name pass knows has one handler, and no other
+    assert set(HANDLERS) == set(names.RULES)
+    assert CACHED < set(HANDLERS) and n.Let in CACHED and n.SymbolDecl not in CACHED
 
 
 # ---------------------------------------------------------------- step records

@@ -15,7 +15,7 @@ def _record(report=None) -> dict:
 
 def test_top_level_keys_in_spec_order():
     rec = _record()
-    assert list(rec) == ["tool", "document", "passed", "conventions", "steps", "values"]
+    assert list(rec) == ["tool", "document", "passed", "conventions", "steps", "values", "cached_steps"]
     assert rec["tool"] == {"name": "anomark", "version": "0.1.0"}
     assert rec["document"] == "derivations/twisted.md"
     assert rec["conventions"] == {"angular_integral": "2"}

@@ -16,7 +16,7 @@ from pathlib import Path
 
 import pytest
 
-from compiler.cache import CACHE_DIR
+from compiler.engine.cache import CACHE_DIR
 from compiler.engine import BuildOptions, build
 from compiler.errors import DocumentError
 from compiler.render.html import to_html

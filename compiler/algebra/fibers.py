@@ -104,11 +104,11 @@ def _generator(ring: Ring, key: str) -> Element:
     return ring.generator(key, g.degree, text=g.text, latex=g.latex, group=g.group)
 
 
-def _single_generator(element: Element, what: str) -> str:
-    """The key of an element that is exactly one generator."""
+def single_generator(element: Element) -> str | None:
+    """The key of an element that is exactly one generator, else None."""
     terms = element.terms()
     if len(terms) != 1 or len(terms[0][0]) != 1 or terms[0][0][0][1] != 1 or terms[0][1] != 1:
-        raise FiberError(f"{what} must be a single class, not {element.to_text()}")
+        return None
     return terms[0][0][0][0]
 
 
@@ -122,7 +122,10 @@ def surface_fiber(name: str, ring: Ring, group: int, genus, tangent_euler: Eleme
     genus = sympy.Integer(genus) if isinstance(genus, int) else genus
     if genus.is_integer is False or genus.is_negative:
         raise FiberError(f"the genus of {name} must be a nonnegative integer, not {genus}")
-    key = _single_generator(tangent_euler, f"the tangent Euler class of {name}")
+    key = single_generator(tangent_euler)
+    if key is None:
+        raise FiberError(f"the tangent Euler class of {name} must be a single class, "
+                         f"not {tangent_euler.to_text()}")
     info = ring.generator_info(key)
     if info.degree != 2 or info.group != group:
         raise FiberError(f"{info.text} must be a degree-2 class of the fiber {name}")

@@ -74,6 +74,7 @@ def to_record(report: Report) -> dict:
         "conventions": dict(report.conventions),
         "steps": [step_record(s) for s in report.steps],
         "values": {name: _value(v) for name, v in report.values.items()},
+        "cached_steps": report.cached_steps,
     }
 
 

@@ -1,88 +1,18 @@
-"""The build cache: each step's outcome kept as plain JSON beside the document.
+"""Cache entries as plain data: what a step showed and the exact values it bound.
 
-A step's key is made of its statement, the keys of the values it reads, the
-conventions, the truncation degree and the tool version (the engine computes
-it).  An entry holds what the step showed and the exact data of the values
-it bound, written by our own serializers: reading it back runs no code (no
-pickle, no parsing of expressions) and does no algebra.  The cache is never
-needed for correctness; an unreadable file or entry is ignored and rebuilt.
+Written by our own serializers and read back node by node: reading runs no
+code and no algebra beyond building the values.  Any part that is not what
+this version writes raises ValueError (the step is then recomputed).
 """
 from __future__ import annotations
 
 import dataclasses
-import hashlib
-import json
-import os
-import tempfile
-from pathlib import Path
 
 import sympy
 
-from .results import STATUSES, CheckResult, PlotData, TableData, ValueRecord
-
-CACHE_DIR = ".anomark-cache"
-FORMAT = 1
-
-
-def _fingerprint() -> str:
-    """The tool's own code, so a changed anomark never reuses old results
-    even when its version number has not moved."""
-    h = hashlib.sha256()
-    for path in sorted(Path(__file__).parent.rglob("*.py")):
-        h.update(path.read_bytes())
-    return h.hexdigest()[:16]
-
-
-CODE = _fingerprint()
-
-
-def digest(*parts) -> str:
-    """A stable key from JSON-ready parts."""
-    text = json.dumps(parts, sort_keys=True, separators=(",", ":"), default=str)
-    return hashlib.sha256(text.encode("utf-8")).hexdigest()[:32]
-
-
-class StepCache:
-    """Entries read from the last build; entries written by this one."""
-
-    def __init__(self, document: str, enabled: bool):
-        path = Path(document)
-        self.file = path.parent / CACHE_DIR / f"{path.name}.json"
-        self.enabled = enabled
-        self.old: dict = self._load() if enabled else {}
-        self.new: dict = {}
-
-    def _load(self) -> dict:
-        try:
-            data = json.loads(self.file.read_text(encoding="utf-8"))
-        except (OSError, ValueError):
-            return {}
-        if not isinstance(data, dict) or data.get("format") != FORMAT:
-            return {}
-        entries = data.get("entries")
-        return entries if isinstance(entries, dict) else {}
-
-    def get(self, key: str):
-        entry = self.old.get(key)
-        return entry if isinstance(entry, dict) else None
-
-    def put(self, key: str, entry: dict) -> None:
-        if self.enabled:
-            self.new[key] = entry
-
-    def save(self) -> None:
-        """Write the entries of this build whole, or leave the old file."""
-        if not self.enabled:
-            return
-        try:
-            self.file.parent.mkdir(exist_ok=True)
-            fd, tmp = tempfile.mkstemp(dir=self.file.parent, prefix=".tmp-")
-            with os.fdopen(fd, "w", encoding="utf-8") as handle:
-                json.dump({"format": FORMAT, "entries": self.new}, handle)
-            os.replace(tmp, self.file)
-        except OSError:
-            pass  # a read-only folder just means no cache
-
+from ..algebra.graded import Element
+from ..expressions import Missing
+from ..results import STATUSES, CheckResult, PlotData, TableData, ValueRecord
 
 # ---------------------------------------------------------------- step parts
 
@@ -189,3 +119,23 @@ def expr_from_data(data, symbols: dict) -> sympy.Expr:
     if kind == "symbol":
         return symbols[args]
     return _BUILDERS[kind](*[expr_from_data(a, symbols) for a in args])
+
+
+def value_to_data(value) -> dict:
+    """A bound value as data; ValueError if it is of a kind the cache cannot keep."""
+    if isinstance(value, Missing):
+        return {"missing": True}
+    if isinstance(value, Element):
+        return {"element": value.to_data()}
+    return {"expr": expr_to_data(value)}
+
+
+def value_from_data(ring, name: str, line: int, data, symbols: dict):
+    (kind, payload), = _dict(data).items()
+    if kind == "missing":
+        return Missing(name, line)
+    if kind == "element":
+        return ring.from_data(payload)
+    if kind == "expr":
+        return expr_from_data(payload, symbols)
+    raise ValueError(f"unknown cached value kind {kind!r}")

@@ -1,0 +1,35 @@
+"""Small pieces several handler families share: typed evaluation and the degree check."""
+from __future__ import annotations
+
+from ... import notation
+from ...algebra.graded import Element
+from ...expressions import Value
+from ...results import CheckResult
+from ...statements import nodes as n
+
+
+def element(scope, node, what: str) -> Element:
+    """Evaluate ``node``; a located error unless it is a ring element."""
+    value = scope.evaluate(node)
+    if not isinstance(value, Element):
+        raise scope.fail(node, f"{what} needs a polynomial in the classes, not {notation.text(value)}")
+    return value
+
+
+def relation(scope, eq: n.Equation) -> Element:
+    """``lhs == rhs`` (or a bare ``lhs``, meaning ``lhs == 0``) as ``lhs - rhs``."""
+    sides = [scope.evaluate(side) for side in (eq.lhs, eq.rhs) if side is not None]
+    if not all(isinstance(side, Element) for side in sides):
+        raise scope.fail(eq, "a relation must be a polynomial in the classes with "
+                             "rational-function coefficients")
+    return sides[0] - sides[1] if len(sides) == 2 else sides[0]
+
+
+def degree_check(value: Value) -> CheckResult:
+    """The automatic check every computed value carries: its form degrees."""
+    degrees = value.degrees() if isinstance(value, Element) else ([] if value == 0 else [0])
+    if not degrees:
+        return CheckResult("zero (passes every degree check)", "proven")
+    if len(degrees) == 1:
+        return CheckResult(f"homogeneous of degree {degrees[0]}", "proven")
+    return CheckResult("form degrees " + ", ".join(map(str, degrees)), "proven")

@@ -1,0 +1,117 @@
+"""Declaration handlers: symbols, conventions, bundles, splits and fibers.
+
+They build the ring every later value lives in, so they always run (never
+from the cache); each is ``(scope, statement, step) -> None``.
+"""
+from __future__ import annotations
+
+from ... import notation
+from ...algebra import bundles as bundles_mod, fibers as fibers_mod
+from ...expressions import as_expr
+from ...results import CheckResult, Step
+from ...statements import nodes as n
+from ..cache import digest
+from ..scope import fraction_text
+from .common import element, relation
+
+
+def _symbol(scope, s: n.SymbolDecl, step: Step) -> None:
+    for name in s.names:
+        scope.bind(name, "symbol", scope.symbols_by_name[name], s.line)
+    step.summary = ", ".join(s.names) + ": " + scope.symbols_by_name[s.names[0]].describe()
+
+
+def _convention(scope, s: n.ConventionDecl, step: Step) -> None:
+    value = scope.conventions[s.name]
+    scope.bind(s.name, "convention", scope.ring.scalar(value), s.line)
+    origin = "default" if value == s.value else "overridden"
+    step.summary = f"{s.name} = {fraction_text(value)} ({origin})"
+    step.values.append(scope.history[s.name][-1][1])
+
+
+def _bundle(scope, s: n.BundleDecl, step: Step) -> None:
+    for name in s.names:
+        scope.bundles.declare(name, s.bundle_kind, s.rank)
+        scope.bind(name, "bundle", name, s.line)
+    rank = f"rank {s.rank}" if s.rank is not None else "rank 1"
+    step.summary = f"{', '.join(s.names)}: {s.bundle_kind} bundle{'s' if len(s.names) > 1 else ''}, {rank}"
+
+
+def _split(scope, s: n.SplitDecl, step: Step) -> None:
+    used = scope.class_uses.get(s.bundle)
+    if used is not None:
+        raise scope.fail(s, f"'{s.bundle}' is split at line {s.line}, but a value at line {used} "
+                            "already uses its classes; move the split before line " + str(used))
+    parts = [p.name if p.name is not None else bundles_mod.Trivial(p.trivial) for p in s.parts]
+    scope.bundles.split(s.bundle, parts)
+    scope.keys[s.bundle] = digest(scope.keys.get(s.bundle), scope.step_key)
+    unit = scope.bundles.kind(s.bundle)
+    size = scope.bundles.rank if unit == "complex" else scope.bundles.real_rank
+    sizes = [str(size(p)) if isinstance(p, str) else str(p.rank) for p in parts]
+    account = f"{unit} rank {scope.bundles.rank(s.bundle)} = {' + '.join(sizes)}"
+    step.checks.append(CheckResult(f"ranks add up: {account}", "proven"))
+
+
+def _declare_fiber(scope, s, fiber, step: Step) -> None:
+    scope.bind(s.name, "fiber", fiber, s.line)
+    integrals = ", ".join(f"∫ {scope.ring.monomial(m).to_text()} = {v.to_text()}"
+                          for m, v in fiber.integrals.items())
+    step.summary = f"{s.name}: fiber of dimension {fiber.dimension}; {integrals}"
+
+
+def _surface(scope, s: n.SurfaceFiber, step: Step) -> None:
+    genus = as_expr(scope.evaluate(s.genus))
+    if genus.is_integer is not True:
+        raise scope.fail(s.genus, "the genus must be an integer or a symbol declared integer, "
+                                  f"not {notation.text(genus)}")
+    group = scope.new_group()
+    scope.bundles.declare(s.tangent, "real", 2, group=group)
+    scope.bind(s.tangent, "bundle", s.tangent, s.line)
+    tangent_euler = scope.bundles.euler(s.tangent)
+    _declare_fiber(scope, s, fibers_mod.surface_fiber(s.name, scope.ring, group, genus, tangent_euler),
+                   step)
+
+
+def _sphere(scope, s: n.SphereFiber, step: Step) -> None:
+    rank = scope.bundles.rank(s.bundle)
+    if scope.bundles.kind(s.bundle) != "real":
+        raise scope.fail(s, f"the sphere bundle needs a real bundle; {s.bundle} is complex")
+    top = scope.bundles.pontryagin(s.bundle, rank // 2) if rank % 2 else None
+    scope.note_class_use(s.bundle, s.line)
+    fiber = fibers_mod.sphere_fiber(
+        s.name, scope.ring, scope.new_group(), s.bundle, rank, top, s.angular,
+        scope.conventions["angular_integral"], planes=_planes(scope, s.bundle))
+    scope.bind(s.angular, "class", scope.ring.monomial([(s.angular, 1)]), s.line)
+    _declare_fiber(scope, s, fiber, step)
+
+
+def _planes(scope, bundle: str) -> list:
+    """Euler classes of the oriented planes B splits into, if it splits so."""
+    parts = scope.bundles.parts(bundle)
+    if not parts:
+        return []
+    planes = [p for p in parts if isinstance(p, str)]
+    trivial = sum(p.rank for p in parts if not isinstance(p, str))
+    if trivial != 1 or any(scope.bundles.real_rank(p) != 2 for p in planes):
+        return []
+    return [scope.bundles.euler(p) for p in planes]
+
+
+def _general(scope, s: n.GeneralFiber, step: Step) -> None:
+    group = scope.new_group()
+    classes = fibers_mod.declare_fiber_classes(
+        scope.ring, group, [(c.name, c.degree) for c in s.classes], s.dimension, s.name)
+    for c in s.classes:
+        scope.bind(c.name, "class", classes[c.name], c.line)
+    relations = [relation(scope, r) for r in s.relations]
+    integrals = [(element(scope, eq.lhs, "an integral"), element(scope, eq.rhs, "an integral"))
+                 for eq in s.integrals]
+    fiber = fibers_mod.general_fiber(s.name, scope.ring, group, s.dimension, relations, integrals)
+    _declare_fiber(scope, s, fiber, step)
+
+
+HANDLERS = {
+    n.SymbolDecl: _symbol, n.ConventionDecl: _convention, n.BundleDecl: _bundle,
+    n.SplitDecl: _split, n.SurfaceFiber: _surface, n.SphereFiber: _sphere,
+    n.GeneralFiber: _general,
+}

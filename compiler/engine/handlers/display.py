@@ -1,0 +1,80 @@
+"""Display handlers: show, table and plot put values into the report and bind nothing."""
+from __future__ import annotations
+
+from fractions import Fraction
+
+import sympy
+
+from ... import notation
+from ...algebra import budget
+from ...checks import free_symbols, show, substitute
+from ...expressions import as_expr, is_class_free
+from ...results import PlotData, Step, TableData
+from ...statements import nodes as n
+from ..scope import fraction_text, record
+
+#: Sample points along a plotted interval (both ends included).
+PLOT_SAMPLES = 121
+
+
+def _label(node) -> str:
+    return node.id if isinstance(node, n.Name) else ""
+
+
+def _show(scope, s: n.Show, step: Step) -> None:
+    for node in s.exprs:
+        step.values.append(record(_label(node), scope.evaluate(node)))
+
+
+def _table(scope, s: n.Table, step: Step) -> None:
+    values = [scope.evaluate(node) for node in s.exprs]
+    points = scope.points(s.clauses)
+    params = [c.name for c in s.clauses]
+    columns = [notation.name_latex(p) for p in params]
+    columns += [notation.name_latex(node.id) if isinstance(node, n.Name) else r"\cdots"
+                for node in s.exprs]
+    rows, text_rows = [], []
+    for point in points or [{}]:
+        budget.check()
+        cells = [substitute(scope.ring, v, point) for v in values]
+        coords = [point[scope.symbols_by_name[p].symbol] for p in params]
+        rows.append([notation.latex(c) for c in coords] + [record("", c).latex for c in cells])
+        text_rows.append([notation.text(c) for c in coords] + [show(c) for c in cells])
+    names = params + [_label(node) for node in s.exprs]
+    step.table = TableData(columns=columns, rows=rows, text_rows=text_rows, names=names)
+
+
+def _plot(scope, s: n.Plot, step: Step) -> None:
+    values = [scope.evaluate(node) for node in s.exprs]
+    var = scope.symbols_by_name[s.variable]
+    points = scope.points(s.clauses)
+    if len(points) > 1:
+        raise scope.fail(s, "plot takes one value for each parameter after for")
+    fixed = points[0] if points else {}
+    low, high = s.interval.low, s.interval.high
+    if not low < high:
+        raise scope.fail(s.interval, "the plot interval must have low < high")
+    xs = [low + (high - low) * Fraction(i, PLOT_SAMPLES - 1) for i in range(PLOT_SAMPLES)]
+    xs = [x for x in xs if var.admits(x)]
+    curves = {}
+    for node, value in zip(s.exprs, values):
+        value = substitute(scope.ring, value, fixed)
+        if not is_class_free(value):
+            raise scope.fail(node, "plot draws class-free values only")
+        expr = as_expr(value)
+        left = free_symbols(value) - {var.symbol}
+        if left:
+            raise scope.fail(node, "give values for " + ", ".join(sorted(x.name for x in left))
+                                   + " after for")
+        samples = []
+        for x in xs:
+            budget.check()
+            y = expr.subs(var.symbol, sympy.Rational(x.numerator, x.denominator)).evalf(20)
+            if y.is_real:
+                samples.append((float(x), float(y)))
+        curves[_label(node) or f"curve {len(curves) + 1}"] = samples
+    step.plot = PlotData(variable=s.variable, low=fraction_text(low), high=fraction_text(high),
+                         fixed={sym.name: notation.text(v) for sym, v in fixed.items()}, curves=curves)
+
+
+HANDLERS = {n.Show: _show, n.Table: _table, n.Plot: _plot}

@@ -1,0 +1,181 @@
+"""Operation handlers: let, substitute, reduce, integrate, coefficients, extremize.
+
+Each computes new values from the names it reads and binds them; the outcome
+depends on nothing else, so the cache layer may replay it.
+"""
+from __future__ import annotations
+
+import sympy
+
+from ... import notation
+from ...algebra import fibers as fibers_mod
+from ...algebra.extremize import ExtremizeError, extremize, tidy
+from ...algebra.graded import Element
+from ...checks import free_symbols
+from ...expressions import as_expr, is_class_free
+from ...results import CheckResult, Step
+from ...statements import nodes as n
+from ..scope import record
+from .common import degree_check, element, relation
+
+
+def _let(scope, s: n.Let, step: Step) -> None:
+    value = scope.evaluate(s.expr)
+    step.checks.append(degree_check(value))
+    scope.output(step, s.name, value, s.line)
+
+
+def _substitute(scope, s: n.Substitute, step: Step) -> None:
+    target = scope.evaluate(s.target)
+    whole = target if isinstance(target, Element) else None
+    present = whole.generator_keys() if whole is not None else set()
+    symbols = free_symbols(target)
+    mapping = {}
+    for pair in s.pairs:
+        lhs = element(scope, pair.lhs, "substitute")
+        rhs = scope.evaluate(pair.rhs)
+        key = _replaced(scope, pair.lhs, lhs)
+        if key in mapping:
+            raise scope.fail(pair, f"{lhs.to_text()} is substituted twice")
+        if key not in present and key not in symbols:
+            raise scope.fail(pair.lhs, f"{lhs.to_text()} does not occur in the expression (a typo?)")
+        degree = lhs.degrees()[0]
+        got = rhs.degrees() if isinstance(rhs, Element) else [0]
+        ok = not got or got == [degree]
+        replaced = f"degree {', '.join(map(str, got))}" if got else "0"
+        step.checks.append(CheckResult(
+            f"{lhs.to_text()} (degree {degree}) replaced by {replaced}",
+            "proven" if ok else "failed",
+            "" if ok else f"the right side has degree {', '.join(map(str, got))}, not {degree}"))
+        mapping[key] = rhs
+    if any(c.status == "failed" for c in step.checks):
+        scope.bind_missing(s.outputs, s.line)
+        return
+    if all(isinstance(v, Element) for v in mapping.values()) and whole is not None:
+        result = whole.substitute(mapping)
+    elif is_class_free(target) and all(isinstance(k, sympy.Symbol) for k in mapping):
+        # An irrational value (an extremum) put into a class-free expression.
+        exact = as_expr(target).subs({k: as_expr(v) for k, v in mapping.items()})
+        result = tidy(exact, list(scope.specs.values()))
+        if result.has(sympy.I):
+            raise scope.fail(s, f"the substitution makes the value complex: {notation.text(result)}")
+    else:
+        raise scope.fail(s, "an irrational value can only be substituted into a class-free expression")
+    step.checks.append(degree_check(result))
+    scope.output(step, s.outputs[0], result, s.line)
+
+
+def _replaced(scope, node, value: Element):
+    """The generator key (or symbol) a substitution's left side names."""
+    key = fibers_mod.single_generator(value)
+    if key is not None:
+        return key
+    terms = value.terms()
+    if len(terms) == 1 and not terms[0][0] and terms[0][1].is_Symbol:
+        return terms[0][1]
+    raise scope.fail(node, f"the left side {value.to_text()} is not a single class or symbol")
+
+
+def _reduce(scope, s: n.Reduce, step: Step) -> None:
+    target = element(scope, s.target, "reduce")
+    relations = [relation(scope, r) for r in s.relations]
+    for node, rel in zip(s.relations, relations):
+        if rel.is_class_free() and not rel.is_zero:
+            raise scope.fail(node, "a relation for reduce must involve classes; "
+                                   "to give a symbol a value use substitute or for")
+    basis = scope.ring.groebner(relations)
+    result = scope.ring.reduce(target, basis)
+    again = scope.ring.reduce(result, basis)
+    plural = "s" if len(relations) != 1 else ""
+    step.checks.append(CheckResult(f"normal form modulo {len(relations)} relation{plural} "
+                                   f"(basis of {len(basis)})",
+                                   "proven" if again == result else "failed"))
+    step.checks.append(degree_check(result))
+    scope.output(step, s.outputs[0], result, s.line)
+
+
+def _integrate(scope, s: n.Integrate, step: Step) -> None:
+    target = element(scope, s.target, "integrate")
+    _, fiber = scope.lookup(s.fiber, s.fiber_line, s.fiber_column)
+    result, checks = fibers_mod.integrate(target, fiber)
+    for c in checks:
+        step.checks.append(CheckResult(c.what, "proven" if c.ok else "failed", c.detail))
+    scope.output(step, s.outputs[0], result, s.line)
+
+
+def _coefficients(scope, s: n.Coefficients, step: Step) -> None:
+    target = element(scope, s.target, "coefficients")
+    if len(s.monomials) != len(s.outputs):
+        raise scope.fail(s, f"{len(s.monomials)} monomials but {len(s.outputs)} names after ->")
+    rest = target
+    for node, name in zip(s.monomials, s.outputs):
+        pairs = _written_monomial(scope, node)
+        if not scope.ring.is_normal_monomial(pairs):
+            raise scope.fail(node, f"{scope.ring.monomial_text(pairs)} is not a monomial of the normal form")
+        monomial = scope.ring.monomial(pairs)
+        coefficient = target.coefficient(monomial)
+        rest = rest - coefficient * monomial
+        scope.output(step, name, coefficient, s.line)
+    step.remainder = record("remainder", rest)
+    terms = len(rest.terms())
+    step.checks.append(CheckResult(
+        "every monomial read" if rest.is_zero else
+        f"the rest has {terms} term{'s' if terms != 1 else ''} (shown as remainder)", "proven"))
+
+
+def _written_monomial(scope, node) -> list:
+    """A monomial as the author wrote it, as (generator key, exponent) pairs
+    (``1`` is the empty monomial: the class-free part).
+
+    Read from the syntax tree rather than from its value, because evaluating
+    would already rewrite a non-normal monomial (``e(T4)^2`` into ``p2(T4)``)
+    and hide the mistake."""
+    if isinstance(node, n.Num) and node.value == 1:
+        return []
+    if isinstance(node, n.Binary) and node.op == "*":
+        return _written_monomial(scope, node.left) + _written_monomial(scope, node.right)
+    if isinstance(node, n.Binary) and node.op == "^":
+        k = scope.evaluator.integer_arg(node.right)
+        if k < 1:
+            raise scope.fail(node.right, "a monomial has positive exponents")
+        return [(key, e * k) for key, e in _written_monomial(scope, node.left)]
+    value = element(scope, node, "coefficients")
+    terms = value.terms()
+    if len(terms) == 1 and terms[0][1] == 1 and len(terms[0][0]) == 1:
+        return list(terms[0][0])  # a class, or a power of one (p1 of a plane is e^2)
+    raise scope.fail(node, f"{value.to_text()} is not a single class: coefficients reads monomials "
+                           "in the classes of the normal form")
+
+
+def _extremize(scope, s: n.Extremize, step: Step) -> None:
+    f = scope.evaluate(s.target)
+    if not is_class_free(f):
+        classes = ", ".join(sorted(f.generator_keys()))
+        raise scope.fail(s.target, f"{s.mode} needs a class-free expression; this one still contains "
+                                   f"{classes} (degrees {', '.join(map(str, f.degrees()))})")
+    variables = [(scope.symbols_by_name[v.name].symbol,
+                  None if v.interval is None else (v.interval.low, v.interval.high))
+                 for v in s.variables]
+    try:
+        expr = as_expr(f)
+        involved = [spec for spec in scope.specs.values() if spec.symbol in expr.free_symbols]
+        name = s.target.id if isinstance(s.target, n.Name) else "f"
+        result = extremize(s.mode, expr, variables, involved, scope.seed(s.line), name=name)
+    except ExtremizeError as exc:
+        if exc.status != "failed":
+            raise scope.fail(s, str(exc)) from None
+        step.checks.append(CheckResult("one admissible critical point", "failed", str(exc)))
+        scope.bind_missing(s.outputs, s.line)
+        return
+    for name, coordinate in zip(s.point, result.point):
+        scope.output(step, name, coordinate, s.line)
+    scope.output(step, s.value, result.value, s.line)
+    status = "proven" if result.settled == "symbolic" else "sampled"
+    step.checks.append(CheckResult("one admissible critical point", status,
+                                   result.account.replace("**", "^")))
+
+
+HANDLERS = {
+    n.Let: _let, n.Substitute: _substitute, n.Reduce: _reduce, n.Integrate: _integrate,
+    n.Coefficients: _coefficients, n.Extremize: _extremize,
+}

@@ -1,0 +1,206 @@
+"""The scope of one run: bindings, conventions, symbols, the ring, and value keys.
+
+Handlers read and bind names only through it; the evaluator sees it as its
+``expressions.Scope``.  Each binding also gets a cache key (its content for
+values, else the step that bound it), which the cache layer reads.
+"""
+from __future__ import annotations
+
+import itertools
+import math
+from dataclasses import dataclass
+from fractions import Fraction
+from pathlib import Path
+
+import sympy
+
+from .. import names as names_pass, notation
+from ..algebra import bundles as bundles_mod
+from ..algebra.graded import Element, Ring
+from ..algebra.sampling import SymbolSpec
+from ..checks import Context
+from ..errors import DocumentError, Location
+from ..expressions import Evaluator, Missing, MissingValue, Scope, Value, from_expr, rational_value
+from ..results import ValueRecord
+from ..statements import nodes as n
+from .cache import digest
+from .entries import value_to_data
+
+#: Most points a ``for`` list may expand to (every combination is computed).
+MAX_POINTS = 10_000
+
+
+@dataclass
+class Binding:
+    kind: str  # symbol, convention, bundle, fiber, class, value
+    value: object
+    line: int
+
+
+class DocScope(Scope):
+    """The namespace and the algebra of one document's run."""
+
+    def __init__(self, path: str, document, statements, overrides: dict):
+        self.path = path
+        self.conventions = _conventions(path, document, statements, overrides)
+        self.specs: dict[sympy.Symbol, SymbolSpec] = {}
+        self.symbols_by_name: dict[str, SymbolSpec] = {}
+        for s in statements:
+            if isinstance(s, n.SymbolDecl):
+                for name in s.names:
+                    bounds = [(b.op, b.value) for b in s.bounds if b.name == name]
+                    try:
+                        spec = SymbolSpec.declare(name, s.assumptions, bounds)
+                    except ValueError as exc:
+                        raise DocumentError(Location(path, s.line, s.column), str(exc)) from None
+                    self.symbols_by_name[name] = spec
+                    self.specs[spec.symbol] = spec
+        self.ring = Ring(list(self.specs), document.front.truncate)
+        self.bundles = bundles_mod.BundleTable(self.ring)
+        self.groups = 0
+        self.bindings: dict[str, Binding] = {}
+        self.history: dict[str, list[tuple[int, ValueRecord]]] = {}
+        self.class_uses: dict[str, int] = {}
+        self.evaluator = Evaluator(self, path)
+        self.keys: dict[str, str] = {}
+        # The declarations so far (symbols, bundles, splits, fibers), the
+        # conventions and the truncation: the ring every value lives in.
+        self.ring_key = digest("ring", self.ring.truncate, sorted(self.report_conventions().items()),
+                               [d.source for d in statements if isinstance(d, n.SymbolDecl)])
+        self.step_key = self.ring_key
+        for name, value in self.conventions.items():  # final values, in force from the start
+            self.bind(name, "convention", self.ring.scalar(value), 0)
+
+    def report_conventions(self) -> dict[str, str]:
+        return {k: fraction_text(v) for k, v in sorted(self.conventions.items())}
+
+    # ------------------------------------------------------------ names
+
+    def lookup(self, name: str, line: int, column: int):
+        binding = self.bindings.get(name)
+        if binding is None:
+            raise DocumentError(Location(self.path, line, column), f"unknown name '{name}'")
+        if isinstance(binding.value, Missing):
+            raise MissingValue(Location(self.path, line, column), name, binding.value.line)
+        if binding.kind == "symbol":
+            return "symbol", self.ring.symbol(binding.value.symbol)
+        return binding.kind, binding.value
+
+    def note_class_use(self, bundle: str, line: int) -> None:
+        """A value at ``line`` uses the classes of ``bundle`` and of its parts."""
+        self.class_uses.setdefault(bundle, line)
+        for part in self.bundles.parts(bundle) or ():
+            if isinstance(part, str):
+                self.note_class_use(part, line)
+
+    def bind(self, name: str, kind: str, value, line: int, shown: ValueRecord | None = None,
+             key: str | None = None) -> None:
+        """Bind ``name``; ``key`` is its cache key when known (a restored value)."""
+        self.bindings[name] = Binding(kind, value, line)
+        self.keys[name] = key or self.value_key(name, kind, value)
+        if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
+            if shown is None:
+                shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value)
+            self.history.setdefault(name, []).append((line, shown))
+
+    def bind_missing(self, names, line: int) -> None:
+        """Mark what a failed statement would have bound as having no value."""
+        for name in names:
+            binding = self.bindings.get(name)
+            self.bind(name, binding.kind if binding is not None else "value", Missing(name, line), line)
+
+    def value_key(self, name: str, kind: str, value) -> str:
+        """A value's cache key is its content, so an edit that gives the same
+        value again recomputes nothing downstream; anything else is keyed by
+        the step that bound it."""
+        if kind == "value" and not isinstance(value, Missing):
+            try:
+                return digest(self.ring_key, value_to_data(value))
+            except ValueError:  # a value the cache cannot keep
+                pass
+        return digest(self.step_key, name)
+
+    def output(self, step, name: str, value: Value, line: int) -> None:
+        """Bind an output and show it in the step."""
+        if isinstance(value, sympy.Expr):
+            value = from_expr(self.ring, value)
+        self.bind(name, "value", value, line)
+        step.values.append(self.history[name][-1][1])
+
+    def evaluate(self, expr) -> Value:
+        return self.evaluator.evaluate(expr)
+
+    def fail(self, node, message: str) -> DocumentError:
+        return DocumentError(Location(self.path, node.line, node.column), message)
+
+    def new_group(self) -> int:
+        """Each fiber owns the next block of the monomial order (a failed
+        declaration keeps its number, so no two fibers ever share one)."""
+        self.groups += 1
+        return self.groups
+
+    # ------------------------------------------------------------ sampling
+
+    def seed(self, line: int) -> str:
+        """Sample points are seeded by the document's file name and the line,
+        so however the path is typed (or wherever the folder moves) a build
+        sees the same points, and the cache beside it stays valid."""
+        return f"{Path(self.path).name}:{line}"
+
+    def context(self, line: int) -> Context:
+        return Context(self.ring, self.specs, self.seed(line))
+
+    def points(self, clauses) -> list[dict]:
+        """Every combination of a ``for`` list, checked against assumptions."""
+        axes = []
+        for c in clauses:
+            spec = self.symbols_by_name[c.name]
+            if c.range is not None:
+                low, high = c.range
+                if high - low >= MAX_POINTS:
+                    raise self.fail(c, f"the range {low}..{high} has more than {MAX_POINTS} values")
+                if low > high:
+                    raise self.fail(c, f"empty range {low}..{high}")
+                values = [Fraction(v) for v in range(low, high + 1)]
+            else:
+                value = rational_value(self.evaluate(c.value))
+                if value is None:
+                    raise self.fail(c, f"the value given to {c.name} must be an exact number")
+                values = [value]
+            for v in values:
+                if not spec.admits(v):
+                    raise self.fail(c, f"{c.name} = {fraction_text(v)} breaks its declaration "
+                                       f"({spec.describe()})")
+            axes.append([(spec.symbol, sympy.Rational(v.numerator, v.denominator)) for v in values])
+        total = math.prod(len(axis) for axis in axes)
+        if total > MAX_POINTS:
+            raise self.fail(clauses[0], f"the for ranges give {total} points; "
+                                        f"at most {MAX_POINTS} are checked")
+        return [dict(combo) for combo in itertools.product(*axes)] if axes else []
+
+
+def _conventions(path: str, document, statements, overrides: dict) -> dict[str, Fraction]:
+    """Convention values by precedence: --set, front matter, statement default."""
+    values = dict(names_pass.BUILTIN_CONVENTIONS)
+    for s in statements:
+        if isinstance(s, n.ConventionDecl):
+            values[s.name] = s.value
+    for entry in document.front.conventions:
+        values[entry.name] = entry.value
+    for name, value in overrides.items():
+        if name not in values:
+            raise DocumentError(Location(path, 1, 1),
+                                f"--set {name}: no convention of that name is declared")
+        values[name] = value
+    return {k: Fraction(v) for k, v in values.items()}
+
+
+def fraction_text(value: Fraction) -> str:
+    return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
+
+
+def record(name: str, value: Value) -> ValueRecord:
+    """A value as the renderers see it."""
+    if isinstance(value, Element):
+        return ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
+    return ValueRecord(name, notation.text(value), notation.latex(value), [] if value == 0 else [0])
