@@ -24,7 +24,8 @@ MAX_CHOICES = 100_000
 @dataclass(frozen=True)
 class Factorization:
     """`factors` has one element per requested degree (None if there is no such
-    factorization); `irreducible` lists (factor, form degree, multiplicity)."""
+    factorization), the content (the degree-0 factor) in the last one;
+    `irreducible` lists (factor, form degree, multiplicity)."""
 
     factors: tuple[Element, ...] | None
     content: Element
@@ -95,11 +96,13 @@ def factorize(value: Element, degrees: tuple[int, ...]) -> Factorization:
         return Factorization(None, content_element, tuple(irreducible))
     factors = []
     for i, counts in enumerate(choice):
-        out = content_element if i == 0 else ring.one()
+        out = content_element if i == len(choice) - 1 else ring.one()
         for (element, _, _), count in zip(irreducible, counts):
             if count:
                 out = out * element ** count
         factors.append(out)
+    if factors[0].terms()[0][1].could_extract_minus_sign():  # first factor's leading term positive
+        factors = [-factors[0]] + factors[1:-1] + [-factors[-1]]
     return Factorization(tuple(factors), content_element, tuple(irreducible))
 
 
