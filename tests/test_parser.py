@@ -388,6 +388,7 @@ def test_every_statement_word_has_a_form():
         show a
         table a
         plot a over x in 0..1
+        factorize a into 4, 8 -> u, v
     """
     kinds = [s.kind for s in parse(block)]
     assert set(kinds) == words.STATEMENT_WORDS
@@ -419,7 +420,7 @@ def test_every_statement_word_has_a_form():
                            " (use sqrt(x) for a square root)"),
     ("let y = x^2^3", 1, 12, "an exponent must be an integer literal; use parentheses,"
                              " as in (x^2)^3"),
-    ("let y = f(x)", 1, 9, "'f' is not a built-in function"),
+    ("let y = f(x)", 1, 9, "'f' is not a built-in function; did you mean 'pf'?"),
     ("let y = ahat(T)", 1, 9, "'ahat' is not a built-in function; did you mean 'Ahat'?"),
     ("let y = p1(T, U)", 1, 9, "p1() takes 1 argument, found 2"),
     ("let y = part(X)", 1, 9, "part() takes 2 arguments, found 1"),
@@ -448,7 +449,7 @@ def test_every_statement_word_has_a_form():
     ("symbol x, x", 1, 11, "'x' appears twice"),
     ("bundle B: real", 1, 11, "a real bundle needs its rank, as in 'real, rank 4'"),
     ("bundle B: cmplex, rank 2", 1, 11, "unknown bundle kind 'cmplex' (allowed: real, complex, "
-                                        "line); did you mean 'complex'?"),
+                                        "line, gauge); did you mean 'complex'?"),
     ("bundle B: real, rank 0", 1, 22, "the rank must be positive, not 0"),
     ("bundle B: line, rank 2", 1, 17, "a line bundle has rank 1"),
     ("bundle B: rank 2", 1, 1, "say what kind of bundle: real, complex or line"),

@@ -252,7 +252,7 @@ def _name_or_call(c: Cursor) -> n.Expr:
     c.next()
     args = [expr(c)]
     while c.accept(","):
-        if name in _REPRESENTATION_ARGUMENT and len(args) == 1 and _at_representation(c):
+        if name in _REPRESENTATION_ARGUMENT and len(args) == 1 and _at_representation(c, name):
             args.append(representation(c))
         else:
             args.append(expr(c))
@@ -274,9 +274,12 @@ def _chiral_spinor(c: Cursor, name: Token) -> Optional[str]:
     return None
 
 
-def _at_representation(c: Cursor) -> bool:
-    token = c.peek()
-    return c.at("[") or (token.kind == "name" and token.text in words.REPRESENTATION_WORDS)
+def _at_representation(c: Cursor, func: str) -> bool:
+    """The second argument of ch(G, rep), and of tr(G, rep, k) when a third follows."""
+    token, after = c.peek(), c.peek(1)
+    if c.at("[") or func == "ch":
+        return True
+    return token.kind == "name" and (token.text in words.REPRESENTATION_WORDS or after.text == ",")
 
 
 def representation(c: Cursor) -> n.RepSpec:
@@ -288,6 +291,10 @@ def representation(c: Cursor) -> n.RepSpec:
             labels.append(_small(c, "a Dynkin label"))
         c.expect("]")
         return n.RepSpec("", None, tuple(labels), start.line, start.column)
+    if start.kind != "name" or start.text not in words.REPRESENTATION_WORDS:
+        c.fail(start, "expected a representation: "
+               + ", ".join(sorted(words.REPRESENTATION_WORDS)) + " or Dynkin labels such as [1, 0]"
+               + (did_you_mean(start.text, words.REPRESENTATION_WORDS) if start.kind == "name" else ""))
     word = c.next().text
     sign = c.peek()
     if word == "spinor" and sign.kind == "op" and sign.text in "+-" and sign.column == start.end_column:
