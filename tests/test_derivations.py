@@ -86,7 +86,7 @@ def test_there_are_demo_documents():
     assert {
         "tensor-multiplet.md", "six-dimensional-gravity.md", "ten-dimensional-count.md",
         "four-manifold-genera.md", "brane-inflow.md", "twisted-compactification.md",
-        "general-fiber.md",
+        "general-fiber.md", "green-schwarz.md",
     } <= names
 
 
@@ -152,6 +152,25 @@ def test_ten_dimensional_count(built):
     assert_proven(record, "check k3 > 0 for n = 0..495")
     assert_proven(record, "check I12 == -1/384*p1(T10)*(3*p1(T10)^2 - 4*p2(T10)) for n = 496")
     assert record["values"]["I12"]["degrees"] == [12]
+
+
+def test_green_schwarz(built):
+    _, record, _ = built("green-schwarz.md")
+    # Green, Schwarz and Witten, Superstring Theory vol. 2 (1987), section 13.5
+    for claim in ("check tr(G, adjoint, 2) == 30*tr(G, 2)",
+                  "check tr(G, adjoint, 4) == 24*tr(G, 4) + 3*tr(G, 2)^2",
+                  "check tr(G, adjoint, 6) == 15*tr(G, 2)*tr(G, 4)",
+                  "check tr(E1, adjoint, 4) == tr(E1, adjoint, 2)^2/100",
+                  "check tr(E1, adjoint, 6) == tr(E1, adjoint, 2)^3/7200"):
+        assert_proven(record, claim)
+    # Green and Schwarz, Phys. Lett. B149 (1984): I12 = X4 X8 for SO(32) and E8 x E8
+    for step in ("factorize I12 into 4, 8 -> X4, X8", "factorize J12 into 4, 8 -> Y4, Y8",
+                 "factorize K12 into 4, 8 -> Z4, Z8"):
+        assert_proven(record, step)
+    assert_proven(record, "check X4 == a*(tr(G, 2) - trR2)")
+    assert_proven(record, "check X8 == b*(tr(G, 4) - 1/8*tr(G, 2)*trR2 + 1/32*trR2^2 + 1/8*trR4)")
+    assert_proven(record, "check Y4 == y*(tr(E1, 2) + tr(E2, 2) - trR2)")
+    assert record["values"]["X4"]["text"] == "tr(G, 2) - 2*p1(T)"
 
 
 def test_four_manifold_genera(built):
