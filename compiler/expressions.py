@@ -202,25 +202,40 @@ class Evaluator:
 # One small function per built-in; the table below chooses.
 
 def _pontryagin(ev: Evaluator, node: n.Call, i: int) -> Value:
+    if _built(node):
+        return representations.pontryagin_of(ev, node, i)
     return ev.scope.bundles.pontryagin(ev.bundle_arg(node), i)
 
 
 def _chern(ev: Evaluator, node: n.Call, i: int) -> Value:
+    if _built(node):
+        return representations.chern_of(ev, node, i)
     return ev.scope.bundles.chern(ev.bundle_arg(node), i)
+
+
+def _built(node: n.Call) -> bool:
+    """A class of a construction (``c2(wedge(V, 2))``) rather than of a declared bundle."""
+    return len(node.args) == 1 and not isinstance(node.args[0], n.Name)
 
 
 CLASS_RULES = {"p": _pontryagin, "c": _chern}
 
 
 def _euler(ev, node):
+    if _built(node):
+        return representations.euler_of(ev, node)
     return ev.scope.bundles.euler(ev.bundle_arg(node))
 
 
 def _total_p(ev, node):
+    if _built(node):
+        return representations.pontryagin_of(ev, node)
     return ev.scope.bundles.total_pontryagin(ev.bundle_arg(node))
 
 
 def _total_c(ev, node):
+    if _built(node):
+        return representations.chern_of(ev, node)
     return ev.scope.bundles.total_chern(ev.bundle_arg(node))
 
 

@@ -1,4 +1,5 @@
-"""Built-ins on gauge bundles and chiral spinors: ch(G, rep), tr(G, rep, k), tr(G, k), pf(G), S+(B), S-(B).
+"""Built-ins on gauge bundles, chiral spinors and constructions: ch(G, rep), tr(G, rep, k),
+tr(G, k), pf(G), S+(B), S-(B), and c, c_k, p, p_k, e of a bundle construction.
 
 Each is a small function ``(evaluator, call node) -> value`` that the
 expression evaluator's table chooses; the group theory is in
@@ -10,7 +11,7 @@ from __future__ import annotations
 
 from functools import wraps
 
-from .algebra import gauge
+from .algebra import gauge, newton
 from .algebra.genera import BundleValue
 from .algebra.weights import GroupError
 from .statements import nodes as n
@@ -72,3 +73,47 @@ def chiral_spinor(ev, node: n.Call) -> BundleValue:
     """S+(B) or S-(B), a construction inside ch(...)."""
     ev.arity(node, 1)
     return BundleValue.chiral(ev.scope.bundles, ev.bundle_arg(node), 1 if node.func == "S+" else -1)
+
+
+# ---------------------------------------------------------------- classes of constructions
+
+_COMPLEX_ONLY = frozenset({"S", "S+", "S-"})
+
+
+def _real(ev, node) -> bool:
+    """A construction from real bundles by sums, products, duals and powers is real;
+    spinors and complex bundles make it complex."""
+    if isinstance(node, n.Name):
+        return ev.scope.bundles.kind(node.id) == "real"
+    if isinstance(node, n.Binary):
+        return _real(ev, node.left) and _real(ev, node.right)
+    return node.func not in _COMPLEX_ONLY and _real(ev, node.args[0])
+
+
+def _construction(ev, node: n.Call):
+    ev.arity(node, 1)
+    value = ev.construction(node.args[0])
+    return value, _real(ev, node.args[0])
+
+
+def chern_of(ev, node: n.Call, index: int | None = None):
+    """c(X) or c_k(X) of a construction X (of its complexification when X is real)."""
+    value, _ = _construction(ev, node)
+    classes = newton.chern_classes(value.ch, value.rank)
+    if index is None:
+        return sum(classes, ev.scope.ring.zero())
+    return classes[index] if index < len(classes) else ev.scope.ring.zero()
+
+
+def pontryagin_of(ev, node: n.Call, index: int | None = None):
+    """p(X) or p_k(X): of X itself when real, of its underlying real bundle when complex."""
+    value, real = _construction(ev, node)
+    classes = newton.pontryagin_classes(value.ch, value.rank, real)
+    if index is None:
+        return sum(classes, ev.scope.ring.zero())
+    return classes[index] if index < len(classes) else ev.scope.ring.zero()
+
+
+def euler_of(ev, node: n.Call):
+    value, real = _construction(ev, node)
+    return newton.euler_class(value.ch, value.rank, real)

@@ -190,3 +190,25 @@ def test_the_trace_convention_is_stated_and_set_changes_it(tmp_path, capsys):
     assert status == 0, err
     assert "convention t = 60" in record["steps"][1]["summary"]
     assert record["values"]["q"]["text"] == "1/100*tr(E, 2)^2"
+
+
+def test_classes_of_constructions(tmp_path, capsys):
+    body = "\n".join([
+        "bundle V: complex, rank 3", "bundle W: complex, rank 2", "bundle B: real, rank 4",
+        # Whitney product formula (Milnor and Stasheff, Characteristic Classes, 1974, section 14)
+        "check c(V + W) == c(V)*c(W)",
+        "check p(B + B) == p(B)^2",
+        "check e(V + W) == c3(V)*c2(W)",
+        # c1 of a tensor product and of a dual (Milnor and Stasheff 1974, section 14)
+        "check c1(V*W) == 2*c1(V) + 3*c1(W)",
+        "check c(dual(V)) == 1 - c1(V) + c2(V) - c3(V)",
+        # c2 of wedge^2 of a rank-3 bundle, wedge^2 V = dual(V) (x) det V (common practice, no source)
+        "check c2(wedge(V, 2)) == c1(V)^2 + c2(V)",
+        # p1 of wedge^2 of a real rank-n bundle is (n - 2) p1 (common practice, no source)
+        "check p1(wedge(B, 2)) == 2*p1(B)",
+        "check p1(V + W) == p1(V) + p1(W)",
+        "show e(wedge(B, 2))",
+    ])
+    status, err, record = build(tmp_path, capsys, body)
+    assert status == 2 and "doc.md:18:" in err and "not determined by its Chern character" in err, err
+    assert all(c["status"] == "proven" for s in record["steps"][3:-1] for c in s["checks"])
