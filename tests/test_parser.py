@@ -173,7 +173,8 @@ def test_backslash_before_blank_line_ends_the_statement():
 
 def test_indented_line_outside_fiber_body_is_an_error():
     assert problem("let a = 1\n  let b = 2") == (
-        2, 3, "unexpected indentation: only the body lines of a 'fiber F: dimension n' are indented")
+        2, 3, "unexpected indentation: only the body lines of a 'fiber F: dimension n' or of "
+              "'matter' are indented")
 
 
 # ---------------------------------------------------------------- fibers
@@ -207,7 +208,7 @@ def test_blank_line_ends_fiber_body():
 
           integral x = 1
     """) == (4, 3, "unexpected indentation: only the body lines of a 'fiber F: dimension n' "
-                   "are indented")
+                   "or of 'matter' are indented")
 
 
 def test_fiber_body_is_followed_by_statements():
@@ -389,6 +390,8 @@ def test_every_statement_word_has_a_form():
         table a
         plot a over x in 0..1
         factorize a into 4, 8 -> u, v
+        matter I: dimension 4, tangent B
+          weyl+ 2 in V, (G, adjoint) charges L: 1/2
     """
     kinds = [s.kind for s in parse(block)]
     assert set(kinds) == words.STATEMENT_WORDS

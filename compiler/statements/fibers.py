@@ -29,6 +29,9 @@ class GeneralHeader:
     dimension: int
     span: dict
 
+    def open_body(self) -> "FiberBody":
+        return FiberBody(self)
+
 
 @dataclass
 class FiberBody:
@@ -42,8 +45,8 @@ class FiberBody:
     end_line: int = 0
     sources: list = field(default_factory=list)
 
-    def add(self, parsed: tuple[str, list], logical: LogicalLine) -> None:
-        kind, items = parsed
+    def add(self, c: Cursor, logical: LogicalLine) -> None:
+        kind, items = body_line(c)
         getattr(self, kind).extend(items)
         self.end_line = logical.end_line
         self.sources.append("  " + logical.source)

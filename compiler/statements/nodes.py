@@ -226,20 +226,6 @@ class BundleDecl(_Statement):
 
 
 @dataclass(frozen=True)
-class GaugeDecl(_Statement):
-    """``bundle G: gauge SU(N), index t``: rank a literal or an integer symbol,
-    the trace index a rational literal or a convention."""
-
-    names: tuple[Ident, ...]
-    family: str
-    rank: Optional[int]
-    rank_name: Optional[Ident]
-    index: Optional[Fraction]
-    index_name: Optional[Ident]
-    kind = "bundle"
-
-
-@dataclass(frozen=True)
 class SplitDecl(_Statement):
     bundle: Ident
     parts: tuple[SplitPart, ...]
@@ -382,18 +368,8 @@ class Plot(_Statement):
     kind = "plot"
 
 
-@dataclass(frozen=True)
-class Factorize(_Statement):
-    """``factorize I into 4, 8 -> X, Y``."""
-
-    target: Expr
-    degrees: tuple[int, ...]
-    outputs: tuple[Ident, ...]
-    kind = "factorize"
-
-
 Statement = Union[
-    SymbolDecl, ConventionDecl, BundleDecl, GaugeDecl, Factorize, SplitDecl, SurfaceFiber,
+    SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
     SphereFiber, GeneralFiber, Let, Substitute, Reduce, Integrate,
     Coefficients, Extremize, Check, Show, Table, Plot,
 ]

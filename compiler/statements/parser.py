@@ -1,8 +1,8 @@
 """Derive block text → statement nodes, through the rule tables.
 
 Each logical line is read by the rule its first word selects
-(``rules.RULES``); indented lines belong to the general fiber above them
-(``fibers.BODY_RULES``).  A bad statement yields exactly one problem (at the
+(``rules.RULES``); indented lines belong to the statement above them when
+its rule returned a header with a body (a general fiber, ``matter``).  A bad statement yields exactly one problem (at the
 offending token) and parsing goes on with the next line, so the author sees
 every bad line at once.  Nothing here evaluates anything: document text only
 ever becomes the frozen dataclasses of ``nodes``.
@@ -14,7 +14,7 @@ from typing import Optional
 from compiler.errors import DocumentError, Location, Problem
 from compiler.statements import nodes as n, words
 from compiler.statements.core import Cursor, did_you_mean
-from compiler.statements.fibers import BODY_WORDS, FiberBody, GeneralHeader, body_line
+from compiler.statements.fibers import BODY_WORDS, FiberBody
 from compiler.statements.lexer import Token, logical_lines
 from compiler.statements.rules import RULES
 
@@ -31,7 +31,7 @@ def parse_block(text: str, first_line: int, path: str,
     """
     statements: list[n.Statement] = []
     problems: list[Problem] = []
-    body: Optional[FiberBody] = None
+    body = None  # the collector of the header above indented lines (header None: skip them)
 
     def close_body():
         nonlocal body
@@ -49,10 +49,10 @@ def parse_block(text: str, first_line: int, path: str,
             if body is None:
                 problems.append(Problem(Location(path, first.line, first.column),
                                         "unexpected indentation: only the body lines of a "
-                                        "'fiber F: dimension n' are indented"))
+                                        "'fiber F: dimension n' or of 'matter' are indented"))
             elif body.header is not None:
                 try:
-                    body.add(body_line(cursor), logical)
+                    body.add(cursor, logical)
                 except DocumentError as exc:
                     problems.append(exc.problems[0])
             continue
@@ -62,17 +62,21 @@ def parse_block(text: str, first_line: int, path: str,
         except DocumentError as exc:
             problems.append(exc.problems[0])
             first = logical.tokens[0]
-            if first.kind == "name" and first.text == "fiber":
+            if first.kind == "name" and first.text in _WITH_BODY:
                 body = FiberBody(None)  # its body lines belong to the failed header
             continue
-        if isinstance(result, GeneralHeader):
-            body = FiberBody(result)
+        if hasattr(result, "open_body"):
+            body = result.open_body()
         else:
             statements.append(result)
     close_body()
     if problems:
         raise DocumentError.of(problems)
     return statements
+
+
+#: Statement words whose header may be followed by indented body lines.
+_WITH_BODY = ("fiber", "matter")
 
 
 def statement(c: Cursor):

@@ -13,6 +13,7 @@ from compiler.statements import nodes as n
 from compiler.statements.core import Cursor, did_you_mean, equations, expr, expr_list
 from compiler.statements.fibers import fiber_rule
 from compiler.statements.gauge import factorize_rule, gauge_rule
+from compiler.statements.matter import matter_rule
 from compiler.statements.lexer import Token
 from compiler.statements.symbols import symbol_rule
 
@@ -283,4 +284,5 @@ RULES = {
     "table": _table,
     "plot": _plot,
     "factorize": factorize_rule,
+    "matter": matter_rule,
 }

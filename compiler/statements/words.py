@@ -12,7 +12,7 @@ import re
 STATEMENT_WORDS = frozenset({
     "symbol", "convention", "bundle", "split", "fiber", "let", "substitute",
     "reduce", "integrate", "coefficients", "maximize", "minimize",
-    "extremize", "check", "show", "table", "plot", "factorize",
+    "extremize", "check", "show", "table", "plot", "factorize", "matter",
 })
 
 #: Built-in functions; a name is a function only in call position.
