@@ -86,7 +86,7 @@ def test_there_are_demo_documents():
     assert {
         "tensor-multiplet.md", "six-dimensional-gravity.md", "ten-dimensional-count.md",
         "four-manifold-genera.md", "brane-inflow.md", "twisted-compactification.md",
-        "general-fiber.md", "green-schwarz.md",
+        "general-fiber.md", "green-schwarz.md", "six-dimensional-gauge.md", "seiberg-duality.md",
     } <= names
 
 
@@ -171,6 +171,30 @@ def test_green_schwarz(built):
     assert_proven(record, "check X8 == b*(tr(G, 4) - 1/8*tr(G, 2)*trR2 + 1/32*trR2^2 + 1/8*trR4)")
     assert_proven(record, "check Y4 == y*(tr(E1, 2) + tr(E2, 2) - trR2)")
     assert record["values"]["X4"]["text"] == "tr(G, 2) - 2*p1(T)"
+    assert_proven(record, "check I12m == I12")
+    # Alvarez-Gaume and Witten, "Gravitational anomalies" (1984): type IIB cancels
+    assert_proven(record, "check IIB == 0")
+
+
+def test_six_dimensional_gauge(built):
+    _, record, _ = built("six-dimensional-gauge.md")
+    # Ohmori, Shimizu, Tachikawa and Yonekura, "Anomaly polynomial of general 6d SCFTs" (PTEP 2014)
+    assert_proven(record, "check V8 == -1/24*(adj4 + 6*c2R*adj2 + d*c2R^2) - 1/48*(adj2 + d*c2R)*p1(T) - d*grav")
+    assert_proven(record, "check H8 == 1/24*fund4 + 1/48*fund2*p1(T) + N*grav")
+    assert_proven(record, "check T8 == c2R^2/24 + c2R*p1(T)/48 + (23*p1(T)^2 - 116*p2(T))/5760")
+    # the same: SU(N) with 2N flavours has no irreducible tr F^4
+    assert_proven(record, "check k4 == 0")
+    assert record["values"]["k4m"]["text"] == "-1/24"
+
+
+def test_seiberg_duality(built):
+    _, record, _ = built("seiberg-duality.md")
+    # Seiberg, "Electric-magnetic duality in supersymmetric non-Abelian gauge theories" (1994)
+    assert_proven(record, "check Ie == Im2")
+    for claim in ("check 6*kRRR == Nc^2 - 1 - 2*Nc^4/Nf^2", "check -24*kR == -Nc^2 - 1",
+                  "check 6*kLLL == Nc", "check 2*kLLR == -Nc^2/Nf", "check 2*kLLB == Nc",
+                  "check 2*kBBR == -2*Nc^2"):
+        assert_proven(record, claim)
 
 
 def test_four_manifold_genera(built):
