@@ -4,7 +4,7 @@ from __future__ import annotations
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from algebra_support import table, whitney_sum
+from support import bundle_table as table, whitney_sum
 from compiler.algebra.bundles import Trivial
 from compiler.notation import name_latex
 from compiler.algebra.graded import AlgebraError
