@@ -71,6 +71,11 @@ class MatterDecl(n._Statement):
     fields: tuple[Field, ...]
     kind = "matter"
 
+    @property
+    def outputs(self) -> tuple[Ident, ...]:
+        """The polynomial it binds, as the outputs of a step (kept in the cache)."""
+        return (self.name,)
+
 
 @dataclass(frozen=True)
 class MatterHeader:
