@@ -29,7 +29,7 @@ def test_each_line_contributes_and_the_sum_is_bound(tmp_path, capsys):
     status, err, record = build(tmp_path, capsys, body, truncate=6)
     assert status == 0, err
     step = record["steps"][2]
-    assert [v["name"] for v in step["values"]] == ["weyl+ 3 charges L: 2", "weyl- charges L: 1", "I6"]
+    assert [v["name"] for v in step["values"]] == ["I6_weyl+", "I6_weyl-", "I6"]
     assert "anomaly polynomial of 2 kinds of fields in 4 dimensions" in step["summary"]
 
 

@@ -44,7 +44,8 @@ class GaugeBundle:
     def describe(self) -> str:
         base = self.group.base
         how = "its own trace" if self.scale == 1 else f"{_fraction(self.scale)} tr_{base}"
-        return (f"{self.name}: gauge bundle of {self.group}; tr = {how} (Dynkin index "
+        group = str(self.group) if self.rank is None else f"{self.group.family}({self.rank.to_text()})"
+        return (f"{self.name}: gauge bundle of {group}; tr = {how} (Dynkin index "
                 f"{_fraction(self.trace_index)}), F = i F_A / 2 pi, ch = tr exp(F)")
 
 
@@ -64,14 +65,15 @@ def _symbolic_basis(g: Group, top: int) -> tuple[Invariant, ...]:
 
 
 def text_of(name: str, g: Group, inv: Invariant) -> tuple[str, str]:
-    """The generator's text (it reads back with the parser) and LaTeX."""
+    """The generator's text (it reads back with the parser) and LaTeX (closed by a
+    parenthesis, so that a power of it is not a double superscript)."""
     field = f"F_{{{name}}}"
     if inv.kind == "pf":
         return f"pf({name})", rf"\mathrm{{Pf}}({field})"
     if inv.rep == g.base:
-        return f"tr({name}, {inv.degree})", rf"\mathrm{{tr}}\,{field}^{{{inv.degree}}}"
+        return f"tr({name}, {inv.degree})", rf"\mathrm{{tr}}({field}^{{{inv.degree}}})"
     return (f"tr({name}, {inv.rep}, {inv.degree})",
-            rf"\mathrm{{tr}}_{{\mathrm{{{inv.rep}}}}}\,{field}^{{{inv.degree}}}")
+            rf"\mathrm{{tr}}_{{\mathrm{{{inv.rep}}}}}({field}^{{{inv.degree}}})")
 
 
 def declare(ring: Ring, name: str, g: Group, trace_index: Fraction | None,

@@ -68,12 +68,23 @@ def _character(scope, s: nodes.MatterDecl, f: nodes.Field):
     return ch, r
 
 
+def _labels(s: nodes.MatterDecl) -> list[str]:
+    """I8_hyper, I8_vector, ... (numbered when a kind repeats): names the report typesets."""
+    kinds = [f.kind for f in s.fields]
+    seen: dict[str, int] = {}
+    out = []
+    for kind in kinds:
+        seen[kind] = seen.get(kind, 0) + 1
+        out.append(f"{s.name}_{kind}" + (f"_{seen[kind]}" if kinds.count(kind) > 1 else ""))
+    return out
+
+
 def _matter(scope, s: nodes.MatterDecl, step: Step) -> None:
     if not s.fields:
         raise scope.fail(s, f"matter {s.name} lists no fields: put them on indented lines below")
     bg = _background(scope, s)
     total = scope.ring.zero()
-    for f in s.fields:
+    for f, label in zip(s.fields, _labels(s)):
         try:
             anomalies.density(f.kind, s.dimension)
             ch, r = _character(scope, s, f)
@@ -83,7 +94,7 @@ def _matter(scope, s: nodes.MatterDecl, step: Step) -> None:
             part = anomalies.contribution(f.kind, s.dimension, bg, ch, r, count)
         except AlgebraError as exc:
             raise scope.fail(f, str(exc)) from None
-        step.values.append(record(f.text, part))
+        step.values.append(record(label, part))
         total = total + part
     step.summary = (f"{s.name}: anomaly polynomial of {len(s.fields)} kind"
                     f"{'s' if len(s.fields) != 1 else ''} of fields in {s.dimension} dimensions, "
