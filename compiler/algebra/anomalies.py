@@ -20,7 +20,8 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Callable
 
-from .graded import AlgebraError, Element
+from .element import Element
+from .errors import AlgebraError
 
 
 @dataclass(frozen=True)

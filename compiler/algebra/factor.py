@@ -15,7 +15,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from itertools import product
 
-from .graded import AlgebraError, Element
+from .element import Element
+from .errors import AlgebraError
 
 #: Most ways of grouping the irreducible factors that are tried.
 MAX_CHOICES = 100_000

@@ -19,7 +19,8 @@ from dataclasses import dataclass
 from fractions import Fraction
 from math import factorial
 
-from .graded import Element, Ring
+from .element import Element
+from .graded import Ring
 from .groups import CLASSICAL, Group, dimension, index, representation
 from .traces import MAX_DEGREE, Invariant, invariant_basis, symbolic_traces, traces
 from .weights import GroupError

@@ -12,7 +12,8 @@ from __future__ import annotations
 
 from math import factorial
 
-from .graded import AlgebraError, Element
+from .element import Element
+from .errors import AlgebraError
 
 
 def chern_classes(ch: Element, rank: int) -> list[Element]:

@@ -8,13 +8,18 @@ every line's contribution and binds the sum.
 from __future__ import annotations
 
 from ...algebra import anomalies, gauge, genera
-from ...algebra.graded import AlgebraError
+from ...algebra.errors import AlgebraError
 from ...algebra.weights import GroupError
 from ...expressions import is_class_free
 from ...results import Step
 from ...statements import matter as nodes
 from ..scope import record
 from .common import degree_check
+
+
+def _is_line(bundles, name: str) -> bool:
+    """A complex bundle of rank 1: charges are taken under it."""
+    return bundles.kind(name) == "complex" and bundles.rank(name) == 1
 
 
 def _background(scope, s: nodes.MatterDecl) -> anomalies.Background:
@@ -26,7 +31,7 @@ def _background(scope, s: nodes.MatterDecl) -> anomalies.Background:
         return anomalies.Background(**bg)
     kind, value = scope.lookup(s.r_symmetry, s.line, s.column)
     wanted = anomalies.R_SYMMETRY.get(s.dimension)
-    if wanted == "line" and kind == "bundle" and bundles.is_line(s.r_symmetry):
+    if wanted == "line" and kind == "bundle" and _is_line(bundles, s.r_symmetry):
         scope.note_class_use(s.r_symmetry, s.line)
         return anomalies.Background(**bg, r_line=bundles.chern(s.r_symmetry, 1))
     if wanted == "doublet" and kind == "gauge" and value.group.family in ("SU", "Sp") \
@@ -58,7 +63,7 @@ def _character(scope, s: nodes.MatterDecl, f: nodes.Field):
         q = scope.evaluate(charge.value)
         if not is_class_free(q):
             raise scope.fail(charge, "a charge is a number or an expression in the symbols")
-        if not scope.bundles.is_line(charge.bundle):
+        if not _is_line(scope.bundles, charge.bundle):
             raise scope.fail(charge, f"charges are under line bundles; '{charge.bundle}' is not one")
         if charge.bundle == s.r_symmetry and anomalies.uses_r_charge(f.kind):
             r = q
