@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from typing import Iterator, Optional
 
 from .errors import DocumentError, Location, Problem
-from .statements import gauge, matter, nodes as n
+from .statements import nodes as n
 from .statements.tree import Ident, walk
 
 #: "Did you mean" is searched for this many problems, then no more.
@@ -152,12 +152,12 @@ RULES: dict[type, tuple] = {
     n.SymbolDecl: (Bind("names", "symbol"),
                    Use("relations", expr_kinds=("symbol",)), _relations_not_evaluated),
     n.ConventionDecl: (Bind("name", "convention"),),
-    n.BundleDecl: (Bind("names", "bundle"),),
-    gauge.GaugeDecl: (Use("rank_name", ("symbol",), "integer symbol for the rank"),
+    n.BundleDecl: (Use("rank_name", ("symbol",), "integer symbol for the rank"), Bind("names", "bundle")),
+    n.GaugeDecl: (Use("rank_name", ("symbol",), "integer symbol for the rank"),
                   Use("index_name", ("convention",), "convention for the trace index"),
                   Bind("names", "gauge")),
-    gauge.Factorize: (Use("target"), *_OUT),
-    matter.MatterDecl: (Use("tangent", ("bundle",), "tangent bundle"),
+    n.Factorize: (Use("target"), *_OUT),
+    n.MatterDecl: (Use("tangent", ("bundle",), "tangent bundle"),
                         Use("r_symmetry", ("bundle", "gauge"), "R-symmetry bundle"),
                         Use("fields", ("bundle", "gauge"), "bundle"), Bind("name", "value")),
     n.SplitDecl: (Use("bundle", ("bundle",)), Use("parts", ("bundle",)), _not_into_itself),

@@ -1,18 +1,18 @@
 """Gauge bundles, representations, chiral spinors and factorization, each against a source."""
 from __future__ import annotations
 
-import json
 from fractions import Fraction as Q
 
 import pytest
 
-from compiler import cli
 from compiler.algebra import gauge, genera
 from compiler.algebra.bundles import BundleTable
+from compiler.algebra.errors import AlgebraError
 from compiler.algebra.factor import factorize
-from compiler.algebra.graded import AlgebraError, Ring
+from compiler.algebra.graded import Ring
 from compiler.algebra.groups import group
 from compiler.algebra.weights import GroupError
+from support import build_snippet
 
 
 def ten_dimensional(*groups, index=None):
@@ -121,16 +121,6 @@ def test_gauge_bundles_need_traces_up_to_the_truncation():
 
 # ---------------------------------------------------------------- through the command line
 
-def build(tmp_path, capsys, body: str, *extra: str, truncate: int = 8):
-    doc = tmp_path / "doc.md"
-    doc.write_text(f"---\ntitle: t\ntruncate: {truncate}\n---\n\n```derive\n{body}\n```\n", encoding="utf-8")
-    status = cli.main(["build", str(doc), "-o", str(tmp_path / "out"), "--format", "json",
-                       "--no-cache", "--quiet", *extra])
-    err = capsys.readouterr().err
-    record = tmp_path / "out" / "doc.json"
-    return status, err, json.loads(record.read_text()) if record.exists() else None
-
-
 BAD = [
     ("bundle G: gauge E9", 7, "unknown group 'E9'; known groups: SU, SO, Sp, G2, F4, E6, E7, E8"),
     ("bundle G: gauge Su(3)", 7, "unknown group 'Su'; did you mean SU?"),
@@ -150,7 +140,7 @@ BAD = [
 
 @pytest.mark.parametrize("body, line, message", BAD, ids=[b[2] for b in BAD])
 def test_bad_input_is_a_located_error(tmp_path, capsys, body, line, message):
-    status, err, _ = build(tmp_path, capsys, body)
+    status, err, _ = build_snippet(tmp_path, capsys, body)
     assert status == 2, err
     assert f"doc.md:{line}:" in err and message in err, err
     assert "Traceback" not in err and "internal error" not in err
@@ -166,13 +156,13 @@ def test_bad_input_is_a_located_error(tmp_path, capsys, body, line, message):
     ("let x = 1\nfactorize x into 4 -> a", "give the form degrees of 2 factors"),
 ])
 def test_bad_syntax_is_refused_before_building(tmp_path, capsys, body, message):
-    status, err, record = build(tmp_path, capsys, body)
+    status, err, record = build_snippet(tmp_path, capsys, body)
     assert status == 2 and message in err and record is None, err
 
 
 def test_a_class_that_does_not_factorize_fails_with_the_obstruction(tmp_path, capsys):
     body = "bundle G: gauge SU(5)\nfactorize tr(G, 2)^2 + tr(G, 4) into 4, 4 -> a, b\nshow a"
-    status, err, record = build(tmp_path, capsys, body)
+    status, err, record = build_snippet(tmp_path, capsys, body)
     assert status == 2  # the failed step leaves a without a value, so 'show a' is an error
     step = record["steps"][1]
     assert step["checks"][0]["status"] == "failed"
@@ -182,11 +172,11 @@ def test_a_class_that_does_not_factorize_fails_with_the_obstruction(tmp_path, ca
 def test_the_trace_convention_is_stated_and_set_changes_it(tmp_path, capsys):
     # Green, Schwarz and Witten vol. 2 (1987): E8 Tr F^4 = (Tr F^2)^2/100 in the adjoint
     body = "convention t = 2\nbundle E: gauge E8, index t\nlet q = tr(E, 4)"
-    status, err, record = build(tmp_path, capsys, body)
+    status, err, record = build_snippet(tmp_path, capsys, body)
     assert status == 0, err
     assert "Dynkin index 2" in record["steps"][1]["summary"]
     assert record["values"]["q"]["text"] == "3/10*tr(E, 2)^2"
-    status, err, record = build(tmp_path, capsys, body, "--set", "t=60")
+    status, err, record = build_snippet(tmp_path, capsys, body, "--set", "t=60")
     assert status == 0, err
     assert "convention t = 60" in record["steps"][1]["summary"]
     assert record["values"]["q"]["text"] == "1/100*tr(E, 2)^2"
@@ -209,6 +199,6 @@ def test_classes_of_constructions(tmp_path, capsys):
         "check p1(V + W) == p1(V) + p1(W)",
         "show e(wedge(B, 2))",
     ])
-    status, err, record = build(tmp_path, capsys, body)
+    status, err, record = build_snippet(tmp_path, capsys, body)
     assert status == 2 and "doc.md:18:" in err and "not determined by its Chern character" in err, err
     assert all(c["status"] == "proven" for s in record["steps"][3:-1] for c in s["checks"])

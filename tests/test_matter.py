@@ -1,21 +1,10 @@
 """Anomaly polynomials from field content (the matter statement), each against a source."""
 from __future__ import annotations
 
-import json
 
 import pytest
 
-from compiler import cli
-
-
-def build(tmp_path, capsys, body: str, truncate: int = 8):
-    doc = tmp_path / "doc.md"
-    doc.write_text(f"---\ntitle: t\ntruncate: {truncate}\n---\n\n```derive\n{body}\n```\n", encoding="utf-8")
-    status = cli.main(["build", str(doc), "-o", str(tmp_path / "out"), "--format", "json",
-                       "--no-cache", "--quiet"])
-    err = capsys.readouterr().err
-    record = tmp_path / "out" / "doc.json"
-    return status, err, json.loads(record.read_text()) if record.exists() else None
+from support import build_snippet
 
 
 def test_each_line_contributes_and_the_sum_is_bound(tmp_path, capsys):
@@ -26,7 +15,7 @@ def test_each_line_contributes_and_the_sum_is_bound(tmp_path, capsys):
                       "  weyl+ 3 charges L: 2",
                       "  weyl- charges L: 1",
                       "check I6 == 3*(8/6*c1(L)^3 - 2/24*p1(T)*c1(L)) - (1/6*c1(L)^3 - 1/24*p1(T)*c1(L))"])
-    status, err, record = build(tmp_path, capsys, body, truncate=6)
+    status, err, record = build_snippet(tmp_path, capsys, body, truncate=6)
     assert status == 0, err
     step = record["steps"][2]
     assert [v["name"] for v in step["values"]] == ["I6_weyl+", "I6_weyl-", "I6"]
@@ -38,7 +27,7 @@ def test_type_iib_is_free_of_gravitational_anomalies(tmp_path, capsys):
     # self-dual four-form (density -L/8) cancel in ten dimensions
     body = "\n".join(["bundle T: real, rank 10", "matter IIB: dimension 10, tangent T",
                       "  gravitino+", "  weyl-", "  selfdual+", "check IIB == 0"])
-    status, err, _ = build(tmp_path, capsys, body, truncate=12)
+    status, err, _ = build_snippet(tmp_path, capsys, body, truncate=12)
     assert status == 0, err
 
 
@@ -47,7 +36,7 @@ def test_two_zero_tensor_multiplet(tmp_path, capsys):
     # (Harvey, Minasian and Moore, "Non-abelian tensor-multiplet anomalies", JHEP 1998)
     body = "\n".join(["bundle T: real, rank 6", "matter Z8: dimension 6, tangent T", "  tensor20",
                       "check Z8 == (p1(T)^2 - 4*p2(T))/192"])
-    status, err, _ = build(tmp_path, capsys, body)
+    status, err, _ = build_snippet(tmp_path, capsys, body)
     assert status == 0, err
 
 
@@ -59,7 +48,7 @@ def test_two_dimensional_chiral_and_fermi_multiplets(tmp_path, capsys):
     body = "\n".join(["bundle T: real, rank 2", "bundle R: line", "symbol r",
                       "matter I4: dimension 2, tangent T, R_symmetry R",
                       "  chiral charges R: r", "  fermi charges R: r - 1", "check I4 == 0"])
-    status, err, _ = build(tmp_path, capsys, body, truncate=4)
+    status, err, _ = build_snippet(tmp_path, capsys, body, truncate=4)
     assert status == 0, err
 
 
@@ -79,7 +68,7 @@ BAD = [
 @pytest.mark.parametrize("body, line, message", BAD, ids=[b[2] for b in BAD])
 def test_bad_field_content_is_an_error_at_its_statement(tmp_path, capsys, body, line, message):
     head = "bundle T: real, rank 6\nbundle L: line\nbundle V: complex, rank 2\n"
-    status, err, _ = build(tmp_path, capsys, head + body)
+    status, err, _ = build_snippet(tmp_path, capsys, head + body)
     assert status == 2, err
     assert f"doc.md:{line + 3}:" in err and message in err, err
 
@@ -91,5 +80,5 @@ def test_bad_field_content_is_an_error_at_its_statement(tmp_path, capsys, body, 
     ("matter I: dimension 6, tangent X\n  weyl+", "unknown name 'X'"),
 ])
 def test_bad_matter_syntax_is_refused_before_building(tmp_path, capsys, body, message):
-    status, err, record = build(tmp_path, capsys, "bundle T: real, rank 6\n" + body)
+    status, err, record = build_snippet(tmp_path, capsys, "bundle T: real, rank 6\n" + body)
     assert status == 2 and message in err and record is None, err

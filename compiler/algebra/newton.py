@@ -17,9 +17,9 @@ from .errors import AlgebraError
 
 
 def chern_classes(ch: Element, rank: int) -> list[Element]:
-    """[c_0 = 1, c_1, ..., c_m], m = min(rank, truncate/2), from ch."""
+    """[c_0 = 1, c_1, ..., c_m], m = min(rank, truncate/2), from ch (a symbolic rank: truncate/2)."""
     ring = ch.ring
-    top = min(rank, ring.truncate // 2)
+    top = min(rank, ring.truncate // 2) if isinstance(rank, int) else ring.truncate // 2
     s = [None] + [ch.part(2 * k) * factorial(k) for k in range(1, top + 1)]
     c = [ring.one()]
     for k in range(1, top + 1):
@@ -43,7 +43,7 @@ def pontryagin_classes(ch: Element, rank: int, real: bool) -> list[Element]:
         return [ring.one()] + [c[2 * k] * (-1) ** k for k in range(1, (len(c) - 1) // 2 + 1)]
     c = chern_classes(ch, rank)
     total = sum(c, ring.zero()) * sum(_conjugate(c), ring.zero())
-    return [ring.one()] + [total.part(4 * k) * (-1) ** k for k in range(1, min(rank, ring.truncate // 4) + 1)]
+    return [ring.one()] + [total.part(4 * k) * (-1) ** k for k in range(1, len(c))]
 
 
 def euler_class(ch: Element, rank: int, real: bool) -> Element:
@@ -51,5 +51,8 @@ def euler_class(ch: Element, rank: int, real: bool) -> Element:
     if real:
         raise AlgebraError("the Euler class of a real construction is not determined by its "
                            "Chern character (its sign is not); write e of a declared bundle")
+    if not isinstance(rank, int):
+        raise AlgebraError("the Euler class of a construction of symbolic rank N is c_N: "
+                           "it has no fixed degree")
     c = chern_classes(ch, rank)
     return c[rank] if rank < len(c) else ch.ring.zero()

@@ -1,4 +1,4 @@
-"""Gauge bundles (``bundle G: gauge E8``) and the ``factorize`` statement: their nodes and rules.
+"""Rules for gauge bundles (``bundle G: gauge E8``) and the ``factorize`` statement.
 
 The group is read as a family word with a rank in parentheses (``SU(5)``,
 ``SO(N)`` with N an integer symbol) or an exceptional name (``E8``); which
@@ -7,13 +7,8 @@ the declaration runs, so its suggestions come from one place.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
-from fractions import Fraction
-from typing import Optional
-
 from compiler.statements import nodes as n
 from compiler.statements.core import Cursor, expr
-from compiler.statements.tree import Ident
 
 #: Largest numeric rank of a gauge group: weight systems stay small.
 MAX_GAUGE_RANK = 64
@@ -21,31 +16,7 @@ MAX_GAUGE_RANK = 64
 MAX_FACTORS = 2
 
 
-@dataclass(frozen=True)
-class GaugeDecl(n._Statement):
-    """``bundle G: gauge SU(N), index t``: rank a literal or an integer symbol,
-    the trace index a rational literal or a convention."""
-
-    names: tuple[Ident, ...]
-    family: str
-    rank: Optional[int]
-    rank_name: Optional[Ident]
-    index: Optional[Fraction]
-    index_name: Optional[Ident]
-    kind = "bundle"
-
-
-@dataclass(frozen=True)
-class Factorize(n._Statement):
-    """``factorize I into 4, 8 -> X, Y``."""
-
-    target: n.Expr
-    degrees: tuple[int, ...]
-    outputs: tuple[Ident, ...]
-    kind = "factorize"
-
-
-def gauge_rule(c: Cursor, names) -> GaugeDecl:
+def gauge_rule(c: Cursor, names) -> n.GaugeDecl:
     """After ``bundle NAMES:`` when the next word is ``gauge``."""
     c.expect_word("gauge")
     family = c.peek()
@@ -66,10 +37,10 @@ def gauge_rule(c: Cursor, names) -> GaugeDecl:
             index_name = c.name("a convention for the trace index")
         else:
             index = c.rational("the Dynkin index of the trace, such as 1, 2 or 1/2")
-    return GaugeDecl(tuple(names), family.text, rank, rank_name, index, index_name, **c.span)
+    return n.GaugeDecl(tuple(names), family.text, rank, rank_name, index, index_name, **c.span)
 
 
-def factorize_rule(c: Cursor) -> Factorize:
+def factorize_rule(c: Cursor) -> n.Factorize:
     target = expr(c)
     c.expect_word("into")
     degrees = [c.positive_integer("a form degree", 1000)]
@@ -77,4 +48,4 @@ def factorize_rule(c: Cursor) -> Factorize:
         degrees.append(c.positive_integer("a form degree", 1000))
     if len(degrees) != MAX_FACTORS:
         c.fail(c.peek(), f"give the form degrees of {MAX_FACTORS} factors, as in 'into 4, 8'")
-    return Factorize(target, tuple(degrees), c.outputs(len(degrees), "factorize"), **c.span)
+    return n.Factorize(target, tuple(degrees), c.outputs(len(degrees), "factorize"), **c.span)

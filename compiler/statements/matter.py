@@ -63,21 +63,6 @@ class Field:
 
 
 @dataclass(frozen=True)
-class MatterDecl(n._Statement):
-    name: Ident
-    dimension: int
-    tangent: Ident
-    r_symmetry: Optional[Ident]
-    fields: tuple[Field, ...]
-    kind = "matter"
-
-    @property
-    def outputs(self) -> tuple[Ident, ...]:
-        """The polynomial it binds, as the outputs of a step (kept in the cache)."""
-        return (self.name,)
-
-
-@dataclass(frozen=True)
 class MatterHeader:
     """``matter I: dimension d, tangent T``, waiting for its indented body."""
 
@@ -103,12 +88,12 @@ class MatterBody:
         self.end_line = logical.end_line
         self.sources.append("  " + logical.source)
 
-    def build(self) -> MatterDecl:
+    def build(self) -> n.MatterDecl:
         h = self.header
         span = dict(h.span)
         span["end_line"] = max(span["end_line"], self.end_line)
         span["source"] = "\n".join([span["source"], *self.sources])
-        return MatterDecl(h.name, h.dimension, h.tangent, h.r_symmetry, tuple(self.fields), **span)
+        return n.MatterDecl(h.name, h.dimension, h.tangent, h.r_symmetry, tuple(self.fields), **span)
 
 
 def matter_rule(c: Cursor) -> MatterHeader:

@@ -221,7 +221,8 @@ class ConventionDecl(_Statement):
 class BundleDecl(_Statement):
     names: tuple[Ident, ...]
     bundle_kind: str  # "real", "complex" or "line"
-    rank: Optional[int]  # None for line bundles
+    rank: Optional[int]  # None for line bundles and symbolic ranks
+    rank_name: Optional[Ident] = None  # a complex bundle's rank as an integer symbol
     kind = "bundle"
 
 
@@ -368,8 +369,47 @@ class Plot(_Statement):
     kind = "plot"
 
 
+@dataclass(frozen=True)
+class GaugeDecl(_Statement):
+    """``bundle G: gauge SU(N), index t``: rank a literal or an integer symbol,
+    the trace index a rational literal or a convention."""
+
+    names: tuple[Ident, ...]
+    family: str
+    rank: Optional[int]
+    rank_name: Optional[Ident]
+    index: Optional[Fraction]
+    index_name: Optional[Ident]
+    kind = "bundle"
+
+
+@dataclass(frozen=True)
+class Factorize(_Statement):
+    """``factorize I into 4, 8 -> X, Y``."""
+
+    target: Expr
+    degrees: tuple[int, ...]
+    outputs: tuple[Ident, ...]
+    kind = "factorize"
+
+
+@dataclass(frozen=True)
+class MatterDecl(_Statement):
+    name: Ident
+    dimension: int
+    tangent: Ident
+    r_symmetry: Optional[Ident]
+    fields: tuple  # of matter.Field, the indented lines
+    kind = "matter"
+
+    @property
+    def outputs(self) -> tuple[Ident, ...]:
+        """The polynomial it binds, as the outputs of a step (kept in the cache)."""
+        return (self.name,)
+
+
 Statement = Union[
-    SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
+    SymbolDecl, ConventionDecl, BundleDecl, GaugeDecl, SplitDecl, Factorize, MatterDecl, SurfaceFiber,
     SphereFiber, GeneralFiber, Let, Substitute, Reduce, Integrate,
     Coefficients, Extremize, Check, Show, Table, Plot,
 ]

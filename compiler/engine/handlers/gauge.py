@@ -11,12 +11,12 @@ from __future__ import annotations
 from ...algebra import factor, gauge, groups
 from ...algebra.weights import GroupError
 from ...results import CheckResult, Step
-from ...statements import gauge as gauge_nodes
+from ...statements import nodes as n
 from ..scope import fraction_text
 from .common import element
 
 
-def _group(scope, s: gauge_nodes.GaugeDecl) -> tuple[groups.Group, object]:
+def _group(scope, s: n.GaugeDecl) -> tuple[groups.Group, object]:
     """The group and, at symbolic rank, the rank symbol as a ring element."""
     if s.rank_name is None:
         return groups.group(s.family, s.rank), None
@@ -31,7 +31,7 @@ def _group(scope, s: gauge_nodes.GaugeDecl) -> tuple[groups.Group, object]:
     return groups.group(s.family), scope.ring.symbol(spec.symbol)
 
 
-def _gauge(scope, s: gauge_nodes.GaugeDecl, step: Step) -> None:
+def _gauge(scope, s: n.GaugeDecl, step: Step) -> None:
     index = s.index if s.index_name is None else scope.conventions[s.index_name]
     try:
         g, rank = _group(scope, s)
@@ -46,7 +46,7 @@ def _gauge(scope, s: gauge_nodes.GaugeDecl, step: Step) -> None:
         step.summary += f"; traces exact for every {s.rank_name}, as identities of invariant polynomials"
 
 
-def _factorize(scope, s: gauge_nodes.Factorize, step: Step) -> None:
+def _factorize(scope, s: n.Factorize, step: Step) -> None:
     target = element(scope, s.target, "factorize")
     result = factor.factorize(target, s.degrees)
     asked = f"factors of degrees {' and '.join(map(str, s.degrees))}"
@@ -67,5 +67,5 @@ def _factorize(scope, s: gauge_nodes.Factorize, step: Step) -> None:
         scope.output(step, name, value, s.line)
 
 
-DECLARATIONS = {gauge_nodes.GaugeDecl: _gauge}
-OPERATIONS = {gauge_nodes.Factorize: _factorize}
+DECLARATIONS = {n.GaugeDecl: _gauge}
+OPERATIONS = {n.Factorize: _factorize}

@@ -12,7 +12,7 @@ from ...algebra.errors import AlgebraError
 from ...algebra.weights import GroupError
 from ...expressions import is_class_free
 from ...results import Step
-from ...statements import matter as nodes
+from ...statements import matter, nodes as n
 from ..scope import record
 from .common import degree_check
 
@@ -22,7 +22,7 @@ def _is_line(bundles, name: str) -> bool:
     return bundles.kind(name) == "complex" and bundles.rank(name) == 1
 
 
-def _background(scope, s: nodes.MatterDecl) -> anomalies.Background:
+def _background(scope, s: n.MatterDecl) -> anomalies.Background:
     bundles = scope.bundles
     scope.note_class_use(s.tangent, s.line)
     bg = dict(ahat=genera.ahat(bundles, s.tangent), ch_tangent=genera.chern_character(bundles, s.tangent),
@@ -42,7 +42,7 @@ def _background(scope, s: nodes.MatterDecl) -> anomalies.Background:
                      if need else f"there are no R-symmetric multiplets in {s.dimension} dimensions here")
 
 
-def _character(scope, s: nodes.MatterDecl, f: nodes.Field):
+def _character(scope, s: n.MatterDecl, f: matter.Field):
     """ch of the field's representation and its R-charge (zero when not given)."""
     ring = scope.ring
     ch, r = ring.one(), ring.zero()
@@ -73,7 +73,7 @@ def _character(scope, s: nodes.MatterDecl, f: nodes.Field):
     return ch, r
 
 
-def _labels(s: nodes.MatterDecl) -> list[str]:
+def _labels(s: n.MatterDecl) -> list[str]:
     """I8_hyper, I8_vector, ... (numbered when a kind repeats): names the report typesets."""
     kinds = [f.kind for f in s.fields]
     seen: dict[str, int] = {}
@@ -84,7 +84,7 @@ def _labels(s: nodes.MatterDecl) -> list[str]:
     return out
 
 
-def _matter(scope, s: nodes.MatterDecl, step: Step) -> None:
+def _matter(scope, s: n.MatterDecl, step: Step) -> None:
     if not s.fields:
         raise scope.fail(s, f"matter {s.name} lists no fields: put them on indented lines below")
     bg = _background(scope, s)
@@ -108,4 +108,4 @@ def _matter(scope, s: nodes.MatterDecl, step: Step) -> None:
     scope.output(step, s.name, total, s.line)
 
 
-HANDLERS = {nodes.MatterDecl: _matter}
+HANDLERS = {n.MatterDecl: _matter}
