@@ -15,12 +15,12 @@ table; here they are only words.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Optional
 
 from compiler.statements import nodes as n
 from compiler.statements.core import Cursor, expr, representation
-from compiler.statements.lexer import LogicalLine
+from compiler.statements.fibers import Header
 from compiler.statements.tree import Ident
 
 #: Spacetime dimensions a matter statement accepts (anomalies live in even dimensions).
@@ -57,46 +57,12 @@ class Field:
     count: Optional[n.Expr]
     factors: tuple[Factor, ...]
     charges: tuple[Charge, ...]
-    text: str
     line: int
     column: int
 
 
-@dataclass(frozen=True)
-class MatterHeader:
-    """``matter I: dimension d, tangent T``, waiting for its indented body."""
-
-    name: Ident
-    dimension: int
-    tangent: Ident
-    r_symmetry: Optional[Ident]
-    span: dict
-
-    def open_body(self) -> "MatterBody":
-        return MatterBody(self)
-
-
-@dataclass
-class MatterBody:
-    header: Optional[MatterHeader]
-    fields: list = field(default_factory=list)
-    end_line: int = 0
-    sources: list = field(default_factory=list)
-
-    def add(self, c: Cursor, logical: LogicalLine) -> None:
-        self.fields.append(field_line(c, logical.source))
-        self.end_line = logical.end_line
-        self.sources.append("  " + logical.source)
-
-    def build(self) -> n.MatterDecl:
-        h = self.header
-        span = dict(h.span)
-        span["end_line"] = max(span["end_line"], self.end_line)
-        span["source"] = "\n".join([span["source"], *self.sources])
-        return n.MatterDecl(h.name, h.dimension, h.tangent, h.r_symmetry, tuple(self.fields), **span)
-
-
-def matter_rule(c: Cursor) -> MatterHeader:
+def matter_rule(c: Cursor) -> Header:
+    """The header; the indented lines below it are read by ``FIELD_RULES``."""
     name = c.name("a name for the anomaly polynomial")
     c.expect(":")
     c.expect_word("dimension")
@@ -115,16 +81,16 @@ def matter_rule(c: Cursor) -> MatterHeader:
         options[word.text] = c.name("a bundle name")
     if "tangent" not in options:
         c.fail(c.peek(), "name the tangent bundle: 'matter I: dimension 6, tangent T'")
-    return MatterHeader(name, dimension, options["tangent"], options.get("R_symmetry"), c.span)
+    tangent, r_symmetry = options["tangent"], options.get("R_symmetry")
+    return Header(FIELD_RULES, lambda parts, span: n.MatterDecl(
+        name, dimension, tangent, r_symmetry, tuple(parts.get("fields", ())), **span), c.span)
 
 
-def field_line(c: Cursor, source: str) -> Field:
-    """``KIND [COUNT] [in FACTOR, ...] [charges L: q, ...]``."""
-    c.lexing_problems()
-    start = c.peek()
-    kind = c.name("a kind of field, such as weyl+, hyper or vector")
+def _field(c: Cursor) -> tuple[str, list[Field]]:
+    """``KIND [COUNT] [in FACTOR, ...] [charges L: q, ...]``, after the kind's word."""
+    start = c.tokens[c.pos - 1]
     sign = c.peek()
-    text = str(kind)
+    text = start.text
     if sign.kind == "op" and sign.text in "+-" and sign.column == start.end_column:
         c.next()
         text += sign.text
@@ -144,8 +110,7 @@ def field_line(c: Cursor, source: str) -> Field:
         while c.accept(","):
             charges.append(_charge(c))
         c.no_duplicates([q.bundle for q in charges])
-    c.expect_end()
-    return Field(text, count, tuple(factors), tuple(charges), source.strip(), start.line, start.column)
+    return "fields", [Field(text, count, tuple(factors), tuple(charges), start.line, start.column)]
 
 
 def _factor(c: Cursor) -> Factor:
@@ -164,3 +129,10 @@ def _charge(c: Cursor) -> Charge:
     bundle = c.name("a line bundle")
     c.expect(":")
     return Charge(bundle, expr(c), bundle.line, bundle.column)
+
+
+#: The words a field line starts with (``weyl``, ``gravitino`` and ``selfdual`` take a
+#: chirality, ``weyl+``); which exist in which dimension is ``algebra/anomalies.py``'s table.
+FIELD_WORDS = ("weyl", "gravitino", "selfdual", "chiral", "fermi", "vector", "hyper", "tensor",
+               "tensor20")
+FIELD_RULES = {word: _field for word in FIELD_WORDS}

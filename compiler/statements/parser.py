@@ -1,10 +1,10 @@
 """Derive block text → statement nodes, through the rule tables.
 
 Each logical line is read by the rule its first word selects
-(``rules.RULES``); indented lines belong to the statement above them when
-its rule returned a header with a body (a general fiber, ``matter``).  A bad statement yields exactly one problem (at the
-offending token) and parsing goes on with the next line, so the author sees
-every bad line at once.  Nothing here evaluates anything: document text only
+(``rules.RULES``); indented lines belong to the fiber above them, read by
+the body rules its header names (``fibers.Header``).  A bad statement yields
+exactly one problem (at the offending token) and parsing goes on with the
+next line, so the author sees every bad line at once.  Nothing here evaluates anything: document text only
 ever becomes the frozen dataclasses of ``nodes``.
 """
 from __future__ import annotations
@@ -14,7 +14,7 @@ from typing import Optional
 from compiler.errors import DocumentError, Location, Problem
 from compiler.statements import nodes as n, words
 from compiler.statements.core import Cursor, did_you_mean
-from compiler.statements.fibers import BODY_WORDS, FiberBody
+from compiler.statements.fibers import BODY_WORDS, FiberBody, Header, body_line
 from compiler.statements.lexer import Token, logical_lines
 from compiler.statements.rules import RULES
 
@@ -31,7 +31,7 @@ def parse_block(text: str, first_line: int, path: str,
     """
     statements: list[n.Statement] = []
     problems: list[Problem] = []
-    body = None  # the collector of the header above indented lines (header None: skip them)
+    body: Optional[FiberBody] = None
 
     def close_body():
         nonlocal body
@@ -49,10 +49,11 @@ def parse_block(text: str, first_line: int, path: str,
             if body is None:
                 problems.append(Problem(Location(path, first.line, first.column),
                                         "unexpected indentation: only the body lines of a "
-                                        "'fiber F: dimension n' or of 'matter' are indented"))
+                                        "fiber ('dimension n', 'fixed points' or "
+                                        "'spindle') or of 'matter' are indented"))
             elif body.header is not None:
                 try:
-                    body.add(cursor, logical)
+                    body.add(body_line(cursor, body.header.rules), logical)
                 except DocumentError as exc:
                     problems.append(exc.problems[0])
             continue
@@ -62,21 +63,17 @@ def parse_block(text: str, first_line: int, path: str,
         except DocumentError as exc:
             problems.append(exc.problems[0])
             first = logical.tokens[0]
-            if first.kind == "name" and first.text in _WITH_BODY:
+            if first.kind == "name" and first.text in ("fiber", "matter"):
                 body = FiberBody(None)  # its body lines belong to the failed header
             continue
-        if hasattr(result, "open_body"):
-            body = result.open_body()
+        if isinstance(result, Header):
+            body = FiberBody(result)
         else:
             statements.append(result)
     close_body()
     if problems:
         raise DocumentError.of(problems)
     return statements
-
-
-#: Statement words whose header may be followed by indented body lines.
-_WITH_BODY = ("fiber", "matter")
 
 
 def statement(c: Cursor):
@@ -97,7 +94,7 @@ def statement(c: Cursor):
 
 def _unknown_statement(word: str, after: Token) -> str:
     if word in BODY_WORDS:
-        return f"'{word}' belongs in the indented body of a 'fiber F: dimension n'"
+        return f"'{word}' belongs in the indented body of a fiber"
     message = f"unknown statement '{word}'"
     if after.kind == "op" and after.text == "=":
         return message + f"; did you mean 'let {word} = ...'?"
