@@ -82,3 +82,16 @@ def test_bad_field_content_is_an_error_at_its_statement(tmp_path, capsys, body, 
 def test_bad_matter_syntax_is_refused_before_building(tmp_path, capsys, body, message):
     status, err, record = build_snippet(tmp_path, capsys, "bundle T: real, rank 6\n" + body)
     assert status == 2 and message in err and record is None, err
+
+
+def test_the_parser_knows_every_kind_of_field():
+    from compiler.algebra import anomalies
+    from compiler.statements.matter import FIELD_WORDS
+    kinds = set(anomalies.FIELDS) | {k for table in anomalies.MULTIPLETS.values() for k in table}
+    assert {k.rstrip("+-") for k in kinds} == set(FIELD_WORDS)
+
+
+def test_an_unknown_kind_of_field_is_refused_with_a_suggestion(tmp_path, capsys):
+    status, err, record = build_snippet(tmp_path, capsys, "bundle T: real, rank 6\n"
+                                        "matter I: dimension 6, tangent T\n  hypr 2")
+    assert status == 2 and record is None and "did you mean 'hyper'?" in err, err
