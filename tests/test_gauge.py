@@ -202,3 +202,29 @@ def test_classes_of_constructions(tmp_path, capsys):
     status, err, record = build_snippet(tmp_path, capsys, body)
     assert status == 2 and "doc.md:18:" in err and "not determined by its Chern character" in err, err
     assert all(c["status"] == "proven" for s in record["steps"][3:-1] for c in s["checks"])
+
+
+def test_symbolic_and_exceptional_traces_through_the_language(tmp_path, capsys):
+    body = "\n".join([
+        "symbol N: integer, N >= 3",
+        "bundle A: gauge SO(N)", "bundle C: gauge Sp(N)", "bundle E: gauge E6",
+        # adjoint indices 2 h^vee: SO(N) h = N - 2 (vector index 2), Sp(N) h = N + 1 (fundamental
+        # index 1) (van Ritbergen, Schellekens and Vermaseren, Int. J. Mod. Phys. A14, 1999)
+        "check tr(A, adjoint, 2) == (N - 2)*tr(A, 2)",
+        "check tr(C, adjoint, 2) == (2*N + 2)*tr(C, 2)",
+        # E6: the odd Casimirs are traces in the 27, its conjugate has the opposite odd traces,
+        # and the adjoint, a real representation, has none (common practice, no source)
+        "check tr(E, fundamental, 5) + tr(E, antifundamental, 5) == 0",
+        "check tr(E, adjoint, 5) == 0",
+        "check part(ch(E, fundamental), 0) == 27",
+        "show tr(E, fundamental, 5)",
+    ])
+    status, err, record = build_snippet(tmp_path, capsys, body, truncate=10)
+    assert status == 0, err
+    # the odd invariant is a generator of its own, and its text reads back
+    assert record["steps"][-1]["values"][0]["text"] == "tr(E, fundamental, 5)"
+
+
+def test_a_fractional_rank_is_refused(tmp_path, capsys):
+    status, err, record = build_snippet(tmp_path, capsys, "bundle G: gauge SU(5/2)")
+    assert status == 2 and record is None and "the rank of a group is a whole number" in err, err

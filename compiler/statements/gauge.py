@@ -29,6 +29,8 @@ def gauge_rule(c: Cursor, names) -> n.GaugeDecl:
             rank_name = c.name("an integer symbol for the rank")
         else:
             rank = c.positive_integer("the rank", MAX_GAUGE_RANK)
+            if c.at("/") or c.at("."):
+                c.fail(c.peek(), "the rank of a group is a whole number")
         c.expect(")")
     index = index_name = None
     if c.accept(","):
