@@ -23,6 +23,7 @@ def test_there_are_demo_documents():
         "tensor-multiplet.md", "six-dimensional-gravity.md", "ten-dimensional-count.md",
         "four-manifold-genera.md", "brane-inflow.md", "twisted-compactification.md",
         "general-fiber.md", "green-schwarz.md", "six-dimensional-gauge.md", "seiberg-duality.md",
+        "lines-on-hypersurfaces.md",
     } <= names
 
 
@@ -130,6 +131,16 @@ def test_seiberg_duality(bundled):
                   "check 6*kLLL == Nc", "check 2*kLLR == -Nc^2/Nf", "check 2*kLLB == Nc",
                   "check 2*kBBR == -2*Nc^2"):
         assert_proven(record, claim)
+
+
+def test_lines_on_hypersurfaces(bundled):
+    record = bundled("lines-on-hypersurfaces").record
+    # Cayley and Salmon (1849): 27 lines on a cubic surface; Schubert (1879): 2875 lines on a
+    # quintic threefold (as in Eisenbud and Harris, "3264 and All That", 2016, chapter 6)
+    assert_proven(record, "check lines_cubic == 27")
+    assert_proven(record, "check lines_quintic == 2875")
+    assert_proven(record, "check point4 == 1")
+    assert_proven(record, "check point5 == 1")
 
 
 def test_four_manifold_genera(bundled):
