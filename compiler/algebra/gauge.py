@@ -44,7 +44,7 @@ class GaugeBundle:
 
     def describe(self) -> str:
         base = self.group.base
-        how = "its own trace" if self.scale == 1 else f"{_fraction(self.scale)} tr_{base}"
+        how = f"tr_{base}" if self.scale == 1 else f"{_fraction(self.scale)} tr_{base}"
         group = str(self.group) if self.rank is None else f"{self.group.family}({self.rank.to_text()})"
         return (f"{self.name}: gauge bundle of {group}; tr = {how} (Dynkin index "
                 f"{_fraction(self.trace_index)}), F = i F_A / 2 pi, ch = tr exp(F)")
