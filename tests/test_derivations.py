@@ -121,6 +121,8 @@ def test_six_dimensional_gauge(bundled):
     # the same: SU(N) with 2N flavours has no irreducible tr F^4
     assert_proven(record, "check k4 == 0")
     assert record["values"]["k4m"]["text"] == "-1/24"
+    # Green, Schwarz and West, Nucl. Phys. B254 (1985): H - V + 29 T = 273
+    assert_proven(record, "check kp2 == -(H - V + 29*Tn - 273)/1440")
 
 
 def test_seiberg_duality(bundled):

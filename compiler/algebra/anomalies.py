@@ -10,7 +10,9 @@ charge r - 1, a vector multiplet a gaugino of charge 1 (4d N=1, 2d (0,2));
 a 6d (1,0) vector multiplet has a gaugino doublet of SU(2)_R of the other
 chirality, a tensor multiplet a self-dual form and a doublet fermion, a
 hypermultiplet one Weyl fermion (Ohmori, Shimizu, Tachikawa and Yonekura,
-"Anomaly polynomial of general 6d SCFTs", PTEP 2014).  The chirality "+"
+"Anomaly polynomial of general 6d SCFTs", PTEP 2014); the gravity multiplet
+a gravitino doublet and an anti-self-dual form (Green, Schwarz and West,
+"Anomaly-free chiral theories in six dimensions", Nucl. Phys. B254, 1985).  The chirality "+"
 is that of the 4d chiral multiplet's fermion, of the 6d hypermultiplet's
 and of the 2d (0,2) chiral multiplet's (right-moving) fermion.
 """
@@ -75,6 +77,12 @@ def _tensor(bg, x, r):
     return _selfdual(1)(bg, x, r) + bg.ahat * _doublet(bg) / 2
 
 
+def _gravity(bg, x, r):
+    """The 6d (1,0) gravity multiplet: a gravitino doublet of the gaugino's chirality and
+    a two-form of the opposite duality to the tensor multiplet's."""
+    return -_gravitino(1)(bg, x, r) * _doublet(bg) / 2 + _selfdual(-1)(bg, x, r)
+
+
 Density = Callable[[Background, Element, Element], Element]
 
 #: Any even dimension: the fields themselves.
@@ -94,7 +102,8 @@ MULTIPLETS: dict[int, dict[str, Density]] = {
     6: {"hyper": lambda bg, x, r: bg.ahat * x,
         "vector": lambda bg, x, r: -bg.ahat * x * _doublet(bg) / 2,
         "tensor": _tensor,
-        "tensor20": lambda bg, x, r: _tensor(bg, x, r) + bg.ahat},
+        "tensor20": lambda bg, x, r: _tensor(bg, x, r) + bg.ahat,
+        "gravity": _gravity},
 }
 
 #: Which R-symmetry bundle each dimension's multiplets use.

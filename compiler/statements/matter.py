@@ -134,5 +134,5 @@ def _charge(c: Cursor) -> Charge:
 #: The words a field line starts with (``weyl``, ``gravitino`` and ``selfdual`` take a
 #: chirality, ``weyl+``); which exist in which dimension is ``algebra/anomalies.py``'s table.
 FIELD_WORDS = ("weyl", "gravitino", "selfdual", "chiral", "fermi", "vector", "hyper", "tensor",
-               "tensor20")
+               "tensor20", "gravity")
 FIELD_RULES = {word: _field for word in FIELD_WORDS}
