@@ -228,3 +228,20 @@ def test_symbolic_and_exceptional_traces_through_the_language(tmp_path, capsys):
 def test_a_fractional_rank_is_refused(tmp_path, capsys):
     status, err, record = build_snippet(tmp_path, capsys, "bundle G: gauge SU(5/2)")
     assert status == 2 and record is None and "the rank of a group is a whole number" in err, err
+
+
+def test_the_curvature_factor_is_a_convention(tmp_path, capsys):
+    # ch = tr exp(c F): with c = -1 the odd Chern characters change sign (common practice,
+    # no source: the sign between Hermitian and anti-Hermitian curvatures)
+    body = "\n".join(["convention s = 1", "bundle G: gauge SU(5), index 1, curvature s",
+                      "let odd = part(ch(G, fundamental), 6)", "let even = part(ch(G, fundamental), 4)"])
+    for value, sign in (("1", ""), ("-1", "-")):
+        status, err, record = build_snippet(tmp_path, capsys, body, "--set", f"s={value}")
+        assert status == 0, err
+        assert record["values"]["odd"]["text"] == f"{sign}1/6*tr(G, 3)"
+        assert record["values"]["even"]["text"] == "1/2*tr(G, 2)"
+        assert f"convention s = {value}" in record["steps"][1]["summary"]
+    status, err, _ = build_snippet(tmp_path, capsys, "bundle G: gauge SU(5), curvature 0")
+    assert status == 2 and "must not be zero" in err, err
+    status, err, _ = build_snippet(tmp_path, capsys, "bundle G: gauge SU(5), index 1, index 2")
+    assert status == 2 and "'index' is given twice" in err, err

@@ -36,6 +36,7 @@ class GaugeBundle:
     base_index: Fraction
     rank: Element | None
     keys: tuple[tuple[Invariant, str], ...]
+    curvature: Fraction = Fraction(1)
 
     @property
     def scale(self) -> Fraction:
@@ -46,8 +47,9 @@ class GaugeBundle:
         base = self.group.base
         how = f"tr_{base}" if self.scale == 1 else f"{_fraction(self.scale)} tr_{base}"
         group = str(self.group) if self.rank is None else f"{self.group.family}({self.rank.to_text()})"
+        factor = "" if self.curvature == 1 else f"{_fraction(self.curvature)} "
         return (f"{self.name}: gauge bundle of {group}; tr = {how} (Dynkin index "
-                f"{_fraction(self.trace_index)}), F = i F_A / 2 pi, ch = tr exp(F)")
+                f"{_fraction(self.trace_index)}), ch = tr exp({factor}F) with {factor}F = i F_A / 2 pi")
 
 
 def _fraction(x: Fraction) -> str:
@@ -78,8 +80,9 @@ def text_of(name: str, g: Group, inv: Invariant) -> tuple[str, str]:
 
 
 def declare(ring: Ring, name: str, g: Group, trace_index: Fraction | None,
-            rank: Element | None = None) -> GaugeBundle:
-    """Register the generators of a gauge bundle of g in the ring."""
+            rank: Element | None = None, curvature: Fraction | None = None) -> GaugeBundle:
+    """Register the generators of a gauge bundle of g in the ring; the classes are traces of
+    F, with ch = tr exp(curvature F)."""
     base_index = _base_index(g)
     if trace_index is None:
         trace_index = base_index
@@ -99,7 +102,10 @@ def declare(ring: Ring, name: str, g: Group, trace_index: Fraction | None,
         text, latex = text_of(name, g, inv)
         ring.generator(text, 2 * inv.degree, text=text, latex=latex)
         keys.append((inv, text))
-    return GaugeBundle(name, g, Fraction(trace_index), base_index, rank, tuple(keys))
+    if curvature is not None and curvature == 0:
+        raise GroupError("the curvature factor must not be zero")
+    return GaugeBundle(name, g, Fraction(trace_index), base_index, rank, tuple(keys),
+                       Fraction(1 if curvature is None else curvature))
 
 
 def _invariant(ring: Ring, bundle: GaugeBundle, inv: Invariant) -> Element:
@@ -159,10 +165,10 @@ def trace_in_force(ring: Ring, bundle: GaugeBundle, degree: int) -> Element:
 
 
 def character(ring: Ring, bundle: GaugeBundle, rep) -> Element:
-    """ch_rep = sum_k tr_rep F^k / k! up to the truncation."""
+    """ch_rep = sum_k c^k tr_rep F^k / k! up to the truncation, c the curvature factor."""
     total = dim(ring, bundle, rep)
     for k in range(1, ring.truncate // 2 + 1):
-        total = total + trace(ring, bundle, rep, k) / factorial(k)
+        total = total + trace(ring, bundle, rep, k) * (bundle.curvature ** k / factorial(k))
     return total
 
 

@@ -14,6 +14,9 @@ from compiler.statements.core import Cursor, expr
 MAX_GAUGE_RANK = 64
 #: Most factors a factorization asks for.
 MAX_FACTORS = 2
+#: Options of a gauge declaration, each a rational literal or a convention.
+_OPTIONS = {"index": "the Dynkin index of the trace, such as 1, 2 or 1/2",
+            "curvature": "the factor of the curvature, such as 1 or -1"}
 
 
 def gauge_rule(c: Cursor, names) -> n.GaugeDecl:
@@ -32,14 +35,18 @@ def gauge_rule(c: Cursor, names) -> n.GaugeDecl:
             if c.at("/") or c.at("."):
                 c.fail(c.peek(), "the rank of a group is a whole number")
         c.expect(")")
-    index = index_name = None
-    if c.accept(","):
-        c.expect_word("index")
-        if c.peek().kind == "name":
-            index_name = c.name("a convention for the trace index")
-        else:
-            index = c.rational("the Dynkin index of the trace, such as 1, 2 or 1/2")
-    return n.GaugeDecl(tuple(names), family.text, rank, rank_name, index, index_name, **c.span)
+    options: dict = {}
+    while c.accept(","):
+        word = c.peek()
+        if word.kind != "name" or word.text not in _OPTIONS:
+            c.expected("'index' or 'curvature'")
+        if word.text in options:
+            c.fail(word, f"'{word.text}' is given twice")
+        c.next()
+        options[word.text] = (c.name("a convention") if c.peek().kind == "name"
+                              else c.rational(_OPTIONS[word.text]))
+    return n.GaugeDecl(tuple(names), family.text, rank, rank_name, options.get("index"),
+                       options.get("curvature"), **c.span)
 
 
 def factorize_rule(c: Cursor) -> n.Factorize:

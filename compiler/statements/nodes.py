@@ -411,15 +411,15 @@ class Plot(_Statement):
 
 @dataclass(frozen=True)
 class GaugeDecl(_Statement):
-    """``bundle G: gauge SU(N), index t``: rank a literal or an integer symbol,
-    the trace index a rational literal or a convention."""
+    """``bundle G: gauge SU(N), index t, curvature 1/2``: rank a literal or an integer
+    symbol; the trace index and the curvature factor rational literals or conventions."""
 
     names: tuple[Ident, ...]
     family: str
     rank: Optional[int]
     rank_name: Optional[Ident]
-    index: Optional[Fraction]
-    index_name: Optional[Ident]
+    index: Union[Fraction, Ident, None]
+    curvature: Union[Fraction, Ident, None]
     kind = "bundle"
 
 

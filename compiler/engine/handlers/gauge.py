@@ -12,6 +12,7 @@ from ...algebra import factor, gauge, groups
 from ...algebra.weights import GroupError
 from ...results import CheckResult, Step
 from ...statements import nodes as n
+from ...statements.tree import Ident
 from ..scope import fraction_text
 from .common import element
 
@@ -32,15 +33,17 @@ def _group(scope, s: n.GaugeDecl) -> tuple[groups.Group, object]:
 
 
 def _gauge(scope, s: n.GaugeDecl, step: Step) -> None:
-    index = s.index if s.index_name is None else scope.conventions[s.index_name]
+    index, curvature = (scope.conventions[x] if isinstance(x, Ident) else x
+                        for x in (s.index, s.curvature))
     try:
         g, rank = _group(scope, s)
-        declared = [gauge.declare(scope.ring, name, g, index, rank) for name in s.names]
+        declared = [gauge.declare(scope.ring, name, g, index, rank, curvature) for name in s.names]
     except GroupError as exc:
         raise scope.fail(s, str(exc)) from None
     for name, bundle in zip(s.names, declared):
         scope.bind(name, "gauge", bundle, s.line)
-    origin = f" (convention {s.index_name} = {fraction_text(index)})" if s.index_name else ""
+    origin = "".join(f" (convention {x} = {fraction_text(scope.conventions[x])})"
+                     for x in (s.index, s.curvature) if isinstance(x, Ident))
     step.summary = "; ".join(b.describe() for b in declared) + origin
     if rank is not None:
         step.summary += f"; traces exact for every {s.rank_name}, as identities of invariant polynomials"
