@@ -152,7 +152,7 @@ RULES: dict[type, tuple] = {
     n.SymbolDecl: (Bind("names", "symbol"),
                    Use("relations", expr_kinds=("symbol",)), _relations_not_evaluated),
     n.ConventionDecl: (Bind("name", "convention"),),
-    n.BundleDecl: (Use("rank_name", ("symbol",), "integer symbol for the rank"), Bind("names", "bundle")),
+    n.BundleDecl: (Bind("names", "bundle"),),
     n.GaugeDecl: (Use("rank_name", ("symbol",), "integer symbol for the rank"),
                   Use("index", ("convention",), "convention for the trace index"),
                   Use("curvature", ("convention",), "convention for the curvature factor"),

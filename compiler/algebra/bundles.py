@@ -10,10 +10,7 @@ again.  Conventions (spec, "Classes, normal form, truncation"):
 * real rank 2 (an oriented plane): only e, and p1 = e^2;
 * real rank 2n+1: p1..pn, no Euler class (it is 2-torsion, zero rationally);
 * complex rank n: c1..cn; p and e are those of the underlying real bundle,
-  sum (-1)^k p_k = c(V) c(dual V) and e = c_n (Milnor–Stasheff, Cor. 15.5);
-* complex rank N, an integer symbol (a ring element): c1..c_m up to the
-  truncation, independent, so every identity between them holds for every N
-  (the classes above N vanish when N is small); no Euler class, no split.
+  sum (-1)^k p_k = c(V) c(dual V) and e = c_n (Milnor–Stasheff, Cor. 15.5).
 """
 from __future__ import annotations
 
@@ -39,7 +36,7 @@ Part = Union[str, Trivial]
 class Bundle:
     name: str
     kind: str          # REAL or COMPLEX
-    rank: int | Element  # real rank for REAL, complex rank for COMPLEX (an Element: symbolic)
+    rank: int          # real rank for REAL, complex rank for COMPLEX
     group: int
     line: bool = False
     parts: tuple | None = None
@@ -49,10 +46,6 @@ class Bundle:
     @property
     def real_rank(self) -> int:
         return self.rank if self.kind == REAL else 2 * self.rank
-
-    @property
-    def symbolic(self) -> bool:
-        return not isinstance(self.rank, int)
 
 
 class BundleTable:
@@ -74,10 +67,7 @@ class BundleTable:
             kind, rank = COMPLEX, 1
         if kind not in (REAL, COMPLEX):
             raise AlgebraError(f"unknown bundle kind {kind!r} (expected real, complex or line)")
-        if isinstance(rank, Element):
-            if kind != COMPLEX:
-                raise AlgebraError(f"bundle {name}: a symbolic rank is for complex bundles")
-        elif isinstance(rank, bool) or not isinstance(rank, int) or rank < 1:
+        if isinstance(rank, bool) or not isinstance(rank, int) or rank < 1:
             raise AlgebraError(f"bundle {name} needs a positive integer rank, got {rank!r}")
         b = Bundle(name, kind, rank, group, line)
         self._bundles[name] = b
@@ -96,7 +86,7 @@ class BundleTable:
             return ring.generator(key, degree, text=key, latex=latex, group=b.group)
 
         if b.kind == COMPLEX:
-            for k in range(1, self._chern_count(b) + 1):
+            for k in range(1, b.rank + 1):
                 gen("c", k, 2 * k)
         elif b.rank == 2:
             gen("e", None, 2)
@@ -120,8 +110,6 @@ class BundleTable:
             raise AlgebraError(f"{name} cannot be split: its classes are already in use")
         if not parts:
             raise AlgebraError("a split needs at least one part")
-        if b.symbolic or any(isinstance(p, str) and self.get(p).symbolic for p in parts):
-            raise AlgebraError(f"{name} = ...: a bundle of symbolic rank cannot be split or be a part")
         total = 0
         for p in parts:
             if isinstance(p, Trivial):
@@ -178,10 +166,6 @@ class BundleTable:
     def parts(self, name: str) -> tuple[Part, ...] | None:
         return self.get(name).parts
 
-    def _chern_count(self, b: Bundle) -> int:
-        """How many Chern classes a complex bundle has: its rank, or up to the truncation."""
-        return self.ring.truncate // 2 if b.symbolic else b.rank
-
     def _gen(self, key: str) -> Element:
         return self.ring.gen(key)
 
@@ -191,10 +175,10 @@ class BundleTable:
     # -------------------------------------------------------------- classes
     def pontryagin(self, name: str, i: int) -> Element:
         b = self.get(name)
-        m = self._pontryagin_count(b)
+        m = b.real_rank // 2
         if isinstance(i, bool) or not isinstance(i, int) or i < 1:
             raise AlgebraError(f"Pontryagin classes are numbered from 1, got p{i}({name})")
-        if i > m and not b.symbolic:
+        if i > m:
             what = f"real rank {b.rank}" if b.kind == REAL else f"complex rank {b.rank}"
             have = f"its Pontryagin classes are p1..p{m}" if m else "it has no Pontryagin classes"
             raise AlgebraError(f"p{i}({name}) does not exist: {name} has {what}, so {have}")
@@ -207,8 +191,8 @@ class BundleTable:
             c = self.total_chern(name)
             cbar = self._conjugate(c)
             prod = c * cbar
-            return ring.one() + sum((prod.part(4 * k) * (-1) ** k
-                                     for k in range(1, self._chern_count(b) + 1)), ring.zero())
+            return ring.one() + sum((prod.part(4 * k) * (-1) ** k for k in range(1, b.rank + 1)),
+                                    ring.zero())
         if b.parts is not None:
             return self._over_parts(b, self.total_pontryagin)
         self._touch(b)
@@ -223,15 +207,10 @@ class BundleTable:
     def pontryagin_classes(self, name: str) -> list[Element]:
         """[p1, ..., pm] with m = real rank // 2 (for genera)."""
         total = self.total_pontryagin(name)
-        return [total.part(4 * k) for k in range(1, self._pontryagin_count(self.get(name)) + 1)]
-
-    def _pontryagin_count(self, b: Bundle) -> int:
-        return self.ring.truncate // 4 if b.symbolic else b.real_rank // 2
+        return [total.part(4 * k) for k in range(1, self.get(name).real_rank // 2 + 1)]
 
     def euler(self, name: str) -> Element:
         b = self.get(name)
-        if b.kind == COMPLEX and b.symbolic:
-            raise AlgebraError(f"e({name}) is c_N for the symbolic rank N: it has no fixed degree")
         if b.kind == COMPLEX:
             return self.chern(name, b.rank)
         if b.rank % 2:
@@ -265,7 +244,7 @@ class BundleTable:
             raise AlgebraError(f"c{i}({name}) does not exist: {name} is a real bundle")
         if isinstance(i, bool) or not isinstance(i, int) or i < 1:
             raise AlgebraError(f"Chern classes are numbered from 1, got c{i}({name})")
-        if not b.symbolic and i > b.rank:
+        if i > b.rank:
             raise AlgebraError(f"c{i}({name}) does not exist: {name} has complex rank {b.rank}, "
                                f"so its Chern classes are c1..c{b.rank}")
         return self.total_chern(name).part(2 * i)
@@ -288,13 +267,13 @@ class BundleTable:
             return self._over_parts(b, self.total_chern)
         self._touch(b)
         total = ring.one()
-        for k in range(1, self._chern_count(b) + 1):
+        for k in range(1, b.rank + 1):
             total = total + self._gen(f"c{k}({name})")
         return total
 
     def chern_classes(self, name: str) -> list[Element]:
         total = self.total_chern(name)
-        return [total.part(2 * k) for k in range(1, self._chern_count(self.get(name)) + 1)]
+        return [total.part(2 * k) for k in range(1, self.get(name).rank + 1)]
 
     @staticmethod
     def _conjugate(x: Element) -> Element:

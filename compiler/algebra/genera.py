@@ -183,7 +183,7 @@ def _newton_power_sums(sigmas: list[Element], n: int, one: Element) -> list[Elem
 class BundleValue:
     """A (complex) bundle built by constructions, known through rank and Chern character."""
 
-    rank: int | Element  # an Element for a symbolic rank
+    rank: int
     ch: Element
 
     @classmethod
@@ -209,7 +209,6 @@ class BundleValue:
     @classmethod
     def spinor(cls, table: BundleTable, name: str) -> "BundleValue":
         """The Dirac spinor bundle S(B): ch = prod over roots of 2 cosh(x_i/2)."""
-        _numeric_rank(table, name, "S")
         sigmas = table.pontryagin_classes(name)
         return cls(2 ** len(sigmas), _genus(table, "spinor", sigmas, 4))
 
@@ -217,7 +216,6 @@ class BundleValue:
     def chiral(cls, table: BundleTable, name: str, sign: int) -> "BundleValue":
         """S+ (sign 1) or S- (sign -1) of a bundle of even real rank:
         ch(S+) - ch(S-) = prod 2 sinh(x_i/2) = e(B) prod sinh(x_i/2)/(x_i/2)."""
-        _numeric_rank(table, name, "S+ and S-")
         if table.real_rank(name) % 2:
             raise AlgebraError(f"S+ and S- need a bundle of even rank; {name} has rank "
                                f"{table.real_rank(name)} (use S({name}))")
@@ -259,7 +257,7 @@ class BundleValue:
         if isinstance(k, bool) or not isinstance(k, int) or k < 0:
             raise AlgebraError(f"{what}(V, k) needs a non-negative integer k, got {k!r}")
         one = self.ch.ring.one()
-        if alternating and isinstance(self.rank, int) and k > self.rank:
+        if alternating and k > self.rank:
             return BundleValue(0, one.ring.zero())
         if k > MAX_POWER:
             raise AlgebraError(f"{what}(V, {k}): k is limited to {MAX_POWER}")
@@ -271,22 +269,8 @@ class BundleValue:
                 term = psi[j] * powers[m - j]
                 acc = acc - term if alternating and j % 2 == 0 else acc + term
             powers.append(acc / m)
-        return BundleValue(_binomial(self.rank if alternating else self.rank + k - 1, k), powers[k])
-
-
-def _binomial(n, k: int):
-    """n choose k for an integer or a symbolic rank (a ring element)."""
-    if isinstance(n, int):
-        return comb(n, k)
-    out = n.ring.one()
-    for j in range(k):
-        out = out * (n - j)
-    return out / factorial(k)
-
-
-def _numeric_rank(table: BundleTable, name: str, what: str) -> None:
-    if not isinstance(table.rank(name), int):
-        raise AlgebraError(f"{what} of {name}: its rank is symbolic, and a spinor bundle's rank is 2^N")
+        rank = comb(self.rank, k) if alternating else comb(self.rank + k - 1, k)
+        return BundleValue(rank, powers[k])
 
 
 def chern_character(table: BundleTable, name: str) -> Element:

@@ -243,8 +243,7 @@ class ConventionDecl(_Statement):
 class BundleDecl(_Statement):
     names: tuple[Ident, ...]
     bundle_kind: str  # "real", "complex" or "line"
-    rank: Optional[int]  # None for line bundles and symbolic ranks
-    rank_name: Optional[Ident] = None  # a complex bundle's rank as an integer symbol
+    rank: Optional[int]  # None for line bundles
     kind = "bundle"
 
 

@@ -37,7 +37,6 @@ def _bundle(c: Cursor) -> n.BundleDecl:
         return gauge_rule(c, names)
     kind: Optional[Token] = None
     rank: Optional[int] = None
-    rank_name = None
     rank_token: Optional[Token] = None
     while True:
         token = c.peek()
@@ -45,10 +44,7 @@ def _bundle(c: Cursor) -> n.BundleDecl:
             if rank_token is not None:
                 c.fail(token, "'rank' given twice")
             rank_token = c.next()
-            if c.peek().kind == "name":
-                rank_name = c.name("an integer symbol for the rank")
-            else:
-                rank = c.positive_integer("the rank", MAX_RANK)
+            rank = c.positive_integer("the rank", MAX_RANK)
         elif token.kind == "name" and token.text in BUNDLE_KINDS:
             if kind is not None:
                 c.fail(token, "the bundle kind is given twice")
@@ -62,15 +58,13 @@ def _bundle(c: Cursor) -> n.BundleDecl:
             break
     if kind is None:
         c.fail(c.tokens[0], "say what kind of bundle: real, complex or line")
-    if rank_name is not None and kind.text != "complex":
-        c.fail(rank_name, "a symbolic rank is for complex bundles")
     if kind.text == "line":
         if rank not in (None, 1):
             c.fail(rank_token, "a line bundle has rank 1")
         rank = None
-    elif rank is None and rank_name is None:
+    elif rank is None:
         c.fail(kind, f"a {kind.text} bundle needs its rank, as in '{kind.text}, rank 4'")
-    return n.BundleDecl(tuple(names), kind.text, rank, rank_name, **c.span)
+    return n.BundleDecl(tuple(names), kind.text, rank, **c.span)
 
 
 def _split(c: Cursor) -> n.SplitDecl:

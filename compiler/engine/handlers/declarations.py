@@ -32,16 +32,10 @@ def _convention(scope, s: n.ConventionDecl, step: Step) -> None:
 
 
 def _bundle(scope, s: n.BundleDecl, step: Step) -> None:
-    rank = s.rank
-    if s.rank_name is not None:  # a symbolic complex rank: classes up to the truncation
-        spec = scope.symbols_by_name[s.rank_name]
-        if not spec.integer:
-            raise scope.fail(s, f"the rank {s.rank_name} must be a symbol declared integer")
-        rank = scope.ring.symbol(spec.symbol)
     for name in s.names:
-        scope.bundles.declare(name, s.bundle_kind, rank)
+        scope.bundles.declare(name, s.bundle_kind, s.rank)
         scope.bind(name, "bundle", name, s.line)
-    rank = f"rank {s.rank_name or s.rank or 1}"
+    rank = f"rank {s.rank}" if s.rank is not None else "rank 1"
     step.summary = f"{', '.join(s.names)}: {s.bundle_kind} bundle{'s' if len(s.names) > 1 else ''}, {rank}"
 
 
