@@ -34,7 +34,7 @@ def gauge_arg(ev, node: n.Call) -> gauge.GaugeBundle:
     arg = node.args[0]
     if not isinstance(arg, n.Name):
         raise ev.fail(arg, f"{node.func}() takes a gauge bundle first")
-    kind, value = ev.scope.lookup(arg.id, arg.line, arg.column)
+    kind, value = ev.lookup(arg.id, arg.line, arg.column)
     if kind != "gauge":
         raise ev.fail(arg, f"{node.func}() with a representation takes a gauge bundle, "
                            f"and '{arg.id}' is a {kind}")
