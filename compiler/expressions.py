@@ -234,20 +234,11 @@ class Evaluator:
 # One small function per built-in; the table below chooses.
 
 def _pontryagin(ev: Evaluator, node: n.Call, i: int) -> Value:
-    if _built(node):
-        return representations.pontryagin_of(ev, node, i)
     return ev.scope.bundles.pontryagin(ev.bundle_arg(node), i)
 
 
 def _chern(ev: Evaluator, node: n.Call, i: int) -> Value:
-    if _built(node):
-        return representations.chern_of(ev, node, i)
     return ev.scope.bundles.chern(ev.bundle_arg(node), i)
-
-
-def _built(node: n.Call) -> bool:
-    """A class of a construction (``c2(wedge(V, 2))``) rather than of a declared bundle."""
-    return len(node.args) == 1 and not isinstance(node.args[0], n.Name)
 
 
 def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
@@ -256,24 +247,20 @@ def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
     return ev.construction(node.args[0]).ch.part(2 * k)
 
 
-CLASS_RULES = {"p": _pontryagin, "c": _chern, "ch": _ch_component}
+CLASS_RULES = {"p": representations.or_built(_pontryagin, representations.pontryagin_of),
+               "c": representations.or_built(_chern, representations.chern_of),
+               "ch": _ch_component}
 
 
 def _euler(ev, node):
-    if _built(node):
-        return representations.euler_of(ev, node)
     return ev.scope.bundles.euler(ev.bundle_arg(node))
 
 
 def _total_p(ev, node):
-    if _built(node):
-        return representations.pontryagin_of(ev, node)
     return ev.scope.bundles.total_pontryagin(ev.bundle_arg(node))
 
 
 def _total_c(ev, node):
-    if _built(node):
-        return representations.chern_of(ev, node)
     return ev.scope.bundles.total_chern(ev.bundle_arg(node))
 
 
@@ -333,7 +320,10 @@ def _not_here(ev, node):
 
 
 FUNCTIONS: dict[str, Callable] = {
-    "e": _euler, "p": _total_p, "c": _total_c, "Ahat": _ahat, "L": _hirzebruch_l,
+    "e": representations.or_built(_euler, representations.euler_of),
+    "p": representations.or_built(_total_p, representations.pontryagin_of),
+    "c": representations.or_built(_total_c, representations.chern_of),
+    "Ahat": _ahat, "L": _hirzebruch_l,
     "td": _todd, "ch": _ch, "part": _part, "degree": _degree, "sqrt": _sqrt,
     "S": _not_here, "dual": _not_here, "wedge": _not_here, "sym": _not_here,
     "trivial": _not_here, "S+": _not_here, "S-": _not_here,

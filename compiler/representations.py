@@ -77,6 +77,17 @@ def chiral_spinor(ev, node: n.Call) -> BundleValue:
 
 # ---------------------------------------------------------------- classes of constructions
 
+def or_built(declared, built):
+    """A class rule that takes a declared bundle (``c2(V)``) to ``declared`` and a
+    construction (``c2(wedge(V, 2))``) to ``built``."""
+    @wraps(declared)
+    def rule(ev, node: n.Call, *index):
+        if len(node.args) == 1 and not isinstance(node.args[0], n.Name):
+            return built(ev, node, *index)
+        return declared(ev, node, *index)
+    return rule
+
+
 _COMPLEX_ONLY = frozenset({"S", "S+", "S-"})
 
 
