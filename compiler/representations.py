@@ -58,6 +58,8 @@ def character(ev, node: n.Call):
 def trace(ev, node: n.Call):
     """tr(G, k): the trace in force; tr(G, rep, k): the trace in a representation."""
     bundle = gauge_arg(ev, node)
+    if isinstance(node.args[-1], n.RepSpec):
+        raise ev.fail(node, f"give the power too, as in tr({node.args[0].id}, adjoint, 2)")
     degree = ev.integer_arg(node.args[-1])
     if len(node.args) == 2:
         return gauge.trace_in_force(ev.scope.ring, bundle, degree)

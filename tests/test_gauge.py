@@ -135,6 +135,7 @@ BAD = [
     ("bundle G: gauge SU(5)\nshow p1(G)", 8, "'G' is a gauge"),
     ("bundle G: gauge SU(5)\nfactorize tr(G, 2) + tr(G, 3) into 2, 2 -> a, b", 8, "homogeneous"),
     ("bundle B: real, rank 5\nshow ch(S+(B))", 8, "even rank"),
+    ("bundle G: gauge SU(5)\nshow tr(G, adjoint)", 8, "give the power too, as in tr(G, adjoint, 2)"),
 ]
 
 
