@@ -19,7 +19,7 @@ from typing import Callable, Union
 
 import sympy
 
-from . import calls, expansions, notation
+from . import calls, expansions, notation, representations
 from .algebra import budget, genera
 from .algebra.radicals import tidy
 from .algebra.genera import BundleValue
@@ -46,6 +46,14 @@ class MissingValue(DocumentError):
         super().__init__(location, f"'{name}' has no value: the step at line {line} did not produce it")
         self.name = name
         self.line = line  # the step that did not produce it
+
+
+#: Kinds of names that have no value of their own, and what to say instead.
+_NOT_VALUES = {
+    "bundle": "'{0}' is a bundle; use it inside a class such as p1({0})",
+    "fiber": "'{0}' is a fiber; integrate over it",
+    "gauge": "'{0}' is a gauge bundle; use it inside ch({0}, adjoint) or tr({0}, 2)",
+}
 
 
 class Scope:
@@ -107,9 +115,8 @@ class Evaluator:
 
     def _eval_Name(self, node: n.Name) -> Value:
         kind, value = self.lookup(node.id, node.line, node.column)
-        if kind in ("bundle", "fiber"):
-            raise self.fail(node, f"'{node.id}' is a {kind}; use it inside a class such as p1({node.id})"
-                            if kind == "bundle" else f"'{node.id}' is a fiber; integrate over it")
+        if kind in _NOT_VALUES:
+            raise self.fail(node, _NOT_VALUES[kind].format(node.id))
         return value
 
     def _eval_Unary(self, node: n.Unary) -> Value:
@@ -210,7 +217,8 @@ class Evaluator:
         if isinstance(node, n.Name):
             kind, _ = self.lookup(node.id, node.line, node.column)
             if kind != "bundle":
-                raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle")
+                hint = f"; give a representation, as in ch({node.id}, adjoint)" if kind == "gauge" else ""
+                raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle{hint}")
             self.scope.note_class_use(node.id, node.line)
             return BundleValue.of(self.scope.bundles, node.id)
         if isinstance(node, n.Binary) and node.op in ("+", "*"):
@@ -219,7 +227,7 @@ class Evaluator:
         if isinstance(node, n.Call) and node.func in CONSTRUCTIONS:
             return CONSTRUCTIONS[node.func](self, node)
         raise self.fail(node, "ch() takes a bundle or a bundle construction: "
-                              "S(B), dual(V), V + W, V*W, wedge(V, k), sym(V, k)")
+                              "S(B), S+(B), S-(B), dual(V), V + W, V*W, wedge(V, k), sym(V, k)")
 
 
 # ---------------------------------------------------------------- functions
@@ -239,7 +247,9 @@ def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
     return ev.construction(node.args[0]).ch.part(2 * k)
 
 
-CLASS_RULES = {"p": _pontryagin, "c": _chern, "ch": _ch_component}
+CLASS_RULES = {"p": representations.or_built(_pontryagin, representations.pontryagin_of),
+               "c": representations.or_built(_chern, representations.chern_of),
+               "ch": _ch_component}
 
 
 def _euler(ev, node):
@@ -267,7 +277,8 @@ def _todd(ev, node):
 
 
 def _ch(ev, node):
-    ev.arity(node, 1)
+    if len(node.args) == 2:
+        return representations.character(ev, node)
     return ev.construction(node.args[0]).ch
 
 
@@ -309,10 +320,14 @@ def _not_here(ev, node):
 
 
 FUNCTIONS: dict[str, Callable] = {
-    "e": _euler, "p": _total_p, "c": _total_c, "Ahat": _ahat, "L": _hirzebruch_l,
+    "e": representations.or_built(_euler, representations.euler_of),
+    "p": representations.or_built(_total_p, representations.pontryagin_of),
+    "c": representations.or_built(_total_c, representations.chern_of),
+    "Ahat": _ahat, "L": _hirzebruch_l,
     "td": _todd, "ch": _ch, "part": _part, "degree": _degree, "sqrt": _sqrt,
     "S": _not_here, "dual": _not_here, "wedge": _not_here, "sym": _not_here,
-    "trivial": _not_here,
+    "trivial": _not_here, "S+": _not_here, "S-": _not_here,
+    "tr": representations.trace, "pf": representations.pfaffian,
 }
 
 
@@ -336,7 +351,8 @@ def _sym(ev, node):
     return ev.construction(node.args[0]).sym(ev.integer_arg(node.args[1]))
 
 
-CONSTRUCTIONS = {"S": _spinor, "dual": _dual, "wedge": _wedge, "sym": _sym}
+CONSTRUCTIONS = {"S": _spinor, "dual": _dual, "wedge": _wedge, "sym": _sym,
+                 "S+": representations.chiral_spinor, "S-": representations.chiral_spinor}
 
 
 # ---------------------------------------------------------------- value helpers
