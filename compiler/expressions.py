@@ -24,6 +24,7 @@ from .algebra.extremize import tidy
 from .algebra.genera import BundleValue
 from .algebra.graded import AlgebraError, Element, NotRational
 from .errors import DocumentError, Location
+from .precision import Known, beyond, power, product, quotient, smallest, whole
 from .statements import nodes as n
 
 Value = Union[Element, sympy.Expr]
@@ -56,6 +57,10 @@ class Scope:
     def lookup(self, name: str, line: int, column: int):  # -> (kind, value)
         raise NotImplementedError
 
+    def exact_to(self, name: str):
+        """The degree up to which a bound value is exact (None: in every degree)."""
+        return None
+
     def note_class_use(self, bundle: str, line: int) -> None:
         """Remember that a value mentions ``bundle``'s classes (for split order)."""
 
@@ -71,6 +76,10 @@ class Evaluator:
     # ------------------------------------------------------------ node kinds
 
     def evaluate(self, node) -> Value:
+        return self.known(node).value
+
+    def known(self, node) -> Known:
+        """The value of ``node`` with the degree up to which it is exact."""
         budget.check()  # every node: a long evaluation stops at its deadline in any thread
         method = getattr(self, "_eval_" + type(node).__name__)
         try:
@@ -80,21 +89,32 @@ class Evaluator:
                 raise
             raise self.fail(node, str(exc) or type(exc).__name__) from None
 
-    def _eval_Num(self, node: n.Num) -> Value:
-        return self.scope.ring.scalar(node.value)
+    def read(self, node, degree: int | None = None) -> Known:
+        """The value of ``node`` read in ``degree`` (None: as a whole); an
+        error if that degree is beyond what is exact."""
+        k = self.known(node)
+        truncate = self.scope.ring.truncate
+        problem = (whole(k, truncate, "this") if degree is None
+                   else beyond(k, degree, truncate, "this"))
+        if problem:
+            raise self.fail(node, problem)
+        return k
 
-    def _eval_Name(self, node: n.Name) -> Value:
+    def _eval_Num(self, node: n.Num) -> Known:
+        return Known(self.scope.ring.scalar(node.value))
+
+    def _eval_Name(self, node: n.Name) -> Known:
         kind, value = self.scope.lookup(node.id, node.line, node.column)
         if kind in ("bundle", "fiber"):
             raise self.fail(node, f"'{node.id}' is a {kind}; use it inside a class such as p1({node.id})"
                             if kind == "bundle" else f"'{node.id}' is a fiber; integrate over it")
-        return value
+        return Known(value, self.scope.exact_to(node.id))
 
-    def _eval_Unary(self, node: n.Unary) -> Value:
-        value = self.evaluate(node.operand)
-        return -value if node.op == "-" else value
+    def _eval_Unary(self, node: n.Unary) -> Known:
+        k = self.known(node.operand)
+        return Known(-k.value, k.exact_to) if node.op == "-" else k
 
-    def _eval_Binary(self, node: n.Binary) -> Value:
+    def _eval_Binary(self, node: n.Binary) -> Known:
         if node.op == "^":
             return self._power(node)
         # Walk a left-associative chain (a + b - c + ...) without recursing
@@ -104,24 +124,25 @@ class Evaluator:
         while isinstance(node, n.Binary) and node.op in family:
             chain.append(node)
             node = node.left
-        value = self.evaluate(node)
+        value = self.known(node)
         for link in reversed(chain):
-            value = self._apply(link, value, self.evaluate(link.right))
+            value = self._apply(link, value, self.known(link.right))
         return value
 
-    def _apply(self, node: n.Binary, left: Value, right: Value) -> Value:
+    def _apply(self, node: n.Binary, a: Known, b: Known) -> Known:
         if node.op == "/":
-            return self._divide(node, left, right)
-        left, right = unify(self.scope.ring, left, right)
+            return Known(self._divide(node, a.value, b.value), quotient(a, b))
+        left, right = unify(self.scope.ring, a.value, b.value)
         if node.op == "+":
-            return left + right
+            return Known(left + right, smallest(a.exact_to, b.exact_to))
         if node.op == "-":
-            return left - right
-        return left * right
+            return Known(left - right, smallest(a.exact_to, b.exact_to))
+        return Known(left * right, product(a, b, self.scope.ring.truncate))
 
-    def _power(self, node: n.Binary) -> Value:
-        base = self.evaluate(node.left)
-        exponent = self.evaluate(node.right)
+    def _power(self, node: n.Binary) -> Known:
+        known = self.known(node.left)
+        base = known.value
+        exponent = self.read(node.right, 0).value
         k = integer_value(exponent)
         if k is None:
             raise self.fail(node.right, "an exponent must be an integer")
@@ -130,8 +151,9 @@ class Evaluator:
                 raise self.fail(node, "a negative power needs a class-free base")
             if is_zero(base):
                 raise self.fail(node, "a negative power of zero")
-            return self._divide(node, self.scope.ring.one(), base ** (-k))
-        return base ** k
+            inverse = self._divide(node, self.scope.ring.one(), base ** (-k))
+            return Known(inverse, quotient(Known(inverse), known))
+        return Known(base ** k, power(known, k, self.scope.ring.truncate))
 
     def _divide(self, node, left: Value, right: Value) -> Value:
         if not is_class_free(right):
@@ -141,13 +163,20 @@ class Evaluator:
         left, right = unify(self.scope.ring, left, right)
         return left / right
 
-    def _eval_Call(self, node: n.Call) -> Value:
+    def _eval_Call(self, node: n.Call) -> Known:
         rule = FUNCTIONS.get(node.func)
         if rule is None:
             if node.func[0] in "pc" and node.func[1:].isdigit():
-                return CLASS_RULES[node.func[0]](self, node, int(node.func[1:]))
+                i = int(node.func[1:])
+                value = CLASS_RULES[node.func[0]](self, node, i)
+                degree = (4 if node.func[0] == "p" else 2) * i
+                truncate = self.scope.ring.truncate
+                return Known(value, truncate if degree > truncate else None)
             raise self.fail(node, f"'{node.func}' cannot be called here")
-        return rule(self, node)
+        value = rule(self, node)
+        if isinstance(value, Known):
+            return value
+        return Known(value, self.scope.ring.truncate if node.func in TRUNCATED else None)
 
     # ------------------------------------------------------------ helpers
 
@@ -168,7 +197,7 @@ class Evaluator:
         return arg.id
 
     def integer_arg(self, node) -> int:
-        k = integer_value(self.evaluate(node))
+        k = integer_value(self.read(node, 0).value)
         if k is None:
             raise self.fail(node, "an integer is needed here")
         return k
@@ -235,8 +264,8 @@ def _ch(ev, node):
 
 def _part(ev, node):
     ev.arity(node, 2)
-    value = ev.evaluate(node.args[0])
     k = ev.integer_arg(node.args[1])
+    value = ev.read(node.args[0], k).value
     if isinstance(value, Element):
         return value.part(k)
     return value if k == 0 else ev.scope.ring.zero()
@@ -244,7 +273,7 @@ def _part(ev, node):
 
 def _degree(ev, node):
     ev.arity(node, 1)
-    value = ev.evaluate(node.args[0])
+    value = ev.read(node.args[0]).value
     if not isinstance(value, Element):
         return ev.scope.ring.zero()
     degrees = value.degrees()
@@ -256,13 +285,14 @@ def _degree(ev, node):
 
 def _sqrt(ev, node):
     ev.arity(node, 1)
-    value = ev.evaluate(node.args[0])
+    known = ev.read(node.args[0], 0)
+    value, exact_to = known.value, known.exact_to
     if not is_class_free(value):
         raise ev.fail(node, "sqrt() of a value with classes")
     if as_expr(value).is_negative:
         raise ev.fail(node, f"sqrt() of a negative value: {notation.text(as_expr(value))}")
     root = tidy(sympy.sqrt(as_expr(value)), list(ev.scope.specs.values()))
-    return from_expr(ev.scope.ring, root)
+    return Known(from_expr(ev.scope.ring, root), exact_to)
 
 
 def _not_here(ev, node):
@@ -276,6 +306,10 @@ FUNCTIONS: dict[str, Callable] = {
     "S": _not_here, "dual": _not_here, "wedge": _not_here, "sym": _not_here,
     "trivial": _not_here,
 }
+
+
+#: Built-ins whose value is a series cut at ``truncate``: exact only up to it.
+TRUNCATED = frozenset({"p", "c", "Ahat", "L", "td", "ch"})
 
 
 def _spinor(ev, node):

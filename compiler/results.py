@@ -35,6 +35,9 @@ class ValueRecord:
     text: str
     latex: str
     degrees: list[int] = field(default_factory=list)
+    #: The degree from which the value is not known (``truncate`` dropped what
+    #: it depends on); None when it is exact.  ``text`` and ``latex`` show it.
+    unknown_from: Optional[int] = None
 
 
 @dataclass

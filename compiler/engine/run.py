@@ -27,6 +27,7 @@ from ..algebra.graded import AlgebraError
 from ..document import Block, ProsePart, read_document
 from ..errors import DocumentError, Location, Problem
 from ..expressions import Missing, MissingValue
+from ..precision import prose_read
 from ..results import CheckResult, Prose, Report, Step, ValueRecord
 from ..statements import nodes as n
 from ..statements.parser import parse_block
@@ -178,9 +179,17 @@ class Run:
             warnings=list(self.document.warnings), cached_steps=self.layer.restored)
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
-        """Each @{NAME}: the binding in force at that line, else the first one."""
-        return {ref.name: _at(self.scope.history[ref.name], ref.line)
-                for ref in part.refs if self.scope.history.get(ref.name)}
+        """Each @{NAME}: the binding in force at that line, else the first one.
+        Showing a value that is not known in every degree it reads is an error."""
+        shown = {}
+        for ref in part.refs:
+            if self.scope.history.get(ref.name):
+                rec = shown[ref.name] = _at(self.scope.history[ref.name], ref.line)
+                problem = prose_read(rec, self.scope.ring.truncate, f"@{{{ref.name}}}")
+                if problem:
+                    self.problems.append([Problem(Location(self.path, ref.line, ref.column),
+                                                  problem), 0])
+        return shown
 
     def run_step(self, index: int, s) -> Step:
         scope = self.scope

@@ -21,6 +21,7 @@ from ..algebra.sampling import SymbolSpec
 from ..checks import Context
 from ..errors import DocumentError, Location
 from ..expressions import Evaluator, Missing, MissingValue, Scope, Value, from_expr, rational_value
+from ..precision import Known, Precision, unknown_above
 from ..results import ValueRecord
 from ..statements import nodes as n
 from .cache import digest
@@ -35,6 +36,7 @@ class Binding:
     kind: str  # symbol, convention, bundle, fiber, class, value
     value: object
     line: int
+    exact_to: Precision = None  # a value's known precision (see compiler.precision)
 
 
 class DocScope(Scope):
@@ -86,6 +88,9 @@ class DocScope(Scope):
             return "symbol", self.ring.symbol(binding.value.symbol)
         return binding.kind, binding.value
 
+    def exact_to(self, name: str) -> Precision:
+        return self.bindings[name].exact_to
+
     def note_class_use(self, bundle: str, line: int) -> None:
         """A value at ``line`` uses the classes of ``bundle`` and of its parts."""
         self.class_uses.setdefault(bundle, line)
@@ -94,13 +99,14 @@ class DocScope(Scope):
                 self.note_class_use(part, line)
 
     def bind(self, name: str, kind: str, value, line: int, shown: ValueRecord | None = None,
-             key: str | None = None) -> None:
+             key: str | None = None, exact_to: Precision = None) -> None:
         """Bind ``name``; ``key`` is its cache key when known (a restored value)."""
-        self.bindings[name] = Binding(kind, value, line)
-        self.keys[name] = key or self.value_key(name, kind, value)
+        self.bindings[name] = Binding(kind, value, line, exact_to)
+        self.keys[name] = key or self.value_key(name, kind, value, exact_to)
         if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
             if shown is None:
-                shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value)
+                shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value,
+                               unknown_above(exact_to, self.ring.truncate))
             self.history.setdefault(name, []).append((line, shown))
 
     def bind_missing(self, names, line: int) -> None:
@@ -109,26 +115,34 @@ class DocScope(Scope):
             binding = self.bindings.get(name)
             self.bind(name, binding.kind if binding is not None else "value", Missing(name, line), line)
 
-    def value_key(self, name: str, kind: str, value) -> str:
+    def value_key(self, name: str, kind: str, value, exact_to: Precision = None) -> str:
         """A value's cache key is its content, so an edit that gives the same
         value again recomputes nothing downstream; anything else is keyed by
         the step that bound it."""
         if kind == "value" and not isinstance(value, Missing):
             try:
-                return digest(self.ring_key, value_to_data(value))
+                return digest(self.ring_key, value_to_data(value), exact_to)
             except ValueError:  # a value the cache cannot keep
                 pass
         return digest(self.step_key, name)
 
-    def output(self, step, name: str, value: Value, line: int) -> None:
-        """Bind an output and show it in the step."""
+    def output(self, step, name: str, value: Value, line: int, exact_to: Precision = None) -> None:
+        """Bind an output (exact up to degree ``exact_to``) and show it in the step."""
         if isinstance(value, sympy.Expr):
             value = from_expr(self.ring, value)
-        self.bind(name, "value", value, line)
+        self.bind(name, "value", value, line, exact_to=exact_to)
         step.values.append(self.history[name][-1][1])
 
     def evaluate(self, expr) -> Value:
         return self.evaluator.evaluate(expr)
+
+    def known(self, expr) -> Known:
+        """A value with the degree up to which it is exact."""
+        return self.evaluator.known(expr)
+
+    def read(self, expr, degree: int | None = None) -> Value:
+        """A value read in ``degree`` (None: whole); an error beyond its precision."""
+        return self.evaluator.read(expr, degree).value
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)
@@ -163,7 +177,7 @@ class DocScope(Scope):
                     raise self.fail(c, f"empty range {low}..{high}")
                 values = [Fraction(v) for v in range(low, high + 1)]
             else:
-                value = rational_value(self.evaluate(c.value))
+                value = rational_value(self.read(c.value, 0))
                 if value is None:
                     raise self.fail(c, f"the value given to {c.name} must be an exact number")
                 values = [value]
@@ -199,8 +213,16 @@ def fraction_text(value: Fraction) -> str:
     return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
 
 
-def record(name: str, value: Value) -> ValueRecord:
-    """A value as the renderers see it."""
+def record(name: str, value: Value, unknown_from: int | None = None) -> ValueRecord:
+    """A value as the renderers see it; ``unknown_from`` is the degree from
+    which it is not known (shown as an order term, like a series' O(x^n))."""
     if isinstance(value, Element):
-        return ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
-    return ValueRecord(name, notation.text(value), notation.latex(value), [] if value == 0 else [0])
+        shown = ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
+    else:
+        shown = ValueRecord(name, notation.text(value), notation.latex(value),
+                            [] if value == 0 else [0])
+    if unknown_from is not None:
+        shown.unknown_from = unknown_from
+        shown.text += f" + O(degree >= {unknown_from})"
+        shown.latex += rf" + \mathcal{{O}}(\deg \geq {unknown_from})"
+    return shown
