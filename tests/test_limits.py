@@ -6,7 +6,7 @@ size limits are anomark's own (DEVELOPERS.md); common practice, no source.
 """
 from __future__ import annotations
 
-from compiler.algebra.graded import MAX_TERMS
+from compiler.algebra.element import MAX_TERMS
 from compiler.errors import DocumentError
 from support import compile_text
 
