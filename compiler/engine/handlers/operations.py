@@ -125,13 +125,13 @@ def _mentions(scope, node, fiber) -> bool:
     """Whether an integrand as written names a class of the fiber (which a
     relation may then have removed: ∫ e^2 = 0 over a sphere is a result)."""
     keys = fiber.class_keys()
-    owners = {scope.bundles.owner(k) for k in keys} - {None}
     for item, _ in walk(node):
         binding = scope.bindings.get(item) if isinstance(item, Ident) else None
         if binding is None:
             continue
-        if item in owners or (isinstance(binding.value, Element)
-                              and binding.value.generator_keys() & keys):
+        if binding.kind == "bundle" and keys & set(scope.bundles.get(item).keys):
+            return True
+        if isinstance(binding.value, Element) and binding.value.generator_keys() & keys:
             return True
     return False
 
