@@ -146,6 +146,8 @@ class Run:
         self.counted: set[int] = set()
         #: The line of the step that ran out of build time; later steps do not run.
         self.out_of_time: Optional[int] = None
+        #: Line of an error step → where inside the statement its problem is.
+        self.error_at: dict[int, Location] = {}
 
     # ------------------------------------------------------------ running
 
@@ -244,6 +246,7 @@ class Run:
                     origin: int | None = None) -> None:
         """An error step: everything the statement would have bound has no value."""
         step.checks.append(CheckResult(STEP_RUNS, "error", problem.message))
+        self.error_at[s.line] = problem.location
         self.scope.bind_missing(names_pass.bound_names(s), s.line)
         if not follow_on:
             return
@@ -265,7 +268,10 @@ class Run:
                 continue
             form = MESSAGES.get((check.status, check.what), MESSAGES[check.status])
             message = form.format(what=check.what, detail=check.detail).removesuffix(": ")
-            self.problems.append([Problem(Location(self.path, s.line, s.column), message), 0])
+            where = Location(self.path, s.line, s.column)
+            if check.what == STEP_RUNS:
+                where = self.error_at.get(s.line, where)
+            self.problems.append([Problem(where, message), 0])
         if s.line == self.out_of_time:  # the steps it keeps from running are counted on its line
             self.follow_ons[s.line] = len(self.problems) - 1
 

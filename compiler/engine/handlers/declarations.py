@@ -6,7 +6,7 @@ from the cache); each is ``(scope, statement, step) -> None``.
 from __future__ import annotations
 
 from ... import notation
-from ...algebra import bundles as bundles_mod, fibers as fibers_mod
+from ...algebra import bundles as bundles_mod, fibers as fibers_mod, general_fibers
 from ...expressions import as_expr
 from ...results import CheckResult, Step
 from ...statements import nodes as n
@@ -99,14 +99,20 @@ def _planes(scope, bundle: str) -> list:
 
 def _general(scope, s: n.GeneralFiber, step: Step) -> None:
     group = scope.new_group()
-    classes = fibers_mod.declare_fiber_classes(
+    classes = general_fibers.declare_fiber_classes(
         scope.ring, group, [(c.name, c.degree) for c in s.classes], s.dimension, s.name)
     for c in s.classes:
         scope.bind(c.name, "class", classes[c.name], c.line)
     relations = [relation(scope, r) for r in s.relations]
     integrals = [(element(scope, eq.lhs, "an integral"), element(scope, eq.rhs, "an integral"))
                  for eq in s.integrals]
-    fiber = fibers_mod.general_fiber(s.name, scope.ring, group, s.dimension, relations, integrals)
+    try:
+        fiber = general_fibers.general_fiber(s.name, scope.ring, group, s.dimension, relations,
+                                             integrals)
+    except fibers_mod.FiberError as err:
+        if err.at is None:
+            raise
+        raise scope.fail(s.integrals[err.at], str(err)) from None
     _declare_fiber(scope, s, fiber, step)
 
 
