@@ -182,6 +182,14 @@ def test_general_fiber(bundled):
     assert_proven(record, "check s2 == c1(E)^2 - c2(E)")
     assert_proven(record, "check s4 == c1(E)^4 - 3*c1(E)^2*c2(E) + c2(E)^2")
     assert record["values"]["index8"]["degrees"] == [8]
+    # fibers given by their point class; Griffiths and Harris, "Principles of
+    # Algebraic Geometry" (1978): deg G(2,4) = 2 (ch. 1.5), K^2 = 8 and χ = 4
+    # for every Hirzebruch surface (ch. 4.3)
+    assert_proven(record, "check lines == 2")
+    assert_proven(record, "check x2y == 1")
+    assert_proven(record, "check K2 == 8")
+    assert_proven(record, "check chi_Fn == 4")
+    assert_proven(record, "check self_s == -h")
 
 
 def test_check_command_passes_all_documents(bundled, bundled_folder, anomark):
