@@ -217,6 +217,22 @@ def test_spindle_d3(bundled):
                for c in fiber["checks"])
 
 
+def test_sqcd_duality(bundled):
+    record = bundled("sqcd-duality").record
+    # Seiberg, "Electric-magnetic duality in supersymmetric non-Abelian gauge
+    # theories" (1994); Intriligator and Wecht, "The exact superconformal
+    # R-symmetry maximizes a" (2003): the electric and magnetic anomalies, a and c agree
+    assert_proven(record, "check I_mag == I_el")
+    assert_proven(record, "check a_mag == a_el")
+    assert_proven(record, "check c_mag == c_el")
+    # Anselmi, Freedman, Grisaru and Johansen (1998) with Tr R = -Nc^2 - 1 and
+    # Tr R^3 = Nc^2 - 1 - 2 Nc^4/Nf^2 for R_Q = 1 - Nc/Nf (Seiberg 1994)
+    assert_proven(record, "check a_el == 3/32*(4*Nc^2 - 2 - 6*Nc^4/Nf^2)")
+    # signs decided from the window Nc < Nf < 3*Nc, not from sample points
+    for claim in ("check R_Q > 0", "check Nt >= 1", "check R_q > 0", "check R_M > 0"):
+        assert_proven(record, claim)
+
+
 def test_check_command_passes_all_documents(bundled, bundled_folder, anomark):
     for doc in DOCUMENTS:  # built first, so the check runs warm from the cache
         bundled(doc.stem)

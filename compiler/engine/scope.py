@@ -26,6 +26,7 @@ from ..results import ValueRecord
 from ..statements import nodes as n
 from .cache import digest
 from .entries import value_to_data
+from .symbols import document_region
 
 #: Most points a ``for`` list may expand to (every combination is computed).
 MAX_POINTS = 10_000
@@ -45,18 +46,10 @@ class DocScope(Scope):
     def __init__(self, path: str, document, statements, overrides: dict):
         self.path = path
         self.conventions = _conventions(path, document, statements, overrides)
-        self.specs: dict[sympy.Symbol, SymbolSpec] = {}
-        self.symbols_by_name: dict[str, SymbolSpec] = {}
-        for s in statements:
-            if isinstance(s, n.SymbolDecl):
-                for name in s.names:
-                    bounds = [(b.op, b.value) for b in s.bounds if b.name == name]
-                    try:
-                        spec = SymbolSpec.declare(name, s.assumptions, bounds)
-                    except ValueError as exc:
-                        raise DocumentError(Location(path, s.line, s.column), str(exc)) from None
-                    self.symbols_by_name[name] = spec
-                    self.specs[spec.symbol] = spec
+        #: The declared symbols and the relations between them.
+        self.region = document_region(path, statements)
+        self.specs: dict[sympy.Symbol, SymbolSpec] = {s.symbol: s for s in self.region.specs}
+        self.symbols_by_name: dict[str, SymbolSpec] = {s.name: s for s in self.region.specs}
         self.ring = Ring(list(self.specs), document.front.truncate)
         self.bundles = bundles_mod.BundleTable(self.ring)
         self.groups = 0
@@ -162,7 +155,7 @@ class DocScope(Scope):
         return f"{Path(self.path).name}:{line}"
 
     def context(self, line: int) -> Context:
-        return Context(self.ring, self.specs, self.seed(line))
+        return Context(self.ring, self.specs, self.seed(line), self.region.relations)
 
     def points(self, clauses) -> list[dict]:
         """Every combination of a ``for`` list, checked against assumptions."""
@@ -190,7 +183,12 @@ class DocScope(Scope):
         if total > MAX_POINTS:
             raise self.fail(clauses[0], f"the for ranges give {total} points; "
                                         f"at most {MAX_POINTS} are checked")
-        return [dict(combo) for combo in itertools.product(*axes)] if axes else []
+        points = [dict(combo) for combo in itertools.product(*axes)] if axes else []
+        for point in points:
+            broken = self.region.violations(point)
+            if broken:
+                raise self.fail(clauses[0], f"the point is outside the declared region: {broken[0]}")
+        return points
 
 
 def _conventions(path: str, document, statements, overrides: dict) -> dict[str, Fraction]:

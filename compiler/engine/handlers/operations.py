@@ -211,9 +211,10 @@ def _extremize(scope, s: n.Extremize, step: Step) -> None:
                  for v in s.variables]
     try:
         expr = as_expr(f)
-        involved = [spec for spec in scope.specs.values() if spec.symbol in expr.free_symbols]
+        region = scope.region.restrict(expr.free_symbols)  # with the symbols related to them
         name = s.target.id if isinstance(s.target, n.Name) else "f"
-        result = extremize(s.mode, expr, variables, involved, scope.seed(s.line), name=name)
+        result = extremize(s.mode, expr, variables, list(region.specs), scope.seed(s.line),
+                           relations=region.relations, name=name)
     except ExtremizeError as exc:
         if exc.status != "failed":
             raise scope.fail(s, str(exc)) from None
