@@ -79,3 +79,16 @@ def test_relations_are_linear_forms_of_the_symbols(tmp_path):
     a, b = (scope.symbols_by_name[x].symbol for x in "ab")
     assert sympy.expand(relation.expr - (b - 2 * a + sympy.Rational(1, 2))) == 0
     assert relation.strict
+
+
+def test_a_for_point_that_fixes_one_symbol_leaves_the_relations_on_the_others(tmp_path):
+    # Nf = 5 leaves Nc < 5 < 3*Nc, so Nc <= 4 (an integer); without the point in
+    # the relations Nc would be unbounded and Nc = 5 a false counterexample
+    report = compile_doc(tmp_path, *WINDOW, "check Nc <= 4 for Nf = 5", "check Nc >= 2 for Nf = 5")
+    assert [s.status for s in report.steps[2:]] == ["proven", "proven"], report.steps[2].checks
+
+
+def test_a_for_point_that_leaves_another_symbol_no_value_is_an_error(tmp_path):
+    report = compile_doc(tmp_path, *WINDOW, "check Nc >= 2 for Nf = 2")
+    assert report.steps[-1].status == "error"
+    assert "at Nf = 2, no integer satisfies the declaration of Nc" in report.steps[-1].checks[-1].detail

@@ -17,7 +17,7 @@ import sympy
 from .. import names as names_pass, notation
 from ..algebra import bundles as bundles_mod
 from ..algebra.graded import Element, Ring
-from ..algebra.sampling import SymbolSpec
+from ..algebra.sampling import SymbolSpec, describe_point
 from ..checks import Context
 from ..errors import DocumentError, Location
 from ..expressions import Evaluator, Missing, MissingValue, Scope, Value, from_expr, rational_value
@@ -186,6 +186,10 @@ class DocScope(Scope):
         points = [dict(combo) for combo in itertools.product(*axes)] if axes else []
         for point in points:
             broken = self.region.violations(point)
+            try:
+                self.region.fixing(point)
+            except ValueError as exc:  # it leaves another symbol no value
+                broken.append(f"at {describe_point(point)}, {exc}")
             if broken:
                 raise self.fail(clauses[0], f"the point is outside the declared region: {broken[0]}")
         return points
