@@ -120,6 +120,8 @@ class Report:
     warnings: list = field(default_factory=list)
     #: How many steps were replayed from the build cache rather than computed.
     cached_steps: int = 0
+    #: How many ``@{NAME}`` in prose show a value beyond its known precision.
+    prose_errors: int = 0
 
     @property
     def steps(self) -> list[Step]:
@@ -127,7 +129,7 @@ class Report:
 
     @property
     def passed(self) -> bool:
-        return all(s.status in ("proven", "sampled") for s in self.steps)
+        return not self.prose_errors and all(s.status in ("proven", "sampled") for s in self.steps)
 
     def count(self, status: str) -> int:
         """How many checks over all steps ended in ``status``."""

@@ -98,6 +98,7 @@ def test_prose_that_shows_an_unknown_degree_is_an_error(tmp_path):
             + "\nlet X = c(V)*c1(M)*u\nintegrate X over F -> Y\n```\n\nThen @{Y}.\n")
     report = compile_text(tmp_path / "doc.md", text)
     assert any(":17:6: @{Y} reads degree 8" in d for d in report.diagnostics), report.diagnostics
+    assert report.prose_errors == 1 and not report.passed
 
 
 def test_substituting_a_value_not_known_in_its_degree_is_an_error(tmp_path):

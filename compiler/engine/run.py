@@ -148,6 +148,8 @@ class Run:
         self.out_of_time: Optional[int] = None
         #: Line of an error step → where inside the statement its problem is.
         self.error_at: dict[int, Location] = {}
+        #: ``@{NAME}`` in prose that show a value beyond its known precision.
+        self.prose_errors = 0
 
     # ------------------------------------------------------------ running
 
@@ -178,7 +180,8 @@ class Run:
             abstract=front.abstract, conventions=scope.report_conventions(),
             truncate=front.truncate, items=items, values=values,
             allow_html=self.options.allow_html, diagnostics=self._diagnostics(),
-            warnings=list(self.document.warnings), cached_steps=self.layer.restored)
+            warnings=list(self.document.warnings), cached_steps=self.layer.restored,
+            prose_errors=self.prose_errors)
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
         """Each @{NAME}: the binding in force at that line, else the first one.
@@ -189,6 +192,7 @@ class Run:
                 rec = shown[ref.name] = _at(self.scope.history[ref.name], ref.line)
                 problem = prose_read(rec, self.scope.ring.truncate, f"@{{{ref.name}}}")
                 if problem:
+                    self.prose_errors += 1
                     self.problems.append([Problem(Location(self.path, ref.line, ref.column),
                                                   problem), 0])
         return shown
