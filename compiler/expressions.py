@@ -95,8 +95,9 @@ class Evaluator:
         error if that degree is beyond what is exact."""
         k = self.known(node)
         truncate = self.scope.ring.truncate
-        problem = (whole(k, truncate, "this") if degree is None
-                   else beyond(k, degree, truncate, "this"))
+        what = f"this use of {node.id}" if isinstance(node, n.Name) else "this expression"
+        problem = (whole(k, truncate, what) if degree is None
+                   else beyond(k, degree, truncate, what))
         if problem:
             raise self.fail(node, problem)
         return k

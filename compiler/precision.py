@@ -98,7 +98,7 @@ def beyond(k: Known, degree: int, truncate: int, what: str) -> str:
         return ""
     needed = truncate + degree - p
     needed += needed % 2
-    return (f"{what} reads degree {degree}, but it is exact only up to degree {p} "
+    return (f"{what} reads degree {degree} of a value that is exact only up to degree {p} "
             f"(truncate: {truncate} dropped the rest); truncate: {needed} would make it exact there")
 
 

@@ -56,8 +56,9 @@ def test_msw_with_truncate_8_stops_at_the_unknown_six_form(tmp_path):
     assert shown.text == "0 + O(degree >= 5)" and shown.unknown_from == 5
     read = step(report, "coefficients")
     assert read.status == "error"
-    assert ("reads degree 6, but it is exact only up to degree 4 (truncate: 8 dropped the rest); "
-            "truncate: 10 would make it exact there") in read.checks[-1].detail
+    assert ("the coefficient of p1(R)*c1(L) reads degree 6 of a value that is exact only up to "
+            "degree 4 (truncate: 8 dropped the rest); truncate: 10 would make it exact there"
+            ) in read.checks[-1].detail
     assert not report.passed
 
 
