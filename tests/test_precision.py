@@ -144,3 +144,10 @@ def test_power_and_integration(ring):
     assert power(Known(x, 6), 2, 12) == 8
     assert power(Known(x), 7, 12) == 12
     assert integrated(8, 4) == 4 and integrated(None, 4) is None
+
+
+def test_coefficients_of_an_exact_zero_are_zero(tmp_path):
+    # an anomaly that cancels exactly: every coefficient is 0, which is the point
+    report = derive(tmp_path, *DECLS, "let I = c1(L)^3 - c1(L)^3", "coefficients I of c1(L)^3 -> k",
+                    "check k == 0")
+    assert report.passed

@@ -159,8 +159,8 @@ def _coefficients(scope, s: n.Coefficients, step: Step) -> None:
         problem = beyond(known, degree, scope.ring.truncate, f"the coefficient of {monomial.to_text()}")
         if problem:
             raise scope.fail(node, problem)
-        if degree not in present:
-            shown = ", ".join(map(str, present)) or "none: it is 0"
+        if present and degree not in present:  # (an exact 0 has every coefficient 0)
+            shown = ", ".join(map(str, present))
             step.checks.append(CheckResult(
                 f"{monomial.to_text()} (degree {degree}) can occur in the value", "failed",
                 f"the value has no part of degree {degree} (its degrees: {shown})"))
