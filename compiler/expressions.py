@@ -13,15 +13,15 @@ extremization), a plain sympy expression.
 """
 from __future__ import annotations
 
+from contextlib import contextmanager
 from fractions import Fraction
 from typing import Callable, Union
 
 import sympy
 
-from . import notation
+from . import calls, constructions, expansions, notation
 from .algebra import budget, genera
 from .algebra.radicals import tidy
-from .algebra.genera import BundleValue
 from .algebra.errors import AlgebraError, NotRational
 from .algebra.graded import Element
 from .errors import DocumentError, Location
@@ -70,6 +70,33 @@ class Evaluator:
     def __init__(self, scope: Scope, path: str):
         self.scope = scope
         self.path = path
+        #: Local names (parameters, sum indices) in force:
+        #: name -> (kind, value, the degree up to which the value is exact).
+        self.frames: list[dict] = []
+
+    def lookup(self, name: str, line: int, column: int):
+        """A local name first, then the document's: (kind, value)."""
+        if self.frames and name in self.frames[-1]:
+            return self.frames[-1][name][:2]
+        return self.scope.lookup(name, line, column)
+
+    def exact_to(self, name: str):
+        """The degree up to which a name's value is exact, local names first."""
+        if self.frames and name in self.frames[-1]:
+            return self.frames[-1][name][2]
+        return self.scope.exact_to(name)
+
+    @contextmanager
+    def frame(self, names: dict):
+        self.frames.append(names)
+        try:
+            yield
+        finally:
+            self.frames.pop()
+
+    def with_local(self, name: str, value) -> dict:
+        """The frame in force plus one local value (a number: exact)."""
+        return {**(self.frames[-1] if self.frames else {}), name: ("value", value, None)}
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)
@@ -106,11 +133,11 @@ class Evaluator:
         return Known(self.scope.ring.scalar(node.value))
 
     def _eval_Name(self, node: n.Name) -> Known:
-        kind, value = self.scope.lookup(node.id, node.line, node.column)
+        kind, value = self.lookup(node.id, node.line, node.column)
         if kind in ("bundle", "fiber"):
             raise self.fail(node, f"'{node.id}' is a {kind}; use it inside a class such as p1({node.id})"
                             if kind == "bundle" else f"'{node.id}' is a fiber; integrate over it")
-        return Known(value, self.scope.exact_to(node.id))
+        return Known(value, self.exact_to(node.id))
 
     def _eval_Unary(self, node: n.Unary) -> Known:
         k = self.known(node.operand)
@@ -168,17 +195,26 @@ class Evaluator:
     def _eval_Call(self, node: n.Call) -> Known:
         rule = FUNCTIONS.get(node.func)
         if rule is None:
-            if node.func[0] in "pc" and node.func[1:].isdigit():
-                i = int(node.func[1:])
-                value = CLASS_RULES[node.func[0]](self, node, i)
-                degree = (4 if node.func[0] == "p" else 2) * i
+            prefix = node.func.rstrip("0123456789")
+            if prefix in CLASS_RULES and prefix != node.func:
+                i = int(node.func[len(prefix):])
+                value = CLASS_RULES[prefix](self, node, i)
                 truncate = self.scope.ring.truncate
-                return Known(value, truncate if degree > truncate else None)
+                return Known(value, truncate if CLASS_DEGREE[prefix] * i > truncate else None)
             raise self.fail(node, f"'{node.func}' cannot be called here")
         value = rule(self, node)
         if isinstance(value, Known):
             return value
         return Known(value, self.scope.ring.truncate if node.func in TRUNCATED else None)
+
+    def _eval_Apply(self, node: n.Apply) -> Known:
+        return calls.apply(self, node)
+
+    def _eval_Sum(self, node: n.Sum) -> Known:
+        return calls.sum_or_prod(self, node)
+
+    def _eval_Expansion(self, node: n.Expansion) -> Known:
+        return expansions.expand(self, node)
 
     # ------------------------------------------------------------ helpers
 
@@ -192,7 +228,7 @@ class Evaluator:
         arg = node.args[0]
         if not isinstance(arg, n.Name):
             raise self.fail(arg, f"{node.func}() takes a bundle name")
-        kind, _ = self.scope.lookup(arg.id, arg.line, arg.column)
+        kind, _ = self.lookup(arg.id, arg.line, arg.column)
         if kind != "bundle":
             raise self.fail(arg, f"{node.func}() takes a bundle, and '{arg.id}' is a {kind}")
         self.scope.note_class_use(arg.id, node.line)
@@ -203,23 +239,6 @@ class Evaluator:
         if k is None:
             raise self.fail(node, "an integer is needed here")
         return k
-
-    def construction(self, node):
-        """A bundle construction inside ``ch(...)``: names, S, dual, +, *, wedge, sym."""
-        if isinstance(node, n.Name):
-            kind, _ = self.scope.lookup(node.id, node.line, node.column)
-            if kind != "bundle":
-                raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle")
-            self.scope.note_class_use(node.id, node.line)
-            return BundleValue.of(self.scope.bundles, node.id)
-        if isinstance(node, n.Binary) and node.op in ("+", "*"):
-            left, right = self.construction(node.left), self.construction(node.right)
-            return left + right if node.op == "+" else left * right
-        if isinstance(node, n.Call) and node.func in CONSTRUCTIONS:
-            return CONSTRUCTIONS[node.func](self, node)
-        raise self.fail(node, "ch() takes a bundle or a bundle construction: "
-                              "S(B), dual(V), V + W, V*W, wedge(V, k), sym(V, k)")
-
 
 # ---------------------------------------------------------------- functions
 # One small function per built-in; the table below chooses.
@@ -232,7 +251,15 @@ def _chern(ev: Evaluator, node: n.Call, i: int) -> Value:
     return ev.scope.bundles.chern(ev.bundle_arg(node), i)
 
 
-CLASS_RULES = {"p": _pontryagin, "c": _chern}
+def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
+    """ch_k(X) = part(ch(X), 2k): a generator for a bundle of symbolic rank."""
+    ev.arity(node, 1)
+    return constructions.construction(ev, node.args[0]).ch.part(2 * k)
+
+
+CLASS_RULES = {"p": _pontryagin, "c": _chern, "ch": _ch_component}
+#: The form degree of the class ``prefix + i`` is ``CLASS_DEGREE[prefix] * i``.
+CLASS_DEGREE = {"p": 4, "c": 2, "ch": 2}
 
 
 def _euler(ev, node):
@@ -261,7 +288,7 @@ def _todd(ev, node):
 
 def _ch(ev, node):
     ev.arity(node, 1)
-    return ev.construction(node.args[0]).ch
+    return constructions.construction(ev, node.args[0]).ch
 
 
 def _part(ev, node):
@@ -299,7 +326,7 @@ def _sqrt(ev, node):
 
 def _not_here(ev, node):
     raise ev.fail(node, f"{node.func}() is a bundle construction: use it inside ch(...)"
-                  if node.func in CONSTRUCTIONS else f"{node.func}() belongs in a split statement")
+                  if node.func in constructions.CONSTRUCTIONS else f"{node.func}() belongs in a split statement")
 
 
 FUNCTIONS: dict[str, Callable] = {
@@ -312,29 +339,6 @@ FUNCTIONS: dict[str, Callable] = {
 
 #: Built-ins whose value is a series cut at ``truncate``: exact only up to it.
 TRUNCATED = frozenset({"p", "c", "Ahat", "L", "td", "ch"})
-
-
-def _spinor(ev, node):
-    ev.arity(node, 1)
-    return BundleValue.spinor(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _dual(ev, node):
-    ev.arity(node, 1)
-    return ev.construction(node.args[0]).dual()
-
-
-def _wedge(ev, node):
-    ev.arity(node, 2)
-    return ev.construction(node.args[0]).wedge(ev.integer_arg(node.args[1]))
-
-
-def _sym(ev, node):
-    ev.arity(node, 2)
-    return ev.construction(node.args[0]).sym(ev.integer_arg(node.args[1]))
-
-
-CONSTRUCTIONS = {"S": _spinor, "dual": _dual, "wedge": _wedge, "sym": _sym}
 
 
 # ---------------------------------------------------------------- value helpers

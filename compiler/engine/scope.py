@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import itertools
 import math
+from contextlib import contextmanager
 from dataclasses import dataclass
 from fractions import Fraction
 from pathlib import Path
@@ -34,7 +35,7 @@ MAX_POINTS = 10_000
 
 @dataclass
 class Binding:
-    kind: str  # symbol, convention, bundle, fiber, class, value
+    kind: str  # symbol, convention, bundle, fiber, class, value, function
     value: object
     line: int
     exact_to: Precision = None  # a value's known precision (see compiler.precision)
@@ -45,6 +46,11 @@ class DocScope(Scope):
 
     def __init__(self, path: str, document, statements, overrides: dict):
         self.path = path
+        self.top_path = path
+        #: Used documents (by key): the steps of their statements, and those
+        #: whose ``use`` step has shown them.
+        self.used: dict[str, list] = {}
+        self.reported: set[str] = set()
         self.conventions = _conventions(path, document, statements, overrides)
         #: The declared symbols and the relations between them.
         self.region = document_region(path, statements)
@@ -136,6 +142,16 @@ class DocScope(Scope):
     def read(self, expr, degree: int | None = None) -> Value:
         """A value read in ``degree`` (None: whole); an error beyond its precision."""
         return self.evaluator.read(expr, degree).value
+
+    @contextmanager
+    def reading(self, path: str):
+        """While a used document's statements run, problems point into it."""
+        outer = self.path
+        self.path = self.evaluator.path = path
+        try:
+            yield
+        finally:
+            self.path = self.evaluator.path = outer
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)
