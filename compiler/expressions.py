@@ -19,7 +19,7 @@ from typing import Callable, Union
 
 import sympy
 
-from . import calls, constructions, expansions, notation
+from . import calls, constructions, expansions, notation, representations
 from .algebra import budget, genera
 from .algebra.radicals import tidy
 from .algebra.errors import AlgebraError, NotRational
@@ -46,6 +46,14 @@ class MissingValue(DocumentError):
         super().__init__(location, f"'{name}' has no value: the step at line {line} did not produce it")
         self.name = name
         self.line = line  # the step that did not produce it
+
+
+#: Kinds of names that have no value of their own, and what to say instead.
+_NOT_VALUES = {
+    "bundle": "'{0}' is a bundle; use it inside a class such as p1({0})",
+    "fiber": "'{0}' is a fiber; integrate over it",
+    "gauge": "'{0}' is a gauge bundle; use it inside ch({0}, adjoint) or tr({0}, 2)",
+}
 
 
 class Scope:
@@ -134,9 +142,8 @@ class Evaluator:
 
     def _eval_Name(self, node: n.Name) -> Known:
         kind, value = self.lookup(node.id, node.line, node.column)
-        if kind in ("bundle", "fiber"):
-            raise self.fail(node, f"'{node.id}' is a {kind}; use it inside a class such as p1({node.id})"
-                            if kind == "bundle" else f"'{node.id}' is a fiber; integrate over it")
+        if kind in _NOT_VALUES:
+            raise self.fail(node, _NOT_VALUES[kind].format(node.id))
         return Known(value, self.exact_to(node.id))
 
     def _eval_Unary(self, node: n.Unary) -> Known:
@@ -257,7 +264,9 @@ def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
     return constructions.construction(ev, node.args[0]).ch.part(2 * k)
 
 
-CLASS_RULES = {"p": _pontryagin, "c": _chern, "ch": _ch_component}
+CLASS_RULES = {"p": representations.or_built(_pontryagin, representations.pontryagin_of),
+               "c": representations.or_built(_chern, representations.chern_of),
+               "ch": _ch_component}
 #: The form degree of the class ``prefix + i`` is ``CLASS_DEGREE[prefix] * i``.
 CLASS_DEGREE = {"p": 4, "c": 2, "ch": 2}
 
@@ -287,7 +296,8 @@ def _todd(ev, node):
 
 
 def _ch(ev, node):
-    ev.arity(node, 1)
+    if len(node.args) == 2:
+        return representations.character(ev, node)
     return constructions.construction(ev, node.args[0]).ch
 
 
@@ -330,10 +340,14 @@ def _not_here(ev, node):
 
 
 FUNCTIONS: dict[str, Callable] = {
-    "e": _euler, "p": _total_p, "c": _total_c, "Ahat": _ahat, "L": _hirzebruch_l,
+    "e": representations.or_built(_euler, representations.euler_of),
+    "p": representations.or_built(_total_p, representations.pontryagin_of),
+    "c": representations.or_built(_total_c, representations.chern_of),
+    "Ahat": _ahat, "L": _hirzebruch_l,
     "td": _todd, "ch": _ch, "part": _part, "degree": _degree, "sqrt": _sqrt,
     "S": _not_here, "dual": _not_here, "wedge": _not_here, "sym": _not_here,
-    "trivial": _not_here,
+    "trivial": _not_here, "S+": _not_here, "S-": _not_here,
+    "tr": representations.trace, "pf": representations.pfaffian,
 }
 
 
