@@ -9,7 +9,8 @@ printers in ``compiler.render.printers`` turn into text, LaTeX and MathML.
 Tree kinds: ``["int", n]`` (n >= 0), ``["sym", name]``, ``["cls", text]`` (a
 class generator as the document writes it), ``["add", t, ...]``,
 ``["neg", t]``, ``["mul", f, ...]``, ``["div", num, den]``,
-``["pow", base, n]`` (n >= 2) and ``["sqrt", t]``.
+``["pow", base, n]`` (n >= 2), ``["sqrt", t]`` and ``["order", n]`` (the
+term standing for what is not known from degree n on).
 """
 from __future__ import annotations
 
@@ -43,9 +44,12 @@ class ValueRecord:
     latex: str
     degrees: list[int] = field(default_factory=list)
     tree: list = field(default_factory=lambda: ["int", 0])
+    #: The degree from which the value is not known (``truncate`` dropped what
+    #: it depends on); None when it is exact.  ``text`` and ``latex`` show it.
+    unknown_from: Optional[int] = None
 
 
-_ARITY = {"int": 1, "sym": 1, "cls": 1, "neg": 1, "sqrt": 1, "div": 2, "pow": 2}
+_ARITY = {"order": 1, "int": 1, "sym": 1, "cls": 1, "neg": 1, "sqrt": 1, "div": 2, "pow": 2}
 
 
 def valid_tree(tree, depth: int = 0) -> bool:
@@ -53,11 +57,11 @@ def valid_tree(tree, depth: int = 0) -> bool:
     if depth > 200 or not isinstance(tree, list) or not tree or tree[0] not in (*_ARITY, "add", "mul"):
         return False
     kind, args = tree[0], tree[1:]
-    if kind in ("int", "pow"):
+    if kind in ("int", "pow", "order"):
         number = args[-1] if args else None
         if type(number) is not int or number < 0 or len(args) != _ARITY[kind]:
             return False
-        return kind == "int" or valid_tree(args[0], depth + 1)
+        return kind != "pow" or valid_tree(args[0], depth + 1)
     if kind in ("sym", "cls"):
         return len(args) == 1 and isinstance(args[0], str)
     if kind in _ARITY and len(args) != _ARITY[kind]:
@@ -160,6 +164,8 @@ class Report:
     warnings: list = field(default_factory=list)
     #: How many steps were replayed from the build cache rather than computed.
     cached_steps: int = 0
+    #: How many ``@{NAME}`` in prose show a value beyond its known precision.
+    prose_errors: int = 0
 
     @property
     def steps(self) -> list[Step]:
@@ -167,7 +173,7 @@ class Report:
 
     @property
     def passed(self) -> bool:
-        return all(s.status in ("proven", "sampled") for s in self.steps)
+        return not self.prose_errors and all(s.status in ("proven", "sampled") for s in self.steps)
 
     def count(self, status: str) -> int:
         """How many checks over all steps ended in ``status``."""

@@ -99,6 +99,9 @@ class TextPrinter(Printer):
     def _print_sqrt(self, arg) -> str:
         return f"sqrt({self.doprint(arg)})"
 
+    def _print_order(self, degree: int) -> str:
+        return f"O(degree >= {degree})"
+
     measure = staticmethod(len)
 
 
@@ -132,6 +135,9 @@ class LatexPrinter(Printer):
 
     def _print_sqrt(self, arg) -> str:
         return rf"\sqrt{{{self.doprint(arg)}}}"
+
+    def _print_order(self, degree: int) -> str:
+        return rf"\mathcal{{O}}(\deg \geq {degree})"
 
     @staticmethod
     def measure(latex: str) -> int:
@@ -213,6 +219,10 @@ class MathMLPrinter(Printer):
 
     def _print_sqrt(self, arg) -> str:
         return f"<msqrt>{self.doprint(arg)}</msqrt>"
+
+    def _print_order(self, degree: int) -> str:
+        return (f'<mrow><mi>\U0001d4aa</mi><mo stretchy="false">(</mo><mi>deg</mi><mo>\u2265</mo>'
+                f'<mn>{degree}</mn><mo stretchy="false">)</mo></mrow>')
 
     @staticmethod
     def measure(mathml: str) -> int:
