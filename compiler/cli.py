@@ -24,6 +24,7 @@ from . import __version__, usage
 from .engine import BuildOptions, build
 from .engine.cache import CODE, OutputRecord, digest
 from .errors import DocumentError, Location
+from .render.tex import STYLES, plot_files, to_tex
 from .results import STATUSES
 
 FORMATS = ("html", "json", "tex")
@@ -76,6 +77,8 @@ def parser() -> argparse.ArgumentParser:
                    help="comma-separated, from html,json,tex (default: html,json)")
     b.add_argument("--standalone", action="store_true",
                    help="LaTeX as a whole article rather than a fragment to \\input")
+    b.add_argument("--tex-style", choices=STYLES, default="appendix",
+                   help="appendix: results and claims for a paper (default); audit: every statement and check")
     common(b)
 
     c = command("check", "compile and check without writing files", usage.CHECK, usage.CHECK_EPILOG)
@@ -230,7 +233,7 @@ def compile_file(args, path: str):
 
 def status_of(report) -> int:
     statuses = {s.status for s in report.steps}
-    return 2 if "error" in statuses else 1 if "failed" in statuses else 0
+    return 2 if "error" in statuses or report.prose_errors else 1 if "failed" in statuses else 0
 
 
 def write_whole(files: dict[Path, bytes]) -> None:
@@ -306,7 +309,7 @@ def render_key(args, report, formats) -> str:
     templates = sorted((entry.name, entry.read_bytes().hex()) for entry in template_root().iterdir()
                        if entry.is_file())
     return digest(CODE, digest(templates), data, formats, getattr(args, "standalone", False),
-                  str(output_folder(args).resolve()), Path(args.file).stem)
+                  getattr(args, "tex_style", None), str(output_folder(args).resolve()), Path(args.file).stem)
 
 
 def report_files(args, report, formats) -> dict[Path, bytes]:
@@ -320,8 +323,7 @@ def report_files(args, report, formats) -> dict[Path, bytes]:
     if "json" in formats:
         files[out / f"{stem}.json"] = to_json(report).encode("utf-8")
     if "tex" in formats:
-        from .render.tex import plot_files, to_tex  # loaded only when LaTeX is asked for
-        files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone).encode("utf-8")
+        files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone, style=args.tex_style).encode("utf-8")
         for name, data in plot_files(report).items():
             files[out / name] = data
     return files

@@ -20,13 +20,14 @@ from contextlib import contextmanager
 from dataclasses import dataclass, field
 from typing import Callable, Optional
 
-from .. import __version__, names as names_pass
+from .. import __version__, names as names_pass, preambles
 from ..algebra import budget, fibers as fibers_mod
 from ..algebra.extremize import ExtremizeError
 from ..algebra.graded import AlgebraError
 from ..document import Block, ProsePart, read_document
 from ..errors import DocumentError, Location, Problem
 from ..expressions import Missing, MissingValue
+from ..precision import prose_read
 from ..results import CheckResult, Prose, Report, Step, ValueRecord
 from ..statements import nodes as n
 from ..statements.parser import parse_block
@@ -113,6 +114,14 @@ def _prepare(path: str, text: str, options: BuildOptions):
     """Parse, resolve names and set up the run: everything before the first step."""
     document, statements_by_block = parse(path, text)
     statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
+    try:
+        loaded = iter(preambles.load(path, statements, parse))
+    except DocumentError as err:
+        err.warnings = document.warnings
+        raise
+    statements_by_block = {i: [next(loaded) for _ in statements_by_block[i]]
+                           for i in sorted(statements_by_block)}
+    statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
     refs = [(r.name, r.line, r.column) for part in document.parts
             if isinstance(part, ProsePart) for r in part.refs]
     front_conventions = [(c.name, c.line, c.column) for c in document.front.conventions]
@@ -131,7 +140,7 @@ class Run:
         self.path = path
         self.document = document
         self.options = options
-        self.scope = DocScope(path, document, statements, options.overrides)
+        self.scope = DocScope(path, document, list(preambles.flatten(statements)), options.overrides)
         self.cache = StepCache(path, options.use_cache)
         self.layer = CacheLayer(self.scope, self.cache, options.recompute)
         self.step_limit = _limit_name("step", options.time_limit, "--time-limit")
@@ -145,6 +154,10 @@ class Run:
         self.counted: set[int] = set()
         #: The line of the step that ran out of build time; later steps do not run.
         self.out_of_time: Optional[int] = None
+        #: Line of an error step → where inside the statement its problem is.
+        self.error_at: dict[int, Location] = {}
+        #: ``@{NAME}`` in prose that show a value beyond its known precision.
+        self.prose_errors = 0
 
     # ------------------------------------------------------------ running
 
@@ -157,7 +170,7 @@ class Run:
                 continue
             for statement in statements_by_block.get(i, []):
                 index += 1
-                step = self.run_step(index, statement)
+                step = self.run_statement(index, statement)
                 parts.append(step)
                 if self.options.progress:
                     self.options.progress(step)
@@ -175,12 +188,42 @@ class Run:
             abstract=front.abstract, conventions=scope.report_conventions(),
             truncate=front.truncate, items=items, values=values,
             allow_html=self.options.allow_html, diagnostics=self._diagnostics(),
-            warnings=list(self.document.warnings), cached_steps=self.layer.restored)
+            warnings=list(self.document.warnings), cached_steps=self.layer.restored,
+            prose_errors=self.prose_errors,
+            notation=dict(front.notation), headline=list(front.results))
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
-        """Each @{NAME}: the binding in force at that line, else the first one."""
-        return {ref.name: _at(self.scope.history[ref.name], ref.line)
-                for ref in part.refs if self.scope.history.get(ref.name)}
+        """Each @{NAME}: the binding in force at that line, else the first one.
+        Showing a value that is not known in every degree it reads is an error."""
+        shown = {}
+        for ref in part.refs:
+            if self.scope.history.get(ref.name):
+                rec = shown[ref.name] = _at(self.scope.history[ref.name], ref.line)
+                problem = prose_read(rec, self.scope.ring.truncate, f"@{{{ref.name}}}")
+                if problem:
+                    self.prose_errors += 1
+                    self.problems.append([Problem(Location(self.path, ref.line, ref.column),
+                                                  problem), 0])
+        return shown
+
+    def run_statement(self, index: int, s) -> Step:
+        """One statement; a ``use`` first runs its document's statements
+        (once per build), each a step of its own that the ``use`` step shows."""
+        if isinstance(s, n.UseDecl) and s.module.key not in self.scope.used:
+            self.scope.used[s.module.key] = self._run_used(s.module)
+        return self.run_step(index, s)
+
+    def _run_used(self, module) -> list[Step]:
+        """The used document's steps, with their problems kept apart: the
+        ``use`` step reports them, at its own line."""
+        kept = self.problems, self.roots, self.follow_ons, self.counted, self.path
+        self.problems, self.roots, self.follow_ons, self.counted = [], {}, {}, set()
+        self.path = module.display
+        try:
+            with self.scope.reading(module.display):
+                return [self.run_statement(0, inner) for inner in module.statements]
+        finally:
+            self.problems, self.roots, self.follow_ons, self.counted, self.path = kept
 
     def run_step(self, index: int, s) -> Step:
         scope = self.scope
@@ -235,6 +278,7 @@ class Run:
                     origin: int | None = None) -> None:
         """An error step: everything the statement would have bound has no value."""
         step.checks.append(CheckResult(STEP_RUNS, "error", problem.message))
+        self.error_at[s.line] = problem.location
         self.scope.bind_missing(names_pass.bound_names(s), s.line)
         if not follow_on:
             return
@@ -256,7 +300,10 @@ class Run:
                 continue
             form = MESSAGES.get((check.status, check.what), MESSAGES[check.status])
             message = form.format(what=check.what, detail=check.detail).removesuffix(": ")
-            self.problems.append([Problem(Location(self.path, s.line, s.column), message), 0])
+            where = Location(self.path, s.line, s.column)
+            if check.what == STEP_RUNS:
+                where = self.error_at.get(s.line, where)
+            self.problems.append([Problem(where, message), 0])
         if s.line == self.out_of_time:  # the steps it keeps from running are counted on its line
             self.follow_ons[s.line] = len(self.problems) - 1
 

@@ -9,7 +9,7 @@ package never imports sympy.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Optional, Union
 
@@ -68,7 +68,56 @@ class Binary:
     column: int
 
 
-Expr = Union[Num, Name, Call, Unary, Binary]
+@dataclass(frozen=True)
+class RepSpec:
+    """A representation inside ``ch(G, ...)``/``tr(G, ..., k)``: a trade name
+    (``adjoint``, ``spinor+``, ``antisymmetric(3)``) or Dynkin labels ``[1, 0]``."""
+
+    name: str  # "" for Dynkin labels
+    power: Optional[int]
+    labels: tuple[int, ...]
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class Apply:
+    """A call of a function the document defined: ``a_chiral(r)``."""
+
+    func: Ident
+    args: tuple["Expr", ...]
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class Sum:
+    """``sum(body, k = low..high)`` or ``prod(...)``; ``index`` is local to ``body``."""
+
+    op: str  # "sum" or "prod"
+    body: "Expr"
+    index: Ident
+    low: "Expr"
+    high: "Expr"
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class Expansion:
+    """``leading(f, N)``, ``series(f, N, 3)``: the first ``terms`` nonzero terms
+    of ``f`` in ``variable`` at infinity (``point`` None) or at ``x = point``."""
+
+    op: str  # "leading" or "series"
+    target: "Expr"
+    variable: Ident
+    point: Optional[Fraction]
+    terms: int
+    line: int
+    column: int
+
+
+Expr = Union[Num, Name, Call, Unary, Binary, RepSpec, Apply, Sum, Expansion]
 
 
 @dataclass(frozen=True)
@@ -231,7 +280,7 @@ class ConventionDecl(_Statement):
 class BundleDecl(_Statement):
     names: tuple[Ident, ...]
     bundle_kind: str  # "real", "complex" or "line"
-    rank: Optional[int]  # None for line bundles
+    rank: Union[int, Ident, None]  # None for line bundles; an Ident: a declared integer symbol
     kind = "bundle"
 
 
@@ -298,6 +347,28 @@ class Let(_Statement):
     expr: Expr
     rebind: bool
     kind = "let"
+
+
+@dataclass(frozen=True)
+class Define(_Statement):
+    """``define f(x, y) = body``: ``params`` are local to ``body``."""
+
+    name: Ident
+    params: tuple[Ident, ...]
+    body: Expr
+    rebind: bool
+    kind = "define"
+
+
+@dataclass(frozen=True)
+class UseDecl(_Statement):
+    """``use "common.md"`` (in this folder or below) or ``use library "x.md"``."""
+
+    path: str
+    library: bool
+    #: The loaded document (a ``preambles.Module``, not a node), set after parsing.
+    module: object = field(default=None, compare=False, repr=False)
+    kind = "use"
 
 
 @dataclass(frozen=True)
@@ -396,8 +467,47 @@ class Plot(_Statement):
     kind = "plot"
 
 
+@dataclass(frozen=True)
+class GaugeDecl(_Statement):
+    """``bundle G: gauge SU(N), index t, curvature 1/2``: rank a literal or an integer
+    symbol; the trace index and the curvature factor rational literals or conventions."""
+
+    names: tuple[Ident, ...]
+    family: str
+    rank: Optional[int]
+    rank_name: Optional[Ident]
+    index: Union[Fraction, Ident, None]
+    curvature: Union[Fraction, Ident, None]
+    kind = "bundle"
+
+
+@dataclass(frozen=True)
+class Factorize(_Statement):
+    """``factorize I into 4, 8 -> X, Y``."""
+
+    target: Expr
+    degrees: tuple[int, ...]
+    outputs: tuple[Ident, ...]
+    kind = "factorize"
+
+
+@dataclass(frozen=True)
+class MatterDecl(_Statement):
+    name: Ident
+    dimension: int
+    tangent: Ident
+    r_symmetry: Optional[Ident]
+    fields: tuple  # of matter.Field, the indented lines
+    kind = "matter"
+
+    @property
+    def outputs(self) -> tuple[Ident, ...]:
+        """The polynomial it binds, as the outputs of a step (kept in the cache)."""
+        return (self.name,)
+
+
 Statement = Union[
-    SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
-    SphereFiber, GeneralFiber, FixedPointFiber, Let, Substitute, Reduce, Integrate,
-    Coefficients, Extremize, Check, Show, Table, Plot,
+    SymbolDecl, ConventionDecl, BundleDecl, GaugeDecl, SplitDecl, SurfaceFiber,
+    SphereFiber, GeneralFiber, FixedPointFiber, Let, Define, UseDecl, Substitute, Reduce,
+    Integrate, Factorize, MatterDecl, Coefficients, Extremize, Check, Show, Table, Plot,
 ]
