@@ -7,7 +7,8 @@ user runs it): first with an empty cache folder (cold), then again with the
 cache that build wrote (warm).  Each time is the minimum over ``--runs``
 repetitions (a cold repetition starts from an empty cache again).  The bare
 interpreter start-up (``python -c pass``) is timed the same way, so a warm
-rebuild can be read against it.
+rebuild can be read against it.  ``--cpu`` times CPU seconds (user +
+system) of each process instead of wall seconds.
 
 ``--before DIR`` names another checkout of anomark (say ``git worktree add
 /tmp/old <commit>``): every build is then also timed with that code, the two
@@ -18,6 +19,7 @@ from __future__ import annotations
 
 import argparse
 import os
+import resource
 import shutil
 import subprocess
 import sys
@@ -32,13 +34,23 @@ class CannotBuild(Exception):
     """The document does not compile with this checkout (exit 2 or 3)."""
 
 
+#: Wall seconds, or with ``--cpu`` the child's CPU seconds (user + system):
+#: on a machine shared with other work the CPU time is the steadier measure.
+CPU = False
+
+
+def _children_cpu() -> float:
+    usage = resource.getrusage(resource.RUSAGE_CHILDREN)
+    return usage.ru_utime + usage.ru_stime
+
+
 def timed(argv: list[str], cwd: Path, code: Path) -> float:
-    """Wall seconds of one process run with anomark from ``code``."""
+    """Seconds of one process run with anomark from ``code`` (see ``CPU``)."""
     env = dict(os.environ, PYTHONPATH=str(code))
     env.pop("PYTHONDONTWRITEBYTECODE", None)   # as installed: compiled modules are kept
-    start = time.perf_counter()
+    start, cpu = time.perf_counter(), _children_cpu()
     done = subprocess.run(argv, cwd=cwd, env=env, capture_output=True, text=True)
-    seconds = time.perf_counter() - start
+    seconds = _children_cpu() - cpu if CPU else time.perf_counter() - start
     if done.returncode > 1:
         raise CannotBuild(f"{' '.join(argv)} with {code} exited {done.returncode}:\n{done.stderr}")
     return seconds
@@ -69,7 +81,10 @@ def main() -> None:
                         help="documents to build (default: every derivations/*.md)")
     parser.add_argument("--runs", type=int, default=3, help="repetitions; the minimum is kept")
     parser.add_argument("--before", type=Path, help="another checkout of anomark to compare with")
+    parser.add_argument("--cpu", action="store_true", help="CPU seconds of each process instead of wall")
     args = parser.parse_args()
+    global CPU
+    CPU = args.cpu
     sources = [p.resolve() for p in args.documents] or sorted((ROOT / "derivations").glob("*.md"))
     codes = [ROOT] + ([args.before.resolve()] if args.before else [])
     with tempfile.TemporaryDirectory(prefix="anomark-process-") as tmp:
