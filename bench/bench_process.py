@@ -1,9 +1,9 @@
 """Whole-process builds of the bundled library: cold, warm, and bare start-up.
 
 Not a test: run ``python bench/bench_process.py`` from the repository root.
-Each ``derivations/*.md`` is copied to a temporary folder and built by its
-own ``python -m compiler build FILE -o OUT`` process (HTML and JSON, as a
-user runs it): first with an empty cache folder (cold), then again with the
+Each ``derivations/*.md`` is built in a temporary copy of its folder (with
+the documents it may ``use``) by its own ``python -m compiler build FILE -o
+OUT`` process (HTML and JSON, as a user runs it): first with an empty cache folder (cold), then again with the
 cache that build wrote (warm).  Each time is the minimum over ``--runs``
 repetitions (a cold repetition starts from an empty cache again).  The bare
 interpreter start-up (``python -c pass``) is timed the same way, so a warm
@@ -66,8 +66,7 @@ def build_times(source: Path, folder: Path, codes: list[Path], runs: int) -> lis
         for i, code in enumerate(codes):
             place = folder / str(i)
             shutil.rmtree(place, ignore_errors=True)
-            place.mkdir(parents=True)
-            shutil.copy(source, place / source.name)
+            shutil.copytree(source.parent, place, ignore=shutil.ignore_patterns(".anomark-cache"))
             cold[i].append(timed(build, place, code))
     for _ in range(runs):
         for i, code in enumerate(codes):
