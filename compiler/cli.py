@@ -279,7 +279,8 @@ def build_once(args, formats) -> int:
         print(f"anomark: {out}: not a folder (-o names the output folder)", file=sys.stderr)
         return 2
     report = compile_file(args, args.file)
-    record, key = OutputRecord(args.file, not args.no_cache), render_key(args, report, formats)
+    record = OutputRecord(args.file, not args.no_cache)
+    key = render_key(args, report, formats) if record.enabled else None
     written = record.current(key)
     if written is None:  # else the files on disk are what rendering would write
         files = report_files(args, report, formats)

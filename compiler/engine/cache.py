@@ -145,6 +145,7 @@ class OutputRecord:
         path = Path(document)
         self.file = path.parent / CACHE_DIR / f"{path.name}.outputs.json"
         self.secret = signing_key() if enabled else None
+        self.enabled = self.secret is not None
 
     def current(self, key: str) -> list[Path] | None:
         """The files of the last build if it had this key and they are unchanged."""
