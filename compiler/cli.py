@@ -22,7 +22,7 @@ from pathlib import Path
 from . import __version__, usage
 from .diff import diff_records, diff_to_json, format_diff, load_record
 from .engine import BuildOptions, build
-from .errors import DocumentError, Location
+from .errors import DocumentError, Location, shown
 from .render.html import to_html
 from .render.json import to_json
 from .render.tex import plot_files, to_tex
@@ -153,7 +153,7 @@ def print_warnings(source) -> None:
     """
     for warning in getattr(source, "warnings", ()) or ():
         location, message = getattr(warning, "location", None), getattr(warning, "message", None)
-        text = f"{location}: warning: {message}" if location is not None else str(warning)
+        text = f"{location}: warning: {shown(message)}" if location is not None else shown(str(warning))
         print(text, file=sys.stderr)
 
 
@@ -175,9 +175,9 @@ def summary(path: str, report, written=()) -> str:
     total = sum(len(s.checks) for s in report.steps)
     counts = ", ".join(plural(report.count(s), s) if s == "error" else f"{report.count(s)} {s}"
                        for s in STATUSES if report.count(s))
-    line = (f"{path}: {VERDICTS[status_of(report)]} \u2014 {plural(total, 'check')}"
+    line = (f"{shown(path)}: {VERDICTS[status_of(report)]} \u2014 {plural(total, 'check')}"
             f"{': ' + counts if counts else ''} ({plural(len(report.steps), 'step')})")
-    return line + (f"; wrote {', '.join(str(p) for p in written)}" if written else "")
+    return line + (f"; wrote {', '.join(shown(str(p)) for p in written)}" if written else "")
 
 
 def options(args, path: str) -> BuildOptions:
@@ -275,19 +275,19 @@ def build_once(args, formats) -> int:
     """Compile ``args.file``, write its reports whole, and say what happened."""
     out, source = output_folder(args), Path(args.file)
     if out.exists() and not out.is_dir():
-        print(f"anomark: {out}: not a folder (-o names the output folder)", file=sys.stderr)
+        print(f"anomark: {shown(str(out))}: not a folder (-o names the output folder)", file=sys.stderr)
         return 2
     report = compile_file(args, args.file)
     files = report_files(args, report, formats)
     clash = [target for target in files if target.resolve() == source.resolve()]
     if clash:
-        print(f"anomark: {clash[0]}: the output would overwrite the document itself; "
+        print(f"anomark: {shown(str(clash[0]))}: the output would overwrite the document itself; "
               "choose another folder with -o", file=sys.stderr)
         return 2
     try:
         write_whole(files)
     except OSError as exc:
-        print(f"anomark: cannot write into {out}: {exc.strerror or exc}", file=sys.stderr)
+        print(f"anomark: cannot write into {shown(str(out))}: {exc.strerror or exc}", file=sys.stderr)
         return 2
     say(args, summary(args.file, report, files))
     return status_of(report)
@@ -348,7 +348,7 @@ def cmd_watch(args) -> int:
     except OSError as exc:
         print(f"anomark: cannot serve on 127.0.0.1:{args.port}: {exc.strerror or exc}", file=sys.stderr)
         return 2
-    print(f"anomark: serving {url} (rebuilds when {args.file} is saved; Ctrl-C stops)",
+    print(f"anomark: serving {url} (rebuilds when {shown(args.file)} is saved; Ctrl-C stops)",
           file=sys.stderr, flush=True)
     try:
         watch.run()

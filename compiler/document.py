@@ -12,8 +12,8 @@ import re
 from dataclasses import dataclass
 from typing import Union
 
-from compiler.errors import DocumentError, Location, Problem
-from compiler.front_matter import FrontMatter, read_front_matter, shown
+from compiler.errors import DocumentError, Location, Problem, shown
+from compiler.front_matter import FrontMatter, read_front_matter
 from compiler.markdown import MATH_TOKENS, make_markdown, math_refs
 
 _FRONT_MATTER_OPEN = re.compile(r"-{3,}[ \t]*")

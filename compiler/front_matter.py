@@ -17,7 +17,7 @@ from typing import Callable, Iterator, Optional
 
 import yaml
 
-from compiler.errors import DocumentError, Location, Problem
+from compiler.errors import DocumentError, Location, Problem, shown
 from compiler.statements.words import STATEMENT_WORDS
 
 DEFAULT_TRUNCATE = 12
@@ -55,12 +55,6 @@ class FrontMatter:
     truncate: int = DEFAULT_TRUNCATE
     conventions: tuple[ConventionEntry, ...] = ()
     line: int = 0
-
-
-def shown(text: str) -> str:
-    """``text`` with control and other unprintable characters escaped."""
-    return "".join(ch if ch.isprintable() else ch.encode("unicode_escape").decode("ascii")
-                   for ch in text)
 
 
 class _Loader(yaml.SafeLoader):

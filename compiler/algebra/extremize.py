@@ -9,6 +9,7 @@ other outcome is an error that asks the author for a range.
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Sequence
@@ -23,6 +24,10 @@ _NEEDED = {"maximize": "a negative-definite Hessian (a maximum)",
            "extremize": "a non-degenerate Hessian"}
 _KIND = {"maximize": "maximum", "minimize": "minimum", "extremize": "critical point"}
 _TOL = sympy.Float("1e-30", 50)
+#: Largest number of critical points solved for, bounded by the product of the
+#: degrees of the critical-point equations (Bezout): radicals of high degree
+#: take sympy minutes.  Anomark's own choice (common practice, no source).
+MAX_CRITICAL_DEGREE = 8
 
 
 class ExtremizeError(ValueError):
@@ -104,6 +109,11 @@ class _Problem:
     def critical_points(self) -> list[_Candidate]:
         """Every critical point of ``g`` in closed form, in a fixed order."""
         numerators = [sympy.numer(sympy.together(sympy.diff(self.g, v))) for v in self.vars]
+        bound = math.prod(max(sympy.Poly(p, *self.vars).total_degree(), 1) for p in numerators)
+        if bound > MAX_CRITICAL_DEGREE:
+            raise ExtremizeError(f"the critical-point equations of {self.name} have degree {bound} "
+                                 f"in {self.var_names}; at most {MAX_CRITICAL_DEGREE} is solved "
+                                 f"(the extremization degree limit)")
         if len(self.vars) == 1:
             solutions = [(r,) for r in _roots(numerators[0], self.vars[0], self.name)]
         else:

@@ -25,6 +25,7 @@ from fractions import Fraction
 from functools import lru_cache
 from math import comb, factorial
 
+from . import budget
 from .bundles import COMPLEX, BundleTable
 from .graded import AlgebraError, Element
 
@@ -104,16 +105,19 @@ def multiplicative_sequence(series: str, n: int) -> tuple[Fraction, tuple[dict, 
     for k in range(1, n + 1):
         log[k] = (k * qt[k] - sum(j * log[j] * qt[k - j] for j in range(1, k))) / k
     s = _power_sums(n)
-    y: dict = {}
-    for k in range(1, n + 1):
-        y = _padd(y, s[k], log[k])
-    one = {tuple([0] * n): Fraction(1)}
-    total, term = dict(one), dict(one)
-    for j in range(1, n + 1):
-        term = {e: c / j for e, c in _pmul(term, y, n).items()}
-        total = _padd(total, term)
-    parts = tuple({e: c for e, c in total.items() if _weight(e) == w} for w in range(n + 1))
-    return q0, parts
+    # exp of y = sum_k log_k s_k, one weight at a time: with y_k = log_k s_k of
+    # weight k, the weight-w part of exp(y) is (1/w) sum_k k y_k K_{w-k}, which
+    # multiplies homogeneous parts only (far cheaper than the powers of y).
+    parts = [{tuple([0] * n): Fraction(1)}]
+    for w in range(1, n + 1):
+        budget.check()
+        part: dict = {}
+        for k in range(1, w + 1):
+            scale = log[k] * Fraction(k, w)
+            for e, c in _pmul(s[k], parts[w - k], n).items():
+                part[e] = part.get(e, 0) + scale * c
+        parts.append({e: c for e, c in part.items() if c})
+    return q0, tuple(parts)
 
 
 def _evaluate(poly_parts, sigmas: list[Element], one: Element) -> Element:
@@ -127,6 +131,7 @@ def _evaluate(poly_parts, sigmas: list[Element], one: Element) -> Element:
 
     total = one.ring.zero()
     for part in poly_parts:
+        budget.check()
         for exps, c in part.items():
             if any(e and k >= len(sigmas) for k, e in enumerate(exps)):
                 continue

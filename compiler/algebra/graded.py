@@ -30,6 +30,7 @@ from sympy import QQ
 from sympy.polys.fields import FracField
 
 from .. import notation
+from . import budget
 
 
 class AlgebraError(ValueError):
@@ -44,7 +45,7 @@ class LimitError(AlgebraError):
     """A computation grew beyond the term cap; fail fast instead of hanging."""
 
 
-MAX_TERMS = 200_000
+MAX_TERMS = 20_000
 #: Largest product of coefficient sizes multiplied in one step (term pairs).
 MAX_PRODUCT = 20_000_000
 
@@ -61,6 +62,31 @@ def _check_power_size(poly, n: int) -> None:
     if bound > MAX_TERMS:
         raise LimitError(f"a power of a {len(poly)}-term polynomial to the {n} would have up to "
                          f"{bound} terms (the limit is {MAX_TERMS})")
+
+
+#: Digits of the numerator or denominator of any number in a value, as for the
+#: lexer's number literals: a power is refused before it is computed if its
+#: numbers would grow past this, and a value past it cannot be shown.
+MAX_DIGITS = 4000
+_BITS_PER_DIGIT = math.log2(10)
+
+
+def _bits(c) -> int:
+    """Bits of the larger of a rational's numerator and denominator."""
+    return max(c.numerator.bit_length(), c.denominator.bit_length())
+
+
+def _check_digits(polys, n: int = 1) -> None:
+    """Refuse numbers past MAX_DIGITS: those of ``polys``, or (with ``n``) the ones
+    their n-th power certainly holds, the leading coefficients' n-th powers
+    (a number of b bits is at least 2^(b-1))."""
+    coefficients = (c for p in polys for c in p.values()) if n == 1 else (p.LC for p in polys)
+    bits = n * max((_bits(c) - 1 for c in coefficients), default=0)
+    if bits >= MAX_DIGITS * _BITS_PER_DIGIT:
+        what = "a number in the value is" if n == 1 else f"the power to the {n} would hold a number"
+        raise LimitError(f"{what} about {int(bits / _BITS_PER_DIGIT)} digits long "
+                         f"(the limit is {MAX_DIGITS} digits)")
+
 
 # A monomial: ((generator index, exponent), ...) sorted by index, exponents > 0.
 Mono = tuple
@@ -813,8 +839,9 @@ class Element:
                 old = get(m)
                 raw[m] = prod if old is None else old + prod
             if len(raw) > MAX_TERMS:
-                raise LimitError(f"a product grew beyond {MAX_TERMS} terms; simplify the input "
-                                 f"or lower truncate")
+                raise LimitError(f"a product grew beyond {MAX_TERMS} terms (the term limit); "
+                                 f"simplify the input or lower truncate")
+            budget.check()
         raw = {m: c for m, c in raw.items() if c}
         return Element(R, *R._normalize(raw, a._d * b._d))
 
@@ -851,9 +878,12 @@ class Element:
                 return R.one() if n == 0 else a
             for poly in (a._t[()], a._d):
                 _check_power_size(poly, n)
+                _check_digits([poly], n)
             return Element(R, *R._cancel({(): a._t[()] ** n}, a._d ** n))
         if () not in a._t and n * min(R._mdeg(m) for m in a._t) > R.truncate:
             return R.zero()
+        if () in a._t and a._d == R._pone:  # then a^n's constant term is exactly its n-th power
+            _check_digits([a._t[()]], n)
         result, base = R.one(), a
         while n:
             if n & 1:
@@ -1056,6 +1086,7 @@ class Element:
     # ------------------------------------------------------------ printing
     def _signed_terms(self):
         a = self._fresh()
+        _check_digits([*a._t.values(), a._d])
         for m, c in a._sorted():
             yield m, _scalar_parts(c, a._d)
 
