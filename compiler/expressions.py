@@ -22,7 +22,8 @@ from . import notation
 from .algebra import budget, genera
 from .algebra.extremize import tidy
 from .algebra.genera import BundleValue
-from .algebra.graded import AlgebraError, Element, NotRational
+from .algebra.errors import AlgebraError, NotRational
+from .algebra.graded import Element
 from .errors import DocumentError, Location
 from .statements import nodes as n
 

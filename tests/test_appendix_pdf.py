@@ -10,11 +10,7 @@ comparison is made on text with the whitespace (and ``_``) taken out.
 """
 from __future__ import annotations
 
-import json
 import re
-import shutil
-import subprocess
-import sys
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -22,13 +18,9 @@ import pytest
 
 from compiler.document import ProsePart, read_document
 from compiler.markdown import make_markdown
+from support import DOCUMENTS, needs_tex, pdf_text, pdflatex
 
-pytestmark = pytest.mark.skipif(not (shutil.which("pdflatex") and shutil.which("pdftotext")),
-                                reason="pdflatex or pdftotext is not installed")
-
-ROOT = Path(__file__).resolve().parent.parent
-DERIVATIONS = sorted((ROOT / "derivations").glob("*.md"))
-TEX_TIMEOUT = 120  # seconds per pdflatex run
+pytestmark = needs_tex
 
 
 @dataclass(frozen=True)
@@ -131,71 +123,30 @@ def headings(path: Path) -> list[str]:
     return found
 
 
-def pdflatex(tex: Path) -> Path:
-    """Compile in the file's folder (rerun once if LaTeX asks); on failure
-    fail with LaTeX's error and the offending source line."""
-    for _ in range(2):
-        run = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", tex.name],
-                             cwd=tex.parent, capture_output=True, text=True, errors="replace",
-                             timeout=TEX_TIMEOUT)
-        log = tex.with_suffix(".log").read_text(encoding="utf-8", errors="replace")
-        if run.returncode != 0:
-            error = re.search(r"^!.*?(?=^\s*$|^Here is how much)", log, re.S | re.M)
-            where = re.search(r"^l\.(\d+)", log, re.M)
-            line = ""
-            if where:
-                number = int(where.group(1))
-                source = tex.read_text(encoding="utf-8").splitlines()
-                if number <= len(source):  # l.N counts in the file being read, maybe an \input one
-                    line = f"\n{tex.name}:{number}: {source[number - 1]}"
-            pytest.fail(f"pdflatex failed on {tex.name}:\n{error.group(0) if error else log[-2000:]}{line}")
-        if "Rerun to get" not in log:
-            break
-    pdf = tex.with_suffix(".pdf")
-    assert pdf.is_file() and pdf.stat().st_size > 0
-    return pdf
+@pytest.fixture(scope="module")
+def appendix_text(bundled):
+    """``appendix_text(STEM)``: the text of the PDF of the bundled build's
+    standalone appendix, one TeX run per document."""
+    texts: dict[str, str] = {}
 
+    def get(stem: str) -> str:
+        if stem not in texts:
+            texts[stem] = pdf_text(pdflatex(bundled(stem).file("tex")))
+        return texts[stem]
 
-def pdf_text(pdf: Path) -> str:
-    run = subprocess.run(["pdftotext", "-layout", pdf.name, "-"], cwd=pdf.parent,
-                         capture_output=True, text=True, check=True, timeout=TEX_TIMEOUT)
-    return run.stdout
-
-
-def anomark_build(path: Path, out: Path, formats: str, standalone: bool) -> None:
-    command = [sys.executable, "-m", "compiler", "build", str(path.relative_to(ROOT)), "-o", str(out),
-               "--format", formats, "--no-cache", "--quiet"] + (["--standalone"] if standalone else [])
-    run = subprocess.run(command, cwd=ROOT, capture_output=True, text=True, timeout=600)
-    assert run.returncode == 0, run.stderr
-
-
-@dataclass
-class Appendix:
-    record: dict
-    text: str
-
-
-_BUILT: dict[str, Appendix] = {}
-
-
-def appendix(path: Path, factory) -> Appendix:
-    """One standalone build and TeX run per document, shared by the tests below."""
-    if path.stem not in _BUILT:
-        out = factory.mktemp(path.stem)
-        anomark_build(path, out, "tex,json", standalone=True)
-        record = json.loads((out / f"{path.stem}.json").read_text(encoding="utf-8"))
-        _BUILT[path.stem] = Appendix(record, pdf_text(pdflatex(out / f"{path.stem}.tex")))
-    return _BUILT[path.stem]
+    return get
 
 
 def check_steps(record: dict, expr: str) -> list[dict]:
     return [s for s in record["steps"] if s["kind"] == "check" and s["source"] == f"check {expr}"]
 
 
-@pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
-def test_appendix_compiles_and_reads_back(path, tmp_path_factory):
-    built = appendix(path, tmp_path_factory)
-    text, flat_text = built.text, flat(built.text)
+@pytest.mark.parametrize("path", DOCUMENTS, ids=lambda p: p.stem)
+def test_appendix_compiles_and_reads_back(path, bundled, appendix_text):
+    built = bundled(path.stem)
+    assert built.returncode == 0, built.stderr
+    text = appendix_text(path.stem)
+    flat_text = flat(text)
     document = read_document(str(path), path.read_text(encoding="utf-8"))
 
     assert document.front.title and words(document.front.title) in words(text)
@@ -216,17 +167,20 @@ def test_appendix_compiles_and_reads_back(path, tmp_path_factory):
         assert flat(snippet) in flat_text, f"{snippet!r} missing from the PDF"
 
 
-@pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
-def test_no_literal_dollar_in_pdf(path, tmp_path_factory):
+@pytest.mark.parametrize("path", DOCUMENTS, ids=lambda p: p.stem)
+def test_no_literal_dollar_in_pdf(path, appendix_text):
     """No bundled document writes a literal dollar, so any "$" in the PDF is math
     that reached LaTeX as text (as ``$$...$$`` inside a paragraph once did)."""
-    assert "$" not in appendix(path, tmp_path_factory).text
+    assert "$" not in appendix_text(path.stem)
 
 
-def test_fragment_compiles_inside_a_minimal_article(tmp_path):
+def test_fragment_compiles_inside_a_minimal_article(tmp_path, bundled, bundled_folder, anomark):
     """The appendix as users include it: the fragment (plots and all) inside their own article."""
-    path = ROOT / "derivations" / "twisted-compactification.md"
-    anomark_build(path, tmp_path, "tex", standalone=False)
+    path = bundled_folder / "derivations" / "twisted-compactification.md"
+    bundled(path.stem)  # built first, so this build of the fragment runs warm from the cache
+    run = anomark("build", path.relative_to(bundled_folder), "-o", tmp_path, "--format", "tex",
+                  cwd=bundled_folder)
+    assert run.returncode == 0, run.stderr
     fragment = (tmp_path / f"{path.stem}.tex").read_text(encoding="utf-8")
     assert "\\documentclass" not in fragment and "\\begin{document}" not in fragment
     assert sorted(p.name for p in tmp_path.glob("*-plot-*.pdf")) == [

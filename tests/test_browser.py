@@ -7,25 +7,93 @@ actually laid out.  One browser session serves the whole module.
 """
 from __future__ import annotations
 
-import subprocess
-import sys
+import json
+from dataclasses import dataclass
 from pathlib import Path
 
 import pytest
 
-from browser_support import missing_browser
+from support import SCRIPT, make_report, missing_browser, start_browser
 
 if missing_browser():
     pytest.skip(missing_browser(), allow_module_level=True)
 
 from PIL import Image  # noqa: E402 - matplotlib's own dependency
+from selenium.webdriver.support.ui import WebDriverWait  # noqa: E402
 
-from browser_support import start_browser, visit  # noqa: E402
 from compiler.render.html import to_html  # noqa: E402
-from report_fixture import SCRIPT, make_report  # noqa: E402
 
-ROOT = Path(__file__).resolve().parents[1]
-TWISTED = "derivations/twisted-compactification.md"
+# ---------------------------------------------------------------- what a visit records
+
+# Every <math> element's box, whether it is in the MathML namespace (parsed
+# as math, not as an unknown HTML tag), and every fraction's layout: a
+# browser that lays MathML out puts the numerator above the denominator.
+_MEASURE = """
+const NS = 'http://www.w3.org/1998/Math/MathML';
+const box = e => { const r = e.getBoundingClientRect(); return {w: r.width, h: r.height, top: r.top, bottom: r.bottom}; };
+return {
+  math: Array.from(document.querySelectorAll('math')).map(e => Object.assign(box(e), {ns: e.namespaceURI === NS})),
+  fractions: Array.from(document.querySelectorAll('mfrac'))
+    .filter(f => f.children.length === 2)
+    .map(f => ({num: box(f.children[0]), den: box(f.children[1])})),
+  merror: document.querySelectorAll('merror').length,
+  tex_errors: Array.from(document.querySelectorAll('.tex-error')).map(e => e.textContent),
+  scripts: document.scripts.length,
+  svgs: Array.from(document.querySelectorAll('figure.plot svg')).map(box),
+  text: document.body.innerText,
+};
+"""
+
+
+@dataclass
+class Visit:
+    """What happened when the browser opened one page."""
+
+    url: str
+    requested: list[str]  # the page's own URL, then every URL it asked for
+    console: list[dict]  # browser log entries
+    layout: dict  # the result of _MEASURE
+    screenshot: Path
+
+
+def _requested_urls(performance_log: list[dict]) -> list[str]:
+    urls = []
+    for entry in performance_log:
+        message = json.loads(entry["message"])["message"]
+        method, params = message.get("method"), message.get("params", {})
+        if method == "Network.requestWillBeSent":
+            urls.append(params["request"]["url"])
+        elif method == "Network.webSocketCreated":
+            urls.append(params["url"])
+    return urls
+
+
+def visit(driver, page: Path, screenshot: Path) -> Visit:
+    """Open ``page`` from disk, wait for it to finish loading, and record it."""
+    driver.get_log("performance")  # drain what earlier pages left behind
+    driver.get_log("browser")
+    url = page.resolve().as_uri()
+    driver.get(url)
+    WebDriverWait(driver, 30).until(lambda d: d.execute_script("return document.readyState") == "complete")
+    layout = driver.execute_script(_MEASURE)
+    driver.save_screenshot(str(screenshot))
+    # Bring everything into view, so lazily loaded content would ask now too.
+    driver.execute_script("window.scrollTo(0, document.body.scrollHeight)")
+    requested = _requested_urls(driver.get_log("performance"))
+    # The log may still hold the start-up tab's own chrome:// loads; whatever
+    # the page asks for comes after the request that navigated to it.
+    if url in requested:
+        requested = requested[requested.index(url):]
+    return Visit(
+        url=url,
+        requested=requested,
+        console=driver.get_log("browser"),
+        layout=layout,
+        screenshot=screenshot,
+    )
+
+
+# ---------------------------------------------------------------- the pages
 
 
 @pytest.fixture(scope="module")
@@ -35,19 +103,14 @@ def browser(tmp_path_factory):
     driver.quit()
 
 
-def _built_report(out: Path) -> Path:
+def _built_report(bundled, out: Path) -> Path:
     """The real pipeline, as a user runs it, on the demo derivation."""
-    run = subprocess.run(
-        [sys.executable, "-m", "compiler", "build", TWISTED, "-o", str(out), "--format", "html", "--no-cache"],
-        cwd=ROOT, capture_output=True, text=True, timeout=900,
-    )
-    page = out / "twisted-compactification.html"
-    # Exit 1 (a failed check) still writes a report worth opening; 2 may not.
-    assert run.returncode in (0, 1) and page.exists(), f"build exited {run.returncode}:\n{run.stderr}"
-    return page
+    built = bundled("twisted-compactification")
+    assert built.returncode == 0, built.stderr
+    return built.file("html")
 
 
-def _hand_built_report(out: Path) -> Path:
+def _hand_built_report(bundled, out: Path) -> Path:
     """Every status, a remainder, a table, a plot and hostile prose, without the engine."""
     page = out / "hand-built.html"
     page.write_text(to_html(make_report()), encoding="utf-8")
@@ -63,11 +126,11 @@ PAGES = {
 
 
 @pytest.fixture(scope="module", params=sorted(PAGES))
-def page(request, browser, tmp_path_factory):
+def page(request, browser, bundled, tmp_path_factory):
     """One visit per page; every test below reads what the visit recorded."""
     out = tmp_path_factory.mktemp(request.param)
     build, text = PAGES[request.param]
-    html = build(out)
+    html = build(bundled, out)
     return html, text, visit(browser, html, out / "screenshot.png")
 
 

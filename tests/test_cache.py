@@ -15,17 +15,12 @@ import stat
 import pytest
 
 from compiler.engine import BuildOptions, build
-from compiler.engine.cache import CACHE_DIR, KEY_ENV, sign, signing_key
+from compiler.engine.cache import CACHE_DIR, sign, signing_key
 from compiler.render.html import to_html
 from compiler.render.json import to_json as full_json
+from support import compile_text
 
-
-@pytest.fixture(autouse=True)
-def key_folder(tmp_path_factory, monkeypatch):
-    """The signing secret in a folder of its own, outside every document folder."""
-    folder = tmp_path_factory.mktemp("key")
-    monkeypatch.setenv(KEY_ENV, str(folder))
-    return folder
+pytestmark = pytest.mark.usefixtures("key_folder")
 
 
 def to_json(report):
@@ -58,9 +53,9 @@ check sqrt(x^2 + 2*sqrt(x^2) + 1) == sqrt(x^2) + 1
 
 
 def build_at(path, text=None, **options):
-    text = DOC if text is None else text
-    path.write_text(text)
-    return build(str(path), text, BuildOptions(**options))
+    """Build with the cache on unless asked otherwise."""
+    options.setdefault("use_cache", True)
+    return compile_text(path, DOC if text is None else text, **options)
 
 
 def cache_file(tmp_path, name="doc.md"):

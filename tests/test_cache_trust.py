@@ -15,17 +15,13 @@ import stat
 import pytest
 
 from compiler.engine import BuildOptions, build
-from compiler.engine.cache import CACHE_DIR, KEY_ENV, sign, signing_key
+from compiler.engine.cache import CACHE_DIR, sign, signing_key
 
 # 2 + 2 == 5 is false (common practice, no source); 2 + 2 == 4 holds.
 DOC = "```derive\nsymbol N: integer, positive\nlet a = 2 + 2\ncheck a == 5\ncheck a == 4\n```\n"
 
 
-@pytest.fixture(autouse=True)
-def key_folder(tmp_path_factory, monkeypatch):
-    folder = tmp_path_factory.mktemp("key")
-    monkeypatch.setenv(KEY_ENV, str(folder))
-    return folder
+pytestmark = pytest.mark.usefixtures("key_folder")
 
 
 def build_at(tmp_path, **options):

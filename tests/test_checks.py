@@ -12,7 +12,7 @@ from fractions import Fraction
 
 import pytest
 
-from compiler.engine import BuildOptions, build
+from support import compile_text
 
 DECLS = ("symbol N, k: integer, positive",
          "symbol g: integer, g >= 2",
@@ -22,10 +22,7 @@ DECLS = ("symbol N, k: integer, positive",
 
 
 def compile_doc(tmp_path, *lines: str, name: str = "doc.md"):
-    text = "```derive\n" + "\n".join(DECLS + lines) + "\n```\n"
-    path = tmp_path / name
-    path.write_text(text)
-    return build(str(path), text, BuildOptions(use_cache=False))
+    return compile_text(tmp_path / name, "```derive\n" + "\n".join(DECLS + lines) + "\n```\n")
 
 
 def check_steps(tmp_path, *claims: str):

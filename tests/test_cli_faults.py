@@ -15,14 +15,12 @@ import os
 import pytest
 
 from compiler import cli
-from compiler.engine.cache import CACHE_DIR, KEY_ENV, sign, signing_key
+from compiler.engine.cache import CACHE_DIR, sign, signing_key
 
 DOC = "# Doc\n\n```derive\nsymbol N\nlet a = N + 1\ncheck a == N + 1\n```\n"
 
 
-@pytest.fixture(autouse=True)
-def key_folder(tmp_path_factory, monkeypatch):
-    monkeypatch.setenv(KEY_ENV, str(tmp_path_factory.mktemp("key")))
+pytestmark = pytest.mark.usefixtures("key_folder")
 
 
 def every_file(folder):

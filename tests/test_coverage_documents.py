@@ -3,7 +3,8 @@
 gauge-traces.md and free-chirals.md exist so that every statement and
 built-in function of the format runs in some real derivation; the last test
 keeps it that way, so a feature cannot silently drop out of every document.
-Builds go through ``python -m compiler`` and the tests read the JSON record.
+Each document is built once per session by ``anomark build`` (conftest.py's
+``bundled``) and the tests read the JSON record.
 """
 from __future__ import annotations
 
@@ -12,44 +13,16 @@ import re
 import pytest
 
 from compiler.statements.words import BUILTIN_FUNCTIONS, STATEMENT_WORDS
-from test_derivations import DERIVATIONS, build, find_step
-
-SETTLED = {"proven", "sampled"}
+from support import DERIVATIONS, SETTLED, assert_proven, check_statuses as statuses, find_step
 
 
-@pytest.fixture(scope="module")
-def built(tmp_path_factory):
-    """Build each document once for this module: name -> (process, record, folder)."""
-    cache: dict[str, tuple] = {}
-
-    def get(name: str, *extra: str):
-        key = " ".join((name,) + extra)
-        if key not in cache:
-            out = tmp_path_factory.mktemp(name.replace(".md", ""))
-            proc, record = build(DERIVATIONS / name, out, *extra)
-            cache[key] = (proc, record, out)
-        return cache[key]
-
-    return get
-
-
-def statuses(record: dict, source: str) -> set[str]:
-    step = find_step(record, source)
-    assert step["checks"], f"{source!r} ran no checks"
-    return {c["status"] for c in step["checks"]}
-
-
-def assert_proven(record: dict, source: str) -> None:
-    assert statuses(record, source) == {"proven"}, find_step(record, source)["checks"]
-
-
-def assert_passed(proc, record: dict, out, stem: str) -> None:
-    assert "Traceback" not in proc.stderr, proc.stderr
-    assert proc.returncode == 0, proc.stderr
+def assert_passed(built) -> None:
+    assert "Traceback" not in built.stderr, built.stderr
+    assert built.returncode == 0, built.stderr
     for ext in ("html", "json", "tex"):
-        assert (out / f"{stem}.{ext}").stat().st_size > 0, ext
-    assert record["passed"] is True
-    for step in record["steps"]:
+        assert built.file(ext).stat().st_size > 0, ext
+    assert built.record["passed"] is True
+    for step in built.record["steps"]:
         for check in step["checks"]:
             assert check["status"] in SETTLED, (step["line"], step["source"], check)
 
@@ -83,9 +56,10 @@ TRACE_IDENTITIES = (
 )
 
 
-def test_gauge_traces_builds_and_proves_the_identities(built):
-    proc, record, out = built("gauge-traces.md")
-    assert_passed(proc, record, out, "gauge-traces")
+def test_gauge_traces_builds_and_proves_the_identities(bundled):
+    built = bundled("gauge-traces")
+    record = built.record
+    assert_passed(built)
     for claim in TRACE_IDENTITIES:
         assert_proven(record, claim)
     # the determinant line of an SU(n) bundle is trivial (common practice, no source)
@@ -105,16 +79,16 @@ def test_gauge_traces_builds_and_proves_the_identities(built):
     assert record["values"]["ch_adj"]["degrees"] == [0, 4, 8]
 
 
-def test_gauge_traces_reduce_removes_c1(built):
-    _, record, _ = built("gauge-traces.md")
+def test_gauge_traces_reduce_removes_c1(bundled):
+    record = bundled("gauge-traces").record
     for name in ("ch4", "ch_adj", "ch_A2", "ch_S2", "ch5", "ch_bif", "ch_10", "gen"):
         assert "c1(" not in record["values"][name]["text"], name
     step = find_step(record, "reduce ch(V4*dual(V5)) modulo c1(V4) = 0, c1(V5) = 0 -> ch_bif")
     assert step["kind"] == "reduce" and step["outputs"] == ["ch_bif"]
 
 
-def test_gauge_traces_rebinding_keeps_earlier_checks(built):
-    _, record, _ = built("gauge-traces.md")
+def test_gauge_traces_rebinding_keeps_earlier_checks(bundled):
+    record = bundled("gauge-traces").record
     rebind = find_step(record, "let! gen = gen + 1")
     assert rebind["kind"] == "let" and rebind.get("rebind") is True
     # the check before the rebinding saw fifteen fermions, the ones after see sixteen
@@ -126,10 +100,11 @@ def test_gauge_traces_rebinding_keeps_earlier_checks(built):
 
 
 @pytest.mark.parametrize("value", ["2", "-3/2"])
-def test_gauge_traces_identities_do_not_depend_on_the_normalisation(value, built):
-    _, reference, _ = built("gauge-traces.md")
-    proc, record, out = built("gauge-traces.md", "--set", f"F_scale={value}")
-    assert_passed(proc, record, out, "gauge-traces")
+def test_gauge_traces_identities_do_not_depend_on_the_normalisation(value, bundled):
+    reference = bundled("gauge-traces").record
+    built = bundled("gauge-traces", "--set", f"F_scale={value}")
+    record = built.record
+    assert_passed(built)
     assert reference["conventions"]["F_scale"] == "1"
     assert record["conventions"]["F_scale"] == value
     for claim in TRACE_IDENTITIES:
@@ -140,23 +115,25 @@ def test_gauge_traces_identities_do_not_depend_on_the_normalisation(value, built
     for name in ("tr2", "tr4", "tradj4", "k_c4", "I_12_1"):
         assert record["values"][name]["text"] != reference["values"][name]["text"], name
     # the sentence quoting tr F^2 is recomputed with the convention
-    tex = (out / "gauge-traces.tex").read_text()
+    tex = built.file("tex").read_text()
     sentence = next(line for line in tex.splitlines() if "For the fundamental of" in line)
     assert record["values"]["tr2"]["latex"] in sentence
     assert reference["values"]["tr2"]["latex"] not in sentence
 
 
-def test_gauge_traces_rejects_an_undeclared_convention(tmp_path):
-    proc, _ = build(DERIVATIONS / "gauge-traces.md", tmp_path, "--set", "F_scal=2")
-    assert proc.returncode == 2, proc.stderr
-    assert "F_scal" in proc.stderr and "Traceback" not in proc.stderr
+def test_gauge_traces_rejects_an_undeclared_convention(bundled):
+    built = bundled("gauge-traces", "--set", "F_scal=2")
+    assert built.returncode == 2, built.stderr
+    assert "F_scal" in built.stderr and "Traceback" not in built.stderr
+    assert not built.record  # nothing is written
 
 
 # -- free-chirals.md ---------------------------------------------------------
 
-def test_free_chirals_builds_and_maximizes(built):
-    proc, record, out = built("free-chirals.md")
-    assert_passed(proc, record, out, "free-chirals")
+def test_free_chirals_builds_and_maximizes(bundled):
+    built = bundled("free-chirals")
+    record = built.record
+    assert_passed(built)
     # Intriligator, Wecht, "The exact superconformal R-symmetry maximizes a" (2003);
     # a = 1/48, c = 1/24 for a free chiral (common practice, no source)
     for claim in (
@@ -175,8 +152,8 @@ def test_free_chirals_builds_and_maximizes(built):
         assert statuses(record, source) == {"proven"}, source
 
 
-def test_free_chirals_extremize_two_variables_in_a_window(built):
-    _, record, _ = built("free-chirals.md")
+def test_free_chirals_extremize_two_variables_in_a_window(bundled):
+    record = bundled("free-chirals").record
     step = find_step(record, "extremize a2 over r1 in (0, 1), r2 in (0, 1) -> (r1_0, r2_0), a2_0")
     assert step["kind"] == "extremize"
     assert step["outputs"] == ["r1_0", "r2_0", "a2_0"]
@@ -192,8 +169,8 @@ def test_free_chirals_extremize_two_variables_in_a_window(built):
     assert_proven(record, "check a2_max == a2_0")
 
 
-def test_free_chirals_square_root(built):
-    _, record, _ = built("free-chirals.md")
+def test_free_chirals_square_root(bundled):
+    record = bundled("free-chirals").record
     # Intriligator, Wecht (2003), from memory; re-derived independently: the adjoint
     # R-charge of large-N adjoint SQCD, y = (3 - sqrt(20x^2 - 1))/(3(1 - 2x^2))
     assert statuses(record, "maximize a_adj over y -> y_star, a_adj_star") <= SETTLED
@@ -213,8 +190,8 @@ def test_free_chirals_square_root(built):
     assert_proven(record, "check a_adj_star < a_UV for x = 1")
 
 
-def test_free_chirals_table(built):
-    _, record, _ = built("free-chirals.md")
+def test_free_chirals_table(bundled):
+    record = bundled("free-chirals").record
     step = find_step(record, "table r_N, a_N, c_N for N = 2..5")
     table = step["table"]
     assert len(table["rows"]) == 4

@@ -10,7 +10,7 @@ import pytest
 from compiler.diff import Change, CheckChange, diff_to_json, diff_records, format_diff, load_record
 from compiler.errors import DocumentError
 from compiler.render.json import to_json, to_record
-from report_fixture import make_report
+from support import make_report
 
 
 def _pair():

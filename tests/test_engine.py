@@ -14,18 +14,14 @@ from fractions import Fraction
 import pytest
 
 from compiler import names
-from compiler.engine import BuildOptions, build
 from compiler.engine.handlers import CACHED, HANDLERS
 from compiler.errors import DocumentError
 from compiler.statements import nodes as n
+from support import compile_text
 
 
 def compile_doc(tmp_path, *lines: str, front: str = "", **options):
-    text = front + "```derive\n" + "\n".join(lines) + "\n```\n"
-    path = tmp_path / "doc.md"
-    path.write_text(text)
-    options.setdefault("use_cache", False)
-    return build(str(path), text, BuildOptions(**options))
+    return compile_text(tmp_path / "doc.md", front + "```derive\n" + "\n".join(lines) + "\n```\n", **options)
 
 
 def step_at(report, line: int):

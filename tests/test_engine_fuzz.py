@@ -9,16 +9,14 @@ polynomials) so they reach deep into the engine, then mutates some of them
 (swapped names, dropped tokens, wrong kinds and arities) to probe the error
 paths.  Crashes found this way are kept below as minimal regular tests.
 
-Run longer to hunt: ``FUZZ_EXAMPLES=3000 pytest tests/test_engine_fuzz.py
---hypothesis-seed=N``.
+The suite runs a fixed set of 100 documents (derandomized), which keeps it
+repeatable and within its time.  Run longer, on fresh documents, to hunt:
+``FUZZ_EXAMPLES=3000 pytest tests/test_engine_fuzz.py --hypothesis-seed=N``.
 """
 from __future__ import annotations
 
 import os
-import subprocess
-import sys
 
-import pytest
 from hypothesis import HealthCheck, given, settings, strategies as st
 
 from compiler.engine import BuildOptions, build
@@ -26,18 +24,19 @@ from compiler.errors import DocumentError
 from compiler.render.html import to_html
 from compiler.render.json import to_json
 from compiler.render.tex import to_tex
+from support import anomark
 
-EXAMPLES = int(os.environ.get("FUZZ_EXAMPLES", "150"))
+EXAMPLES = int(os.environ.get("FUZZ_EXAMPLES", "100"))
 OPTIONS = BuildOptions(use_cache=False, time_limit=10)
 
 ASSUMPTIONS = ["integer", "positive", "nonnegative", "real", "nonzero"]
 OPS = ["==", "!=", "<", "<=", ">", ">="]
 
 
-def compile_and_render(text: str, path: str = "fuzz.md"):
+def compile_and_render(text: str, path: str = "fuzz.md", options: BuildOptions = OPTIONS):
     """The only allowed outcomes: a rendered report, or a DocumentError."""
     try:
-        report = build(path, text, OPTIONS)
+        report = build(path, text, options)
     except DocumentError:
         return None  # a document error is an allowed outcome
     to_html(report)
@@ -559,9 +558,8 @@ def test_random_documents_never_crash(text):
 
 
 def run_cli(*args, cwd):
-    """Run ``anomark`` as a user would; a crash shows as exit 3 or a traceback."""
-    proc = subprocess.run([sys.executable, "-m", "compiler", *args], cwd=cwd,
-                          capture_output=True, text=True, timeout=300)
+    """Run ``anomark`` (in-process); a crash shows as exit 3 or a traceback."""
+    proc = anomark(*args, cwd=cwd)
     assert proc.returncode in (0, 1, 2), (proc.returncode, proc.stderr)
     assert "Traceback" not in proc.stderr and "internal error" not in proc.stderr, proc.stderr
     return proc
@@ -588,10 +586,11 @@ def test_cli_never_crashes_on_bad_documents(tmp_path):
         assert proc.returncode == 2, (name, proc.stderr)
         # a document error names its place: FILE:LINE:COL: message
         assert proc.stderr.startswith(f"{name}:"), (name, proc.stderr)
-    run_cli("check", *BAD_DOCUMENTS, "--no-cache", cwd=tmp_path)
-    run_cli("build", "missing.md", cwd=tmp_path)
-    run_cli("build", "front.md", "--set", "angular_integral=0.5", cwd=tmp_path)
-    run_cli("build", "front.md", "--set", "=", cwd=tmp_path)
+    # every one is a document that cannot be compiled: exit 2 (spec, Checks and exit status)
+    assert run_cli("check", *BAD_DOCUMENTS, "--no-cache", cwd=tmp_path).returncode == 2
+    assert run_cli("build", "missing.md", cwd=tmp_path).returncode == 2
+    assert run_cli("build", "front.md", "--set", "angular_integral=0.5", cwd=tmp_path).returncode == 2
+    assert run_cli("build", "front.md", "--set", "=", cwd=tmp_path).returncode == 2
 
 
 def test_cli_diff_never_crashes_on_bad_records(tmp_path):
@@ -612,8 +611,9 @@ def test_cli_diff_never_crashes_on_bad_records(tmp_path):
 # Each was found by the fuzzer or by hand and minimised; they pass once fixed.
 
 
-def assert_no_crash(body: str):
-    compile_and_render("```derive\n" + body + "\n```\n")
+def assert_no_crash(body: str, time_limit: float = OPTIONS.time_limit):
+    compile_and_render("```derive\n" + body + "\n```\n",
+                       options=BuildOptions(use_cache=False, time_limit=time_limit))
 
 
 def test_extremize_with_complex_coefficient():
@@ -634,8 +634,10 @@ def test_reduce_relation_with_sqrt_on_the_right():
 
 
 def test_minimize_with_nested_radical_critical_points():
+    # Solving this takes sympy far longer than a test can wait for, so what is
+    # checked is that the build ends cleanly, the step stopped at the time limit.
     assert_no_crash("symbol x\n"
-                    "minimize (x - 3)^2*x^4 + x^2 over x -> x0, f0")
+                    "minimize (x - 3)^2*x^4 + x^2 over x -> x0, f0", time_limit=2)
 
 
 def test_maximize_with_parameter_in_denominator():

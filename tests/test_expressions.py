@@ -9,8 +9,8 @@ from __future__ import annotations
 
 import pytest
 
-from compiler.engine import BuildOptions, build
 from compiler.errors import DocumentError
+from support import compile_text
 
 DECLS = ("symbol N, E, I, S, Q, pi, p",
          "bundle T: real, rank 5",
@@ -26,9 +26,7 @@ def derive(*lines: str, front: str = "") -> str:
 
 
 def compile_doc(tmp_path, text: str):
-    path = tmp_path / "doc.md"
-    path.write_text(text)
-    return build(str(path), text, BuildOptions(use_cache=False))
+    return compile_text(tmp_path / "doc.md", text)
 
 
 def value(tmp_path, expr: str, front: str = ""):

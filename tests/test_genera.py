@@ -6,7 +6,7 @@ from fractions import Fraction
 import sympy
 from hypothesis import given, settings, strategies as st
 
-from algebra_support import table, whitney_sum
+from support import bundle_table as table, whitney_sum
 from compiler.algebra.bundles import Trivial
 from compiler.algebra.genera import BundleValue, ahat, chern_character, hirzebruch_l, \
     multiplicative_sequence, todd

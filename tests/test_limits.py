@@ -6,18 +6,15 @@ size limits are anomark's own (DEVELOPERS.md); common practice, no source.
 """
 from __future__ import annotations
 
-from compiler.algebra.graded import MAX_TERMS
-from compiler.engine import BuildOptions, build
+from compiler.algebra.element import MAX_TERMS
 from compiler.errors import DocumentError
+from support import compile_text
 
 import pytest
 
 
 def run(tmp_path, body: str):
-    path = tmp_path / "runaway.md"
-    text = "```derive\n" + body + "\n```\n"
-    path.write_text(text)
-    return build(str(path), text, BuildOptions(use_cache=False, time_limit=60))
+    return compile_text(tmp_path / "runaway.md", "```derive\n" + body + "\n```\n", time_limit=60)
 
 
 def test_a_huge_power_of_a_symbolic_polynomial_is_refused_at_its_line(tmp_path):

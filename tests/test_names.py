@@ -9,9 +9,9 @@ from __future__ import annotations
 
 import pytest
 
-from compiler.engine import BuildOptions, build
 from compiler.errors import DocumentError
 from compiler.results import Prose
+from support import compile_text
 
 
 def derive(*lines: str, before: str = "", after: str = "") -> str:
@@ -21,9 +21,7 @@ def derive(*lines: str, before: str = "", after: str = "") -> str:
 
 
 def compile_doc(tmp_path, text: str):
-    path = tmp_path / "doc.md"
-    path.write_text(text)
-    return build(str(path), text, BuildOptions(use_cache=False))
+    return compile_text(tmp_path / "doc.md", text)
 
 
 def problems(tmp_path, text: str) -> list[tuple[int, int, str]]:
@@ -196,15 +194,12 @@ def test_every_name_problem_is_reported_at_once_in_order(tmp_path):
     assert [line for line, _, _ in found] == [1, 5, 6, 7, 8]
 
 
-def test_a_name_problem_writes_no_output_files(tmp_path):
+def test_a_name_problem_writes_no_output_files(tmp_path, anomark):
     # spec: Precise rules → Checks and exit status: exit 2 ... "A document that could not be
     # parsed writes no output files"
-    import subprocess
-    import sys
     doc = tmp_path / "broken.md"
     doc.write_text(derive("let a = zz"))
-    proc = subprocess.run([sys.executable, "-m", "compiler", "build", str(doc), "--format",
-                           "html,json,tex", "--no-cache"], capture_output=True, text=True)
+    proc = anomark("build", doc, "--format", "html,json,tex", "--no-cache")
     assert proc.returncode == 2
     assert f"{doc}:2:9:" in proc.stderr
     assert sorted(p.name for p in tmp_path.iterdir() if not p.name.startswith(".")) == ["broken.md"]

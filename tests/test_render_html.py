@@ -12,7 +12,7 @@ from html.parser import HTMLParser
 from compiler.render.html import to_html
 from compiler.render.mathml import to_mathml
 from compiler.results import Prose, Report, Step, ValueRecord
-from report_fixture import make_report
+from support import make_report
 
 
 def _html(report=None) -> str:

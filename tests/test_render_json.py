@@ -6,7 +6,7 @@ import json
 
 from compiler.render.json import to_json
 from compiler.results import STATUSES, CheckResult, PlotData, Report, Step, ValueRecord
-from report_fixture import I8_LATEX, I8_TEXT, a_star, make_report
+from support import I8_LATEX, I8_TEXT, a_star, make_report
 
 
 def _record(report=None) -> dict:

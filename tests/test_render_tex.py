@@ -3,15 +3,11 @@ as a standalone article whose text shows the key values."""
 from __future__ import annotations
 
 import re
-import shutil
-import subprocess
-
-import pytest
 
 from compiler.render.tex import (display_value, escape_tex, name_latex, plot_files, prose_tex, to_tex,
                                  value_lines)
 from compiler.results import Prose, Report, ValueRecord
-from report_fixture import make_report
+from support import make_report, needs_tex, pdf_text, pdflatex
 
 _ENV = re.compile(r"\\(begin|end)\{([^}]*)\}")
 
@@ -132,23 +128,16 @@ def test_checks_listed_with_status():
     assert "\\textsc{not passed}" in tex
 
 
-needs_pdflatex = pytest.mark.skipif(shutil.which("pdflatex") is None or shutil.which("pdftotext") is None,
-                                    reason="needs pdflatex and pdftotext")
-
-
 def _compile(tmp_path, report) -> str:
     """Build the standalone article in ``tmp_path``; return the PDF's text."""
-    (tmp_path / "doc.tex").write_text(to_tex(report, standalone=True), encoding="utf-8")
+    tex = tmp_path / "doc.tex"
+    tex.write_text(to_tex(report, standalone=True), encoding="utf-8")
     for name, data in plot_files(report).items():
         (tmp_path / name).write_bytes(data)
-    run = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", "doc.tex"],
-                         cwd=tmp_path, capture_output=True, text=True)
-    assert run.returncode == 0, run.stdout[-3000:]
-    return subprocess.run(["pdftotext", "doc.pdf", "-"], cwd=tmp_path,
-                          capture_output=True, text=True, check=True).stdout
+    return pdf_text(pdflatex(tex), layout=False)
 
 
-@needs_pdflatex
+@needs_tex
 def test_standalone_compiles(tmp_path):
     text = _compile(tmp_path, make_report())
     for needle in ("Anomaly of a twisted compactification", "let I8 = (N - 1)*I8_free",
@@ -157,7 +146,7 @@ def test_standalone_compiles(tmp_path):
         assert needle in text, needle
 
 
-@needs_pdflatex
+@needs_tex
 def test_every_prose_construct_compiles(tmp_path):
     md = ("# One\n\n## Two\n\n### Three\n\n#### Four\n\n"
           "Â-genus, α ≤ β — “quoted” 100% & co_ok #1 {x} ~ ^ \\ | <b>\\\nnext line\n\n"

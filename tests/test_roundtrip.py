@@ -8,27 +8,20 @@ but denotes the very value that was computed.
 """
 from __future__ import annotations
 
-from pathlib import Path
-
 import pytest
 
-from compiler.engine import BuildOptions, build
-from compiler.render.json import to_record
-
-DERIVATIONS = sorted((Path(__file__).parent.parent / "derivations").glob("*.md"))
+from support import DOCUMENTS, SETTLED, compile_text
 
 
-@pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
-def test_value_texts_read_back_to_the_same_values(path, tmp_path):
-    text = path.read_text(encoding="utf-8")
-    report = build(str(path), text, BuildOptions(use_cache=False))
-    values = to_record(report)["values"]
+@pytest.mark.parametrize("path", DOCUMENTS, ids=lambda p: p.stem)
+def test_value_texts_read_back_to_the_same_values(path, bundled, tmp_path):
+    record = bundled(path.stem).record
+    values = record["values"]
     assert values, "a bundled derivation binds values"
     claims = "\n".join(f"check {name} == {value['text']}" for name, value in values.items())
-    copy = tmp_path / path.name
-    copy.write_text(text + "\n\n```derive\n" + claims + "\n```\n", encoding="utf-8")
-    again = build(str(copy), copy.read_text(encoding="utf-8"), BuildOptions(use_cache=False))
-    readback = again.steps[len(report.steps):]
+    text = path.read_text(encoding="utf-8") + "\n\n```derive\n" + claims + "\n```\n"
+    again = compile_text(tmp_path / path.name, text)
+    readback = again.steps[len(record["steps"]):]
     assert len(readback) == len(values)
     for step in readback:
-        assert step.status in ("proven", "sampled"), (step.source[:200], step.checks)
+        assert step.status in SETTLED, (step.source[:200], step.checks)

@@ -10,27 +10,22 @@ file the payloads would create or read.
 from __future__ import annotations
 
 import json
-import subprocess
-import sys
 from pathlib import Path
 
 import pytest
 
 from compiler.engine.cache import CACHE_DIR
-from compiler.engine import BuildOptions, build
 from compiler.errors import DocumentError
 from compiler.render.html import to_html
 from compiler.render.json import to_json
 from compiler.render.tex import to_tex
+from support import compile_text
 
 SECRET = "TOPSECRET-7f3a9c"
 
 
 def compile_doc(folder: Path, text: str, **options):
-    path = folder / "doc.md"
-    path.write_text(text)
-    options.setdefault("use_cache", False)
-    return build(str(path), text, BuildOptions(**options))
+    return compile_text(folder / "doc.md", text, **options)
 
 
 @pytest.fixture
@@ -158,15 +153,13 @@ def test_allow_html_passes_prose_html_through(sandbox):
     assert "<title>&lt;script&gt;" in html
 
 
-def test_allow_html_through_the_command_line(sandbox):
+def test_allow_html_through_the_command_line(sandbox, anomark):
     # spec: Precise rules → Prose and front matter (--allow-html)
     doc = sandbox / "doc.md"
     doc.write_text(HOSTILE)
-    plain = subprocess.run([sys.executable, "-m", "compiler", "build", str(doc), "--no-cache"],
-                           capture_output=True, text=True)
+    plain = anomark("build", doc, "--no-cache")
     assert plain.returncode == 0 and "<script" not in (sandbox / "doc.html").read_text().lower()
-    allowed = subprocess.run([sys.executable, "-m", "compiler", "build", str(doc), "--no-cache",
-                              "--allow-html", "-o", str(sandbox / "allowed")], capture_output=True, text=True)
+    allowed = anomark("build", doc, "--no-cache", "--allow-html", "-o", sandbox / "allowed")
     assert allowed.returncode == 0 and "<script>alert(1)</script>" in (sandbox / "allowed" / "doc.html").read_text()
 
 

@@ -4,8 +4,9 @@ sentence, through the command line as a reader of the spec would use it.
 Each test quotes the sentence it checks.  Tests marked xfail(strict=True) are
 disagreements between anomark and the specification, written as they should
 pass; they turn into failures (strict) the moment the bug is fixed, so the
-marker must then be removed.  The command runs in-process (``cli.main``) to
-keep the file fast; it is the same code path as ``python -m compiler``.
+marker must then be removed.  The command runs in-process (``cli.main``, as
+conftest.py's ``anomark`` runs it) to keep the file fast; it is the same code
+path as ``python -m compiler``.
 """
 from __future__ import annotations
 
@@ -15,9 +16,7 @@ from pathlib import Path
 
 import pytest
 
-from compiler import cli
-
-LOCATION = re.compile(r"^(?P<file>[^:\n]+):(?P<line>\d+):(?P<col>\d+): (?P<message>.+)$")
+from support import LOCATION
 
 
 class Built:
@@ -41,15 +40,14 @@ class Built:
 
 
 @pytest.fixture
-def run(tmp_path, capsys):
+def run(tmp_path, anomark):
     """Build a document (text) with extra command-line arguments."""
     def build(text: str, *args: str, name: str = "doc", fmt: str = "json") -> Built:
         path = tmp_path / f"{name}.md"
         path.write_text(text, encoding="utf-8")
         out = tmp_path / f"out-{name}"
-        capsys.readouterr()
-        rc = cli.main(["build", str(path), "-o", str(out), "--format", fmt, "--no-cache", *args])
-        err = capsys.readouterr().err
+        done = anomark("build", path, "-o", out, "--format", fmt, "--no-cache", *args)
+        rc, err = done.returncode, done.stderr
         record_path = out / f"{name}.json"
         record = json.loads(record_path.read_text()) if record_path.exists() else None
         return Built(rc, err, record, out)
@@ -665,7 +663,7 @@ def test_raw_html_escaped_unless_allowed(run):
 
 # ------------------------------------------------------------ command line
 
-def test_build_outputs_and_check_worst_status(tmp_path, capsys):
+def test_build_outputs_and_check_worst_status(tmp_path, anomark):
     # spec: "`build twisted.md -o out` writes `out/twisted.html` and `out/twisted.json` (the
     # default formats)"; "`-o` defaults to the document's own folder"; "A document that could
     # not be parsed writes no output files; any other build writes them."; "`check` with
@@ -678,32 +676,31 @@ def test_build_outputs_and_check_worst_status(tmp_path, capsys):
     broken.write_text(doc("let a = zz"))
     errs = tmp_path / "errs.md"
     errs.write_text(doc("let a = 1/0"))
-    assert cli.main(["build", str(ok), "-o", str(tmp_path / "out")]) == 0
+    assert anomark("build", str(ok), "-o", str(tmp_path / "out")).returncode == 0
     assert sorted(p.name for p in (tmp_path / "out").iterdir()) == ["twisted.html", "twisted.json"]
-    assert cli.main(["build", str(ok), "--no-cache"]) == 0
+    assert anomark("build", str(ok), "--no-cache").returncode == 0
     assert (tmp_path / "twisted.html").exists() and (tmp_path / "twisted.json").exists()
-    assert cli.main(["build", str(broken), "-o", str(tmp_path / "b")]) == 2
+    assert anomark("build", str(broken), "-o", str(tmp_path / "b")).returncode == 2
     assert not (tmp_path / "b").exists()
-    assert cli.main(["build", str(errs), "-o", str(tmp_path / "e")]) == 2
+    assert anomark("build", str(errs), "-o", str(tmp_path / "e")).returncode == 2
     assert (tmp_path / "e" / "errs.json").exists()
-    assert cli.main(["check", str(ok), str(fails)]) == 1
-    assert cli.main(["check", str(fails), str(broken), str(ok)]) == 2
-    capsys.readouterr()
+    assert anomark("check", str(ok), str(fails)).returncode == 1
+    assert anomark("check", str(fails), str(broken), str(ok)).returncode == 2
 
 
-def test_diff_after_a_convention_change(tmp_path, capsys):
+def test_diff_after_a_convention_change(tmp_path, anomark):
     # spec: "`diff` exits 0 same, 1 different, 2 unreadable input"; conventions "overridable
     # with --set NAME=VALUE".
     src = tmp_path / "conv.md"
     src.write_text(doc("symbol N: integer, positive\nlet a = kappa*N",
                        front="---\nconventions:\n  kappa: 2\n---"))
-    assert cli.main(["build", str(src), "-o", str(tmp_path / "d1"), "--format", "json"]) == 0
-    assert cli.main(["build", str(src), "-o", str(tmp_path / "d2"), "--format", "json",
-                     "--set", "kappa=3"]) == 0
+    assert anomark("build", str(src), "-o", str(tmp_path / "d1"), "--format", "json").returncode == 0
+    assert anomark("build", str(src), "-o", str(tmp_path / "d2"), "--format", "json",
+                   "--set", "kappa=3").returncode == 0
     one, two = str(tmp_path / "d1" / "conv.json"), str(tmp_path / "d2" / "conv.json")
-    assert cli.main(["diff", one, one]) == 0
-    assert cli.main(["diff", one, two]) == 1
-    assert "3*N" in capsys.readouterr().out
+    assert anomark("diff", one, one).returncode == 0
+    changed = anomark("diff", one, two)
+    assert changed.returncode == 1 and "3*N" in changed.stdout
     (tmp_path / "bad.json").write_text("{")
-    assert cli.main(["diff", one, str(tmp_path / "bad.json")]) == 2
-    assert cli.main(["diff", one, str(tmp_path / "missing.json")]) == 2
+    assert anomark("diff", one, str(tmp_path / "bad.json")).returncode == 2
+    assert anomark("diff", one, str(tmp_path / "missing.json")).returncode == 2

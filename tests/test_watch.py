@@ -3,7 +3,7 @@ open report changes by itself.
 
 The command runs as its own process (it is a long-running server stopped
 with Ctrl-C, which is part of what is tested); the browser is the system's
-Chromium, started as tests/browser_support.py starts it.  Every wait is
+Chromium, started as tests/support.py starts it.  Every wait is
 bounded, so a broken reload fails the test instead of hanging it.
 """
 from __future__ import annotations
@@ -18,14 +18,12 @@ from pathlib import Path
 
 import pytest
 
-from browser_support import missing_browser
+from support import missing_browser, start_browser
 
 if missing_browser():
     pytest.skip(missing_browser(), allow_module_level=True)
 
 from selenium.webdriver.support.ui import WebDriverWait  # noqa: E402
-
-from browser_support import start_browser  # noqa: E402
 
 ROOT = Path(__file__).resolve().parents[1]
 WAIT = 15  # seconds any one step may take before the test fails

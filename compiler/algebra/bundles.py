@@ -17,7 +17,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Sequence, Union
 
-from ..notation import name_latex
 from .graded import AlgebraError, Element, Ring
 
 REAL, COMPLEX = "real", "complex"
@@ -76,6 +75,7 @@ class BundleTable:
         return b
 
     def _register(self, b: Bundle) -> list[str]:
+        from ..notation import name_latex   # here, so that importing the algebra needs no sympy
         ring, n, tex = self.ring, b.name, name_latex(b.name)
         keys = []
 
@@ -163,24 +163,8 @@ class BundleTable:
     def real_rank(self, name: str) -> int:
         return self.get(name).real_rank
 
-    def is_line(self, name: str) -> bool:
-        return self.get(name).line
-
-    def is_split(self, name: str) -> bool:
-        return self.get(name).parts is not None
-
-    def is_used(self, name: str) -> bool:
-        return self.get(name).used
-
     def parts(self, name: str) -> tuple[Part, ...] | None:
         return self.get(name).parts
-
-    def owner(self, key: str) -> str | None:
-        """The bundle whose generator has this key, if any."""
-        for b in self._bundles.values():
-            if key in b.keys:
-                return b.name
-        return None
 
     def _gen(self, key: str) -> Element:
         return self.ring.gen(key)

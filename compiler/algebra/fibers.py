@@ -14,8 +14,6 @@ from dataclasses import dataclass, field, replace
 from fractions import Fraction
 from typing import Sequence
 
-import sympy
-
 from .graded import AlgebraError, Element, Ring
 
 
@@ -119,6 +117,7 @@ def surface_fiber(name: str, ring: Ring, group: int, genus, tangent_euler: Eleme
 
     The engine registers e(TS) (through the bundle TS) in the fiber's group.
     """
+    import sympy   # the genus may be a symbol; sympy reads its assumptions
     genus = sympy.Integer(genus) if isinstance(genus, int) else genus
     if genus.is_integer is False or genus.is_negative:
         raise FiberError(f"the genus of {name} must be a nonnegative integer, not {genus}")
