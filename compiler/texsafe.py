@@ -37,9 +37,9 @@ MATH_COMMANDS = frozenset(_GREEK + """
     hom arg Pr
     frac dfrac tfrac binom dbinom tbinom sqrt left right middle big Big bigg Bigg
     bigl bigr Bigl Bigr biggl biggr Biggl Biggr langle rangle lfloor rfloor lceil rceil
-    lvert rvert lVert rVert vert Vert backslash
+    lvert rvert lVert rVert vert Vert backslash surd
     mathrm mathit mathbf mathsf mathtt mathcal mathbb mathfrak boldsymbol operatorname
-    text textrm textit textbf mbox
+    text textrm textit textbf texttt mbox
     hat widehat tilde widetilde bar overline underline vec dot ddot check breve acute
     grave overbrace underbrace overset underset stackrel
     quad qquad displaystyle textstyle scriptstyle limits nolimits
@@ -70,10 +70,13 @@ MATH_CHARACTERS = {
     "\u2227": r"\wedge", "\u2228": r"\vee", "\u2229": r"\cap", "\u222a": r"\cup",
     "\u2208": r"\in", "\u2209": r"\notin", "\u2282": r"\subset", "\u2286": r"\subseteq",
     "\u2205": r"\emptyset", "\u2200": r"\forall", "\u2203": r"\exists",
-    "\u210f": r"\hbar", "\u2113": r"\ell", "\u221a": r"\sqrt", "\u2032": "'",
+    "\u210f": r"\hbar", "\u2113": r"\ell", "\u221a": r"\surd", "\u2032": "'",
     "\u27e8": r"\langle", "\u27e9": r"\rangle", "\u2218": r"\circ", "\u2020": r"\dagger",
     "\u03b5": r"\varepsilon", "\u03c6": r"\varphi",
     **{ch: rf"\mathbb{{{letter}}}" for ch, letter in _BLACKBOARD.items()},
+    **{ch: "{}^{" + s + "}" for ch, s in zip("\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076\u2077\u2078\u2079\u207a\u207b",
+                                             "0123456789+-")},
+    **{chr(0x2080 + k): "{}_{" + str(k) + "}" for k in range(10)},
 }
 for _name in _GREEK:
     if _name.startswith("var") or _name == "epsilon":
@@ -93,8 +96,8 @@ _TEXT_SPECIALS = {
     "_": r"\_", "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}",
     "^": r"\textasciicircum{}", "<": r"\textless{}", ">": r"\textgreater{}",
     "|": r"\textbar{}", "\u00a0": "~", "\u2026": r"\dots{}", "\u2013": "--", "\u2014": "---",
-    "\u2018": "`", "\u2019": "'", "\u201c": "``", "\u201d": "''", "\u00ab": r"\guillemotleft{}",
-    "\u00bb": r"\guillemotright{}", "\u2022": r"\textbullet{}", "\u00a7": r"\S{}",
+    "\u2018": "`", "\u2019": "'", "\u201c": "``", "\u201d": "''", "\u00ab": r"\ensuremath{\ll}",
+    "\u00bb": r"\ensuremath{\gg}", "\u2022": r"\textbullet{}", "\u00a7": r"\S{}",
     "\u00b6": r"\P{}", "\u00a9": r"\copyright{}", "\u00ae": r"\textregistered{}",
     "\u2122": r"\texttrademark{}", "\u00b0": r"\textdegree{}", "\u00bf": r"\textquestiondown{}",
     "\u00a1": r"\textexclamdown{}", "\u00df": r"\ss{}", "\u00e6": r"\ae{}", "\u00c6": r"\AE{}",
@@ -105,10 +108,11 @@ _TEXT_SPECIALS = {
     "\u200b": r"\hspace{0pt}", "\u200c": "", "\u200d": "", "\u2060": "", "\ufeff": "",
     "\u00ad": r"\-", "\u200e": "", "\u200f": "", "\t": " ",
 }
+_INVISIBLE = frozenset("\u200b\u200c\u200d\u2060\ufeff\u00ad\u200e\u200f")
 #: Combining accents → LaTeX accent commands, for letters written with them.
 _ACCENTS = {"\u0300": "`", "\u0301": "'", "\u0302": "^", "\u0303": "~", "\u0304": "=",
             "\u0306": "u", "\u0307": ".", "\u0308": '"', "\u030a": "r", "\u030b": "H",
-            "\u030c": "v", "\u0327": "c", "\u0328": "k"}
+            "\u030c": "v", "\u0327": "c"}
 _CODE_SYMBOLS = {ch: f"\\symbol{{{ord(ch)}}}" for ch in "\\{}^~_<>|'`\""}
 
 
@@ -119,8 +123,7 @@ def _accented(ch: str) -> Optional[str]:
         return None
     out = {"i": r"\i", "j": r"\j"}.get(base, base) if marks[0] in "\u0300\u0301\u0302\u0308" else base
     for mark in marks:
-        command = _ACCENTS[mark]
-        out = f"\\{command}{{{out}}}" if command.isalpha() else f"\\{command}{{{out}}}"
+        out = f"\\{_ACCENTS[mark]}{{{out}}}"
     return "{" + out + "}"
 
 
@@ -131,7 +134,7 @@ def text_character(ch: str) -> Optional[str]:
     if " " <= ch <= "~":
         return ch
     if ch in MATH_CHARACTERS:
-        return f"${MATH_CHARACTERS[ch]}$"
+        return f"\\ensuremath{{{MATH_CHARACTERS[ch]}}}"  # not $..$: two in a row would make $$
     return _accented(ch)
 
 
@@ -139,6 +142,8 @@ def math_character(ch: str) -> Optional[str]:
     """LaTeX for one character inside math, or None if it cannot be typeset."""
     if " " <= ch <= "~" or ch in "\n\t":
         return ch
+    if ch in _INVISIBLE:
+        return ""
     if ch in MATH_CHARACTERS:
         return "{" + MATH_CHARACTERS[ch] + "}"
     accented = _accented(ch)
