@@ -10,7 +10,6 @@ so it can be pasted into any standard article.
 from __future__ import annotations
 
 import re
-import unicodedata
 from pathlib import Path
 from typing import Callable
 
@@ -21,43 +20,7 @@ from compiler.markdown import expand_refs, make_markdown
 from compiler.notation import name_latex
 from compiler.render.templates import loader
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
-
-
-# ------------------------------------------------------------------ escaping
-
-_TEXT_SPECIALS = {
-    "\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#",
-    "_": r"\_", "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}",
-    "^": r"\textasciicircum{}", "<": r"\textless{}", ">": r"\textgreater{}",
-    "|": r"\textbar{}", "\u00a0": "~", "\u2026": r"\dots{}",
-}
-# Characters a physicist types in prose that the default encoding lacks.
-_MATH_CHARS = {
-    "\u2212": "-", "\u00d7": r"\times", "\u00b7": r"\cdot", "\u2264": r"\leq",
-    "\u2265": r"\geq", "\u2260": r"\neq", "\u2192": r"\to", "\u222b": r"\int",
-    "\u221e": r"\infty", "\u2248": r"\approx", "\u00b1": r"\pm", "\u2211": r"\sum",
-    "\u2202": r"\partial", "\u2297": r"\otimes", "\u2295": r"\oplus",
-    "\u03b5": r"\varepsilon", "\u03c6": r"\varphi",
-}
-_GREEK_WORDS = ("alpha beta gamma delta zeta eta theta iota kappa lambda mu nu xi pi rho "
-                "sigma tau upsilon chi psi omega").split()
-for _g in _GREEK_WORDS:
-    _MATH_CHARS.setdefault(unicodedata.lookup(f"GREEK SMALL LETTER {_g.replace('lambda', 'lamda')}"), "\\" + _g)
-for _g in "Gamma Delta Theta Lambda Xi Pi Sigma Upsilon Phi Psi Omega".split():
-    _MATH_CHARS[unicodedata.lookup(f"GREEK CAPITAL LETTER {_g.replace('Lambda', 'Lamda')}")] = "\\" + _g
-_TEXT_MAP = {**_TEXT_SPECIALS, **{c: f"${m}$" for c, m in _MATH_CHARS.items()}}
-# The typewriter font has every ASCII character in its own slot, so code
-# shows the real glyphs (straight quotes, a true backslash) in any encoding.
-_CODE_MAP = {**_TEXT_MAP, **{ch: f"\\symbol{{{ord(ch)}}}" for ch in "\\{}^~_<>|'`\""}}
-
-
-def escape_tex(text: str) -> str:
-    """Plain text safe for LaTeX: specials escaped, common symbols as math."""
-    return "".join(_TEXT_MAP.get(ch, ch) for ch in text)
-
-
-def _escape_code(text: str) -> str:
-    return "".join(_CODE_MAP.get(ch, ch) for ch in text)
+from compiler.texsafe import escape_code as _escape_code, escape_text as escape_tex, file_name, math_tex
 
 
 def code_lines(text: str, number: int | None = None) -> str:
@@ -87,7 +50,7 @@ class _TexWriter:
 
     def math(self, token) -> str:
         """A math token's LaTeX with its @{NAME} values spliced in."""
-        return expand_refs(token.content, {k: v.latex for k, v in self.refs.items()})
+        return expand_refs(math_tex(token.content), {k: v.latex for k, v in self.refs.items()})
 
 
 def _unknown(w: _TexWriter, t) -> str:
@@ -331,7 +294,7 @@ def _tabular(step: Step) -> str:
 
 def plot_name(report: Report, number: int) -> str:
     """The file name of the ``number``-th plot, beside the ``.tex`` file."""
-    return f"{Path(report.document).stem}-plot-{number}.pdf"
+    return file_name(f"{Path(report.document).stem}-plot-{number}.pdf")
 
 
 def _plots(report: Report) -> dict[int, PlotData]:
