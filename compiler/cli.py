@@ -38,6 +38,8 @@ def rational(text: str) -> Fraction:
     text = text.strip()
     if not _RATIONAL.fullmatch(text):
         raise ValueError(f"'{text}' is not an exact rational (write 1/2, not 0.5)")
+    if any(len(part.lstrip("+-")) > sys.get_int_max_str_digits() for part in text.split("/")):
+        raise ValueError(f"the number has more than {sys.get_int_max_str_digits()} digits")
     return Fraction(text)
 
 
@@ -120,7 +122,7 @@ def main(argv=None) -> int:
         if getattr(args, "debug", False):
             traceback.print_exc()
         print(f"anomark: internal error (a bug in anomark, not in your document): "
-              f"{type(exc).__name__}: {exc}" + ("" if getattr(args, "debug", False)
+              f"{type(exc).__name__}: {shown(str(exc))}" + ("" if getattr(args, "debug", False)
                                                 else "; rerun with --debug for details"),
               file=sys.stderr)
         return EXIT_INTERNAL

@@ -209,3 +209,11 @@ def test_the_document_itself_is_never_an_output(tmp_path):
     run = anomark("build", doc, "--no-cache")
     assert run.returncode == 2 and "the output would overwrite the document itself" in run.stderr
     assert doc.read_text() == DERIVE.format("symbol N")
+
+
+@pytest.mark.parametrize("digits, words", [(4200, "the limit is 4000 digits"), (5000, "more than 4300 digits")])
+def test_a_huge_number_on_the_command_line_is_refused(tmp_path, digits, words):
+    doc = write(tmp_path, DERIVE.format("convention k = 3\nlet a = k + 1"))
+    run = anomark("check", doc, "--no-cache", "--set", "k=" + "9" * digits)
+    assert run.returncode == 2 and f"{doc}:1:1:" in run.stderr and words in run.stderr
+    assert "set_int_max_str_digits" not in run.stderr

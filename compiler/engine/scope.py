@@ -16,6 +16,7 @@ import sympy
 
 from .. import names as names_pass, notation
 from ..algebra import bundles as bundles_mod
+from ..algebra.errors import AlgebraError
 from ..algebra.graded import Element, Ring
 from ..algebra.sampling import SymbolSpec
 from ..checks import Context
@@ -69,7 +70,10 @@ class DocScope(Scope):
                                [d.source for d in statements if isinstance(d, n.SymbolDecl)])
         self.step_key = self.ring_key
         for name, value in self.conventions.items():  # final values, in force from the start
-            self.bind(name, "convention", self.ring.scalar(value), 0)
+            try:
+                self.bind(name, "convention", self.ring.scalar(value), 0)
+            except AlgebraError as exc:  # a --set value past the digit limit
+                raise DocumentError(Location(path, 1, 1), f"convention {name}: {exc}") from None
 
     def report_conventions(self) -> dict[str, str]:
         return {k: fraction_text(v) for k, v in sorted(self.conventions.items())}
