@@ -4,21 +4,24 @@ Equalities between ring elements are decided exactly (the normal form is
 unique, so a zero difference is a proof).  Only values that left the
 rational functions (square roots from an extremization) may fall back to
 sampling at deterministic 50-digit points.  Inequalities are never sampled:
-they are decided exactly at each point of a ``for`` range, or proven from the
-symbols' declared assumptions and bounds, or the check is an error.
+they are decided exactly at each point of a ``for`` range, or proven by the
+sign oracle from the symbols' declared assumptions, bounds and relations, or
+the check is an error.
 """
 from __future__ import annotations
 
 import itertools
-import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
+from functools import cached_property
 
 import sympy
 
 from . import notation
 from .algebra.graded import Element
-from .algebra.extremize import tidy
-from .algebra.sampling import SymbolSpec, describe_point, evaluate, sample_points
+from .algebra.radicals import tidy_with
+from .algebra.region import Region, Relation
+from .algebra.sampling import describe_point, evaluate
+from .algebra.signs import SignOracle
 from .expressions import Value, as_expr, is_class_free, unify
 from .results import CheckResult, weakest
 
@@ -34,11 +37,30 @@ class Context:
     """What a check needs besides its two sides."""
 
     ring: object
-    specs: dict  # sympy Symbol -> SymbolSpec
+    specs: dict  # sympy Symbol -> SymbolSpec, in declaration order
     seed: str
+    relations: tuple[Relation, ...] = field(default=())
 
-    def specs_for(self, symbols) -> list[SymbolSpec]:
-        return [self.specs[s] for s in sorted(symbols, key=lambda s: s.name) if s in self.specs]
+    @cached_property
+    def region(self) -> Region:
+        """The declared region; without relations the symbols are drawn in
+        order of name, so sample points do not move when declarations do."""
+        specs = self.specs.values()
+        if not self.relations:
+            specs = sorted(specs, key=lambda s: s.name)
+        return Region(tuple(specs), tuple(self.relations))
+
+    @cached_property
+    def oracle(self) -> SignOracle:
+        return SignOracle(self.region)
+
+    def samples(self, symbols) -> list[dict]:
+        """Sample points of the region restricted to ``symbols`` (and the
+        symbols related to them)."""
+        return self.region.restrict(symbols).sample(SAMPLES, self.seed)
+
+    def declared(self, symbols) -> bool:
+        return all(s in self.specs for s in symbols)
 
 
 def substitute(ring, value: Value, point: dict) -> Value:
@@ -104,7 +126,7 @@ def _equal(left: Value, right: Value, ctx: Context):
             return "proven", ""
         return "failed", _witness(left, right, difference, ctx)
     left, right = unify(ctx.ring, left, right)
-    difference = tidy(left - right, list(ctx.specs.values()))
+    difference = tidy_with(left - right, ctx.oracle)
     if difference == 0:
         return "proven", ""
     if not difference.free_symbols and difference.is_zero is False:
@@ -125,7 +147,7 @@ def _witness(left: Element, right: Element, difference: Element, ctx: Context) -
     symbols = difference.free_symbols()
     if not symbols:
         return f"left = {show(left)}, right = {show(right)}"
-    for point in sample_points(ctx.specs_for(symbols), SAMPLES, ctx.seed):
+    for point in ctx.samples(symbols):
         try:
             if not substitute(ctx.ring, difference, point).is_zero:
                 return (f"at {describe_point(point)}: left = {show(substitute(ctx.ring, left, point))}, "
@@ -137,7 +159,7 @@ def _witness(left: Element, right: Element, difference: Element, ctx: Context) -
 
 def _sample_equal(left, right, difference, ctx: Context):
     symbols = difference.free_symbols
-    points = sample_points(ctx.specs_for(symbols), SAMPLES, ctx.seed) if symbols else [{}]
+    points = ctx.samples(symbols) if symbols else [{}]
     for point in points:
         value = evaluate(difference, point, digits=DIGITS + 10)
         scale = 1 + abs(evaluate(left, point, digits=DIGITS + 10))
@@ -156,13 +178,10 @@ def _not_equal(left, right, ctx):
         if isinstance(left, Element) and isinstance(right, Element) and not (left - right).is_zero:
             return "proven", ""
         return "failed", f"both sides equal {show(left)}"
-    difference = tidy(as_expr(left) - as_expr(right), list(ctx.specs.values()))
+    difference = tidy_with(as_expr(left) - as_expr(right), ctx.oracle)
     if difference == 0:
         return "failed", f"both sides equal {show(left)}"
-    verdict = difference.is_nonzero
-    if verdict is None and difference.free_symbols:
-        verdict = _shifted(difference, ctx).is_nonzero
-    if verdict:
+    if ctx.oracle.truth("!=", difference):
         return "proven", ""
     counterexample = _counterexample(lambda d: d != 0, "!=", difference, ctx)
     if counterexample:
@@ -178,38 +197,12 @@ _SIGN_TESTS = {
 }
 
 
-def _shifted(difference: sympy.Expr, ctx: Context) -> sympy.Expr:
-    """Rewrite each bounded symbol as bound ± a nonnegative one, so sympy's
-    sign rules can use the bounds as well as the assumptions."""
-    replacements = {}
-    for symbol in difference.free_symbols:
-        spec = ctx.specs.get(symbol)
-        if spec is None:
-            continue
-        bound, strict, sign = ((spec.lower, spec.lower_strict, 1) if spec.lower is not None
-                               else (spec.upper, spec.upper_strict, -1))
-        if bound is None:
-            continue
-        if spec.integer:  # n > 0 for an integer is n >= 1, n >= 1/2 is n >= 1
-            if sign > 0:
-                bound = math.floor(bound) + 1 if strict else math.ceil(bound)
-            else:
-                bound = math.ceil(bound) - 1 if strict else math.floor(bound)
-            strict = False
-        shift = sympy.Symbol(f"_{symbol.name}_shift", integer=spec.integer or None,
-                             nonnegative=not strict or None, positive=strict or None)
-        replacements[symbol] = sympy.Rational(bound) + sign * shift
-    return sympy.factor(sympy.expand(difference.subs(replacements)))
-
-
 def _order(op: str):
     def decide(left: Value, right: Value, ctx: Context):
         if not (is_class_free(left) and is_class_free(right)):
             return "error", "inequalities compare class-free values only"
         difference = sympy.simplify(as_expr(left) - as_expr(right))
-        verdict = _SIGN_TESTS[op](difference)
-        if verdict is None and difference.free_symbols:
-            verdict = _SIGN_TESTS[op](_shifted(difference, ctx))
+        verdict = ctx.oracle.truth(op, difference)
         if verdict is True:
             return "proven", ""
         if verdict is False and not difference.free_symbols:
@@ -227,17 +220,19 @@ def _counterexample(holds, op: str, difference: sympy.Expr, ctx: Context) -> str
     """An exact admissible point where the inequality is false, if one is
     found among the sample points and the declared bounds.  Finding one
     disproves the claim; not finding one proves nothing."""
-    specs = ctx.specs_for(difference.free_symbols)
-    if not specs or len(specs) != len(difference.free_symbols):
+    symbols = difference.free_symbols
+    if not symbols or not ctx.declared(symbols):
         return ""
+    region = ctx.region.restrict(symbols)
     corners = {}
-    for spec in specs:
+    for spec in region.specs:
         edges = [b for b in (spec.lower, spec.upper, 0) if b is not None]
         admitted = [sympy.Rational(b.numerator, b.denominator) if not isinstance(b, int) else sympy.Integer(b)
                     for b in edges if spec.admits(b)]
         corners[spec.symbol] = admitted
     candidates = [dict(zip(corners, combo)) for combo in itertools.product(*corners.values())]
-    for point in candidates + sample_points(specs, SAMPLES, ctx.seed):
+    candidates = [p for p in candidates if not region.violations(p)]
+    for point in candidates + region.sample(SAMPLES, ctx.seed):
         try:
             value = difference.subs(point)
         except ZeroDivisionError:

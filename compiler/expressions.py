@@ -20,7 +20,7 @@ import sympy
 
 from . import notation
 from .algebra import budget, genera
-from .algebra.extremize import tidy
+from .algebra.radicals import tidy
 from .algebra.genera import BundleValue
 from .algebra.errors import AlgebraError, NotRational
 from .algebra.graded import Element

@@ -193,10 +193,25 @@ def test_inequalities_are_never_sampled(tmp_path, claim):
 
 
 def test_an_undecidable_inequality_is_an_error(tmp_path):
-    # spec: Precise rules → Checks: decided "by proof" or not at all; x(1 - x) > 0 on 0 < x < 1 is
-    # true but not provable by sign rules, and the error asks for a range
-    check = one(tmp_path, "x*(1 - x) > 0")
+    # spec: Precise rules → Checks: decided "by proof" or not at all; x^2 - x + 13/50 > 0 on
+    # 0 < x < 1 is true (negative discriminant, common practice, no source) but the sign rules
+    # see terms of both signs, and the error asks for a range
+    check = one(tmp_path, "x^2 - x + 13/50 > 0")
     assert check.status == "error" and "for" in check.detail
+
+
+@pytest.mark.parametrize("claim", ["x < 1", "x > 0", "x*(1 - x) > 0", "1 - x^2 > 0", "x <= 1",
+                                   "g*x < g", "N + x > 1"])
+def test_the_declared_interval_proves_inequalities(tmp_path, claim):
+    # Issue 12: with 0 < x < 1, "x < 1" must be proven (it used to be an error); x = t/(1 + t)
+    # with t > 0 makes each of these a sum of positive terms (common practice, no source)
+    assert one(tmp_path, claim).status == "proven"
+
+
+@pytest.mark.parametrize("claim", ["x > 1", "x >= 1", "g*x > g"])
+def test_the_declared_interval_disproves_inequalities(tmp_path, claim):
+    check = one(tmp_path, claim)
+    assert check.status == "failed"
 
 
 def test_inequalities_with_classes_are_errors(tmp_path):

@@ -184,6 +184,31 @@ def test_general_fiber(bundled):
     assert record["values"]["index8"]["degrees"] == [8]
 
 
+def test_spindle_d3(bundled):
+    record = bundled("spindle-d3").record
+    # Ferrero, Gauntlett, Ipiña, Martelli and Sparks, "D3-branes wrapped on a spindle",
+    # Phys. Rev. Lett. 126 (2021), with a = (N^2 - 1)/4 (from memory)
+    assert_proven(record, "check c_star == 4*(n1 - n2)^3/(3*n1*n2*(n1^2 + n1*n2 + n2^2))"
+                          "*(N^2 - 1)/4")
+    # the Euler characteristic of the spindle (common practice, no source)
+    assert_proven(record, "check chi == 1/n1 + 1/n2")
+    # the central charge does not depend on how the rotation is normalised
+    assert_proven(record, "check c_star_2 == c_star")
+    # the smooth limit against the genus-0 surface fiber (common practice, no source)
+    assert_proven(record, "check I4S2_still == I4Sigma")
+    step = find_step(record, "integrate I6D over D -> I4")
+    whats = {c["what"]: c["status"] for c in step["checks"]}
+    assert whats["localization over D leaves no pole in t"] == "proven"
+    assert whats["at zero rotation, localization over D agrees with the spindle's "
+                 "ordinary cohomology"] == "proven"
+    smooth = find_step(record, "integrate I6S2 over S2 -> I4S2")
+    assert any("genus-0 surface fiber" in c["what"] for c in smooth["checks"])
+    fiber = find_step(record, "fiber D: spindle n1, n2, rotation t = epsilon*c1(R), tangent TD "
+                              "line L: north = -t/(3*n1), south = -t/(3*n2)")
+    assert any(c["what"] == "the degree of c1(L) over D is integral up to the orders"
+               for c in fiber["checks"])
+
+
 def test_check_command_passes_all_documents(bundled, bundled_folder, anomark):
     for doc in DOCUMENTS:  # built first, so the check runs warm from the cache
         bundled(doc.stem)

@@ -4,8 +4,10 @@ from fractions import Fraction
 import pytest
 import sympy
 
+from compiler.algebra import cells
 from compiler.algebra.extremize import ExtremizeError, extremize
-from compiler.algebra.sampling import SymbolSpec, evaluate, sample_points
+from compiler.algebra.region import Region, build_region
+from compiler.algebra.sampling import SymbolSpec, evaluate
 
 F = Fraction
 
@@ -88,7 +90,7 @@ def test_a_maximization_for_general_twist_matches_the_large_n_result():
     expected = (1 - gs) * (1 - 9 * zs ** 2 - (1 + 3 * zs ** 2) ** sympy.Rational(3, 2)) / (48 * zs ** 2)
     assert sympy.simplify(leading - expected) == 0
     # at z = 1 the general root is the N=2 one
-    for point in sample_points([N, g], 5, "check"):
+    for point in Region((N, g)).sample(5, "check"):
         at = {**point, zs: 1}
         assert abs(evaluate(result.point[0], at) + sympy.Rational(1, 3)) < 1e-40
 
@@ -222,3 +224,152 @@ def test_small_integer_domain_is_checked_exhaustively():
     r = extremize("maximize", (Ns - 1) * (-X ** 4 / 4 - X ** 2 / 2 - Ns * X),
                   [(X, None)], [x, N], "doc.md:9")
     assert r.settled == "sampled" and r.samples == 4
+
+
+# -- relations between symbols (issue 12) ---------------------------------------
+
+def test_a_relation_between_parameters_settles_the_root():
+    # f = (Nf - Nc)^2 x - x^3/3 has its maximum at x = |Nf - Nc| (hand-checkable,
+    # common practice, no source): the relation Nf > Nc makes that Nf - Nc, proven.
+    Nc_, Nf_ = sympy.symbols("Nc Nf")
+    region = build_region([("Nc", ["integer"], [(">=", F(2))], []),
+                           ("Nf", ["integer"], [], [(Nf_, ">", Nc_)]), ("x", [], [], [])])
+    Nc, Nf, X = region.symbols
+    f = (Nf - Nc) ** 2 * X - X ** 3 / 3
+    r = extremize("maximize", f, [(X, None)], region.specs, "s", relations=region.relations)
+    assert r.point == (Nf - Nc,) and r.settled == "symbolic"
+    assert sympy.expand(r.value - sympy.Rational(2, 3) * (Nf - Nc) ** 3) == 0
+    # without the relation Nf = Nc is possible, where the Hessian is degenerate
+    with pytest.raises(ExtremizeError):
+        extremize("maximize", f, [(X, None)], region.specs, "s")
+
+
+def test_a_relation_naming_the_variable_restricts_its_domain():
+    # -x^4/4 + x^2/2 has maxima at x = -1 and x = 1 (hand-checkable); x > k with
+    # -1/2 < k < 1/2 leaves only x = 1, for every k.
+    k_, x_ = sympy.symbols("k x")
+    region = build_region([("k", [], [(">", F(-1, 2)), ("<", F(1, 2))], []),
+                           ("x", [], [], [(x_, ">", k_)])])
+    k, X = region.symbols
+    f = -X ** 4 / 4 + X ** 2 / 2 + 0 * k
+    r = extremize("maximize", f, [(X, None)], region.specs, "s", relations=region.relations)
+    assert r.point == (1,) and r.settled == "symbolic"
+
+
+# -- the bench cases (bench/cases/*.md) -----------------------------------------
+
+def weighted(count, N):
+    """The trial a of the bench cases: fields of multiplicities N, N + 1, ...
+    and R-charges r1, ..., with the last charge fixed by the sum being 2."""
+    rs = [declare(f"r{i + 1}") for i in range(count)]
+    R = [r.symbol for r in rs]
+
+    def term(n, r):
+        return n * (3 * (r - 1) ** 3 - (r - 1))
+    a = sympy.Rational(3, 32) * (sum(term(N + i, v) for i, v in enumerate(R))
+                                 + term(N + count, 2 - sum(R)))
+    return rs, R, a
+
+
+def test_weighted_two_variable_maximum_is_a_critical_point_and_a_maximum():
+    # A mathematical check, not a published value: the answer must make the
+    # gradient vanish identically in N and the Hessian negative definite for
+    # every N >= 2 (proven here by factoring the minors).
+    N = declare("N", "integer", ge=2)
+    rs, R, a = weighted(2, N.symbol)
+    r = extremize("maximize", a, [(v, None) for v in R], [N] + rs, "weighted-two-variable.md:11",
+                  name="a")
+    at = dict(zip(R, r.point))
+    assert all(sympy.expand(sympy.diff(a, v).xreplace(at)) == 0 for v in R)
+    # by hand: the second derivative of n(3u^3 - u) is 18 n u, and u = r - 1 = -1/3
+    Ns = N.symbol
+    hand = sympy.Matrix([[-9 * (Ns + 1) / 8, -9 * (Ns + 2) / 16],
+                         [-9 * (Ns + 2) / 16, -9 * (2 * Ns + 3) / 16]])
+    assert sympy.expand(sympy.hessian(a, R).xreplace(at) - hand) == sympy.zeros(2, 2)
+    # det = 81 (3N^2 + 6N + 2)/256 > 0 and the first minor < 0: negative definite
+    assert sympy.expand(hand.det() - sympy.Rational(81, 256) * (3 * Ns ** 2 + 6 * Ns + 2)) == 0
+    assert r.point == (sympy.Rational(2, 3), sympy.Rational(2, 3))
+    assert sympy.expand(r.value - a.xreplace(at)) == 0
+    # the other critical points, roots of a cubic in r2, are ruled out for every N
+    # by checking one N in each interval where they can change (cells.py)
+    assert r.settled == "symbolic" and "degree 3 in r2" in r.account
+    assert "no maximum for any N" in r.account
+
+
+def test_weighted_three_variable_maximum_has_no_closed_form_and_says_why():
+    # The critical equations have real solutions; at every sample N the only
+    # maximum lies on the component cut out by an irreducible polynomial of
+    # degree 8 in r3, so the message names it and the point (mathematical check).
+    N = declare("N", "integer", ge=2)
+    rs, R, a = weighted(3, N.symbol)
+    with pytest.raises(ExtremizeError, match=r"the maximum of a is a root of .* a polynomial of "
+                                             r"degree 8 in r3, irreducible .* at N = \d+, at "
+                                             r"r1 ≈ 0\.\d+, r2 ≈ 0\.\d+, r3 ≈ 0\.\d+") as caught:
+        extremize("maximize", a, [(v, None) for v in R], [N] + rs, "weighted-three-variable.md:12",
+                  name="a")
+    assert caught.value.status == "error"
+
+
+def test_weighted_three_variable_maximum_at_fixed_n_is_exact():
+    # At N = 2 there are no parameters: the maximum is an exact algebraic point
+    # (CRootOf); check the gradient vanishes and the Hessian is negative definite
+    # to 40 digits (mathematical check, no published value).
+    rs, R, a = weighted(3, 2)
+    r = extremize("maximize", a, [(v, None) for v in R], rs, "s", name="a")
+    assert r.point[-1].has(sympy.CRootOf)
+    at = dict(zip(R, r.point))
+    for v in R:
+        assert abs(sympy.N(sympy.diff(a, v).xreplace(at), 50)) < 1e-40
+    minors = [sympy.N(sympy.hessian(a, R)[:k, :k].det().xreplace(at), 50) for k in (1, 2, 3)]
+    assert minors[0] < 0 < minors[1] and minors[2] < 0
+    assert abs(sympy.N(r.value - a.xreplace(at), 50)) < 1e-40
+
+
+def test_two_variables_with_a_square_root_and_a_parameter():
+    # f = k x - x^3/3 - (y - x)^2: y = x and x^2 = k, an irreducible quadratic;
+    # the Hessian [[-2x - 2, 2], [2, -2]] has det 4x, so x = y = sqrt(k) is the
+    # maximum for k > 0 (hand-checkable, common practice, no source).
+    x, y, k = declare("x"), declare("y"), declare("k", "positive")
+    X, Y, K = x.symbol, y.symbol, k.symbol
+    r = extremize("maximize", K * X - X ** 3 / 3 - (Y - X) ** 2, [(X, None), (Y, None)],
+                  [x, y, k], "s")
+    assert r.point == (sympy.sqrt(K), sympy.sqrt(K)) and r.settled == "symbolic"
+    assert sympy.expand(r.value - sympy.Rational(2, 3) * K ** sympy.Rational(3, 2)) == 0
+
+
+# -- proof by cells (one parameter) ------------------------------------------------
+
+def test_cells_test_one_integer_in_every_interval_and_each_critical_value():
+    N = declare("N", "integer", ge=2)
+    critical = [F(5), (F(72, 10), F(73, 10)), F(-3)]
+    points = cells.test_points(N, critical)
+    # intervals of N >= 2: [2, 5), {5}, (5, 7.2x), (7.2x, oo)
+    assert {F(2), F(5), F(6), F(8)} <= set(points)
+    assert all(p.denominator == 1 and p >= 2 for p in points)
+
+
+def test_cells_for_a_real_parameter():
+    x = declare("x", gt=0, lt=1)
+    assert cells.test_points(x, [F(1, 2)]) == [F(1, 4), F(1, 2), F(3, 4)]
+    assert cells.test_points(x, [(F(1, 3), F(34, 100))]) is None   # irrational cut inside
+    assert cells.test_points(x, [(F(3), F(31, 10))]) == [F(1, 2)]  # outside the range
+
+
+def test_cells_prove_only_what_holds_for_every_parameter_value():
+    # f = g(x) - (y - x)^2 with g'(x) = -(x - 1)(x^3 - k): critical points (1, 1)
+    # and (c, c) with c^3 = k, an irreducible cubic over Q(k).  The Hessian is
+    # negative definite where g'' < 0: g''(1) = k - 1 and g''(c) = -3c^2(c - 1),
+    # so (1, 1) is the maximum for k < 1 and (c, c) for k > 1 (hand-checkable).
+    x, y = declare("x"), declare("y")
+    X, Y = x.symbol, y.symbol
+    small = declare("k", gt=0, lt=F(1, 2))
+    K = small.symbol
+    f = -(X ** 5 / 5 - X ** 4 / 4 - K * X ** 2 / 2 + K * X) - (Y - X) ** 2
+    r = extremize("maximize", f, [(X, None), (Y, None)], [x, y, small], "s")
+    assert r.point == (1, 1) and r.settled == "symbolic"
+    assert "no maximum for any k" in r.account
+    # for k > 0 the maximum changes branch at k = 1: no proof, and the samples see both
+    wide = declare("k", "positive")
+    f = f.xreplace({K: wide.symbol})
+    with pytest.raises(ExtremizeError, match="different sample points pick different roots"):
+        extremize("maximize", f, [(X, None), (Y, None)], [x, y, wide], "s")

@@ -173,7 +173,8 @@ def test_backslash_before_blank_line_ends_the_statement():
 
 def test_indented_line_outside_fiber_body_is_an_error():
     assert problem("let a = 1\n  let b = 2") == (
-        2, 3, "unexpected indentation: only the body lines of a 'fiber F: dimension n' are indented")
+        2, 3, "unexpected indentation: only the body lines of a fiber ('dimension n', "
+              "'fixed points' or 'spindle') are indented")
 
 
 # ---------------------------------------------------------------- fibers
@@ -206,8 +207,8 @@ def test_blank_line_ends_fiber_body():
           class x: 2
 
           integral x = 1
-    """) == (4, 3, "unexpected indentation: only the body lines of a 'fiber F: dimension n' "
-                   "are indented")
+    """) == (4, 3, "unexpected indentation: only the body lines of a fiber ('dimension n', "
+                   "'fixed points' or 'spindle') are indented")
 
 
 def test_fiber_body_is_followed_by_statements():
@@ -247,8 +248,7 @@ def test_each_bad_body_line_is_reported():
 
 
 def test_class_at_top_level_explains_itself():
-    assert problem("class x: 2")[2] == ("'class' belongs in the indented body of a "
-                                        "'fiber F: dimension n'")
+    assert problem("class x: 2")[2] == "'class' belongs in the indented body of a fiber"
 
 
 # ---------------------------------------------------------------- statement forms
@@ -455,7 +455,8 @@ def test_every_statement_word_has_a_form():
     ("split B = L1 + trivial(0)", 1, 24, "the rank of trivial(k) must be positive, not 0"),
     ("split B = L1 + 3", 1, 16, "expected a bundle name or trivial(k), found '3'"),
     ("fiber F: torus", 1, 10, "unknown fiber kind 'torus' (allowed: 'surface, genus g, "
-                              "tangent T', 'sphere of B, angular e', 'dimension n')"),
+                              "tangent T', 'sphere of B, angular e', 'dimension n', 'fixed "
+                              "points, dimension n, rotation t', 'spindle a, b, rotation t')"),
     ("fiber S: surface, genus g", 1, 26, "expected ', tangent ...', found end of line"),
     ("fiber S: surface, genus g, genus h, tangent T", 1, 28, "'genus' given twice"),
     ("fiber S: sphere NW, angular e", 1, 17, "expected 'of', found 'NW'"),

@@ -9,7 +9,8 @@ from fractions import Fraction
 import pytest
 import sympy
 
-from compiler.algebra.sampling import SymbolSpec, evaluate, sample_points
+from compiler.algebra.region import Region, build_region
+from compiler.algebra.sampling import SymbolSpec, evaluate
 
 
 def test_integer_positive_carries_sympy_assumptions():
@@ -69,7 +70,7 @@ def _specs():
 
 def test_sample_points_satisfy_every_declaration_and_are_distinct():
     specs = _specs()
-    points = sample_points(specs, 40, "doc.md:12")
+    points = Region(tuple(specs)).sample(40, "doc.md:12")
     assert len(points) == 40
     assert len({tuple(p.values()) for p in points}) == 40
     for p in points:
@@ -83,13 +84,13 @@ def test_sample_points_satisfy_every_declaration_and_are_distinct():
 
 def test_sample_points_are_deterministic_and_seeded():
     specs = _specs()
-    assert sample_points(specs, 20, "a.md:3") == sample_points(specs, 20, "a.md:3")
-    assert sample_points(specs, 20, "a.md:3") != sample_points(specs, 20, "a.md:4")
+    assert Region(tuple(specs)).sample(20, "a.md:3") == Region(tuple(specs)).sample(20, "a.md:3")
+    assert Region(tuple(specs)).sample(20, "a.md:3") != Region(tuple(specs)).sample(20, "a.md:4")
 
 
 def test_sample_points_spread_over_small_and_moderate_sizes():
     z = SymbolSpec.declare("z", ["positive"], [])
-    values = [p[z.symbol] for p in sample_points([z], 60, "spread")]
+    values = [p[z.symbol] for p in Region((z,)).sample(60, "spread")]
     assert any(v < 1 for v in values)
     assert any(v > 10 for v in values)
     assert any(not v.is_Integer for v in values)
@@ -97,12 +98,12 @@ def test_sample_points_spread_over_small_and_moderate_sizes():
 
 def test_small_finite_domains_are_enumerated():
     k = SymbolSpec.declare("k", ["integer"], [(">=", Fraction(1)), ("<=", Fraction(3))])
-    points = sample_points([k], 20, "finite")
+    points = Region((k,)).sample(20, "finite")
     assert sorted(p[k.symbol] for p in points) == [1, 2, 3]
 
 
 def test_no_symbols_gives_the_single_empty_point():
-    assert sample_points([], 20, "none") == [{}]
+    assert Region(()).sample(20, "none") == [{}]
 
 
 def test_evaluate_substitutes_exactly_before_rounding():
@@ -112,3 +113,77 @@ def test_evaluate_substitutes_exactly_before_rounding():
     value = evaluate(sympy.sqrt(x) * (x + 1) ** 2 - x ** sympy.Rational(5, 2)
                      - 2 * x ** sympy.Rational(3, 2), {x: big})
     assert abs(value - sympy.Integer(10) ** 15) < sympy.Float("1e-30")
+
+
+# -- regions: relations between symbols (issue 12) --------------------------------
+
+Nc_, Nf_, p_, q_ = sympy.symbols("Nc Nf p q")
+
+
+def sqcd_window():
+    return build_region([("Nc", ["integer"], [(">=", Fraction(2))], []),
+                         ("Nf", ["integer"], [], [(Nc_, "<", Nf_), (Nf_, "<", 3 * Nc_)])])
+
+
+def test_region_points_lie_inside_every_relation():
+    region = sqcd_window()
+    Nc, Nf = region.symbols
+    points = region.sample(40, "doc.md:5")
+    assert len(points) == 40 and len({tuple(p.values()) for p in points}) == 40
+    for point in points:
+        assert point[Nc] >= 2 and point[Nc] < point[Nf] < 3 * point[Nc]
+        assert all(v.is_Integer for v in point.values())
+        assert region.violations(point) == []
+    assert region.sample(40, "doc.md:5") == points
+    assert region.sample(40, "doc.md:6") != points
+
+
+def test_a_point_outside_the_region_says_what_it_breaks():
+    region = sqcd_window()
+    Nc, Nf = region.symbols
+    assert region.violations({Nc: 3, Nf: 9}) == ["Nc = 3, Nf = 9 breaks Nf < 3*Nc"]
+    assert region.violations({Nc: 3, Nf: 3}) == ["Nc = 3, Nf = 3 breaks Nc < Nf"]
+    assert region.violations({Nc: 1, Nf: 2}) == ["Nc = 1 breaks Nc: integer, Nc >= 2"]
+    assert region.violations({Nc: 3, Nf: 5}) == []
+    # a point that fixes one symbol is judged on what it fixes
+    assert region.violations({Nf: 100}) == []
+
+
+def test_real_relations_and_bounds_folded_from_relations():
+    region = build_region([("q", ["real"], [], [(0, "<", q_)]),
+                           ("p", ["real"], [], [(q_, "<", p_), (p_, "<=", 10)])])
+    q, p = region.symbols
+    assert region.specs[0].describe() == "real, positive"
+    assert region.specs[1].describe() == "real, p <= 10"
+    assert [r.text for r in region.relations] == ["q < p"]
+    for point in region.sample(30, "pq"):
+        assert 0 < point[q] < point[p] <= 10
+
+
+def test_small_regions_are_enumerated_inside_the_relations():
+    region = build_region([("a", ["integer"], [(">=", Fraction(1)), ("<=", Fraction(3))], []),
+                           ("b", ["integer"], [(">=", Fraction(1)), ("<=", Fraction(3))],
+                            [(sympy.Symbol("b"), ">", sympy.Symbol("a"))])])
+    a, b = region.symbols
+    assert region.sample(20, "x") == [{a: 1, b: 2}, {a: 1, b: 3}, {a: 2, b: 3}]
+
+
+def test_restricting_keeps_linked_symbols():
+    region = build_region([("Nc", ["integer"], [(">=", Fraction(2))], []),
+                           ("Nf", ["integer"], [], [(Nf_, ">", Nc_)]),
+                           ("z", ["real"], [], [])])
+    Nc, Nf, z = region.symbols
+    assert region.restrict([Nf]).symbols == [Nc, Nf]
+    assert region.restrict([z]).symbols == [z] and region.restrict([z]).relations == ()
+
+
+@pytest.mark.parametrize("relations, message", [
+    ([(Nf_, ">", sympy.Symbol("Nx"))], "uses Nx, which is not declared before it"),
+    ([(Nf_ ** 2, ">", Nc_)], "not linear"),
+    ([(Nf_, "=", Nc_)], "unknown comparison"),
+    ([(Nf_, "<", 1)], "no integer satisfies"),
+])
+def test_bad_relations_are_rejected(relations, message):
+    with pytest.raises(ValueError, match=message):
+        build_region([("Nc", ["integer"], [(">=", Fraction(2))], []),
+                      ("Nf", ["integer", "positive"], [], relations)])

@@ -1,20 +1,21 @@
-"""Declared symbols and the deterministic sample points that respect them.
+"""Declared symbols and the deterministic values drawn for them.
 
 A ``symbol`` statement gives assumptions and bounds.  Symbolic work needs
 them as sympy assumptions (so ``sqrt(N**2)`` becomes ``N``); checks and
-extremization that cannot be settled symbolically need exact points that
-satisfy them, the same points on every build, so a report never flickers.
+extremization that cannot be settled symbolically need exact values that
+satisfy them, the same values on every build, so a report never flickers.
+Points of several symbols, with the relations between them, are drawn by
+``region.py``.
 """
 from __future__ import annotations
 
 import dataclasses
 import hashlib
-import itertools
 import math
 import random
 from dataclasses import dataclass
 from fractions import Fraction
-from typing import Iterable, Sequence
+from typing import Iterable
 
 import sympy
 
@@ -86,7 +87,7 @@ class SymbolSpec:
 
     # -- the admissible set -------------------------------------------------
 
-    def _integer_range(self) -> tuple[int | None, int | None]:
+    def integer_range(self) -> tuple[int | None, int | None]:
         """The smallest and largest admissible integers (None: unbounded)."""
         first = last = None
         if self.lower is not None:
@@ -99,7 +100,7 @@ class SymbolSpec:
 
     def _require_satisfiable(self) -> None:
         if self.integer:
-            first, last = self._integer_range()
+            first, last = self.integer_range()
             if first is not None and last is not None:
                 if first > last or (self.nonzero and first == last == 0):
                     raise ValueError(f"no integer satisfies the declaration of "
@@ -173,7 +174,7 @@ class SymbolSpec:
         """All admissible values when there are only a few (bounded integers)."""
         if not self.integer:
             return None
-        first, last = self._integer_range()
+        first, last = self.integer_range()
         if first is None or last is None or last - first > 10_000:
             return None
         return [v for v in range(first, last + 1) if self.admits(v)]
@@ -188,7 +189,7 @@ class SymbolSpec:
 
     def _draw_once(self, rng: random.Random) -> Fraction:
         if self.integer:
-            first, last = self._integer_range()
+            first, last = self.integer_range()
             if first is not None and last is not None:
                 return Fraction(rng.randint(first, last))
             step = _magnitude_int(rng)
@@ -233,42 +234,6 @@ def rng_for(seed: str) -> random.Random:
     """A random generator fixed by a string (document path and line)."""
     digest = hashlib.sha256(seed.encode("utf-8")).digest()
     return random.Random(int.from_bytes(digest[:16], "big"))
-
-
-def is_enumerated(specs: Sequence[SymbolSpec], count: int) -> bool:
-    """Whether the specs admit at most ``count`` points, so sampling lists them all."""
-    finite = [s.finite_values() for s in specs]
-    return bool(specs) and all(f is not None for f in finite) and \
-        math.prod(len(f) for f in finite) <= count
-
-
-def sample_points(specs: Sequence[SymbolSpec], count: int,
-                  seed: str) -> list[dict[sympy.Symbol, sympy.Rational]]:
-    """``count`` distinct exact points satisfying every spec, fixed by ``seed``.
-
-    When the specs admit fewer than ``count`` points (bounded integers) all of
-    them are returned, which is then an exhaustive test; with no symbols the
-    single empty point is returned.
-    """
-    specs = list(specs)
-    if not specs:
-        return [{}]
-    if is_enumerated(specs, count):
-        return [{s.symbol: sympy.Integer(v) for s, v in zip(specs, combo)}
-                for combo in itertools.product(*(s.finite_values() for s in specs))]
-    rng = rng_for(seed)
-    seen: set[tuple[Fraction, ...]] = set()
-    points = []
-    for _ in range(count * 200):
-        values = tuple(s.draw(rng) for s in specs)
-        if values in seen:
-            continue
-        seen.add(values)
-        points.append({s.symbol: sympy.Rational(v.numerator, v.denominator)
-                       for s, v in zip(specs, values)})
-        if len(points) == count:
-            break
-    return points
 
 
 def evaluate(expr: sympy.Expr, point: dict, digits: int = 50):

@@ -1,63 +1,65 @@
 """``fiber`` statements: header rules keyed by fiber kind, body rules keyed by body word.
 
-``fiber F: surface, ...`` and ``fiber F: sphere of ...`` are one line; a
-``fiber F: dimension n`` header collects the indented lines that follow it
-(``class``, ``relation``, ``integral``) into one ``GeneralFiber``.
+``fiber F: surface, ...`` and ``fiber F: sphere of ...`` are one line.  The
+other kinds collect the indented lines that follow their header: under
+``fiber F: dimension n`` the lines ``class``, ``relation`` and ``integral``
+make one ``GeneralFiber``; under ``fiber F: fixed points, ...`` the lines
+``point`` and ``line`` make one ``FixedPointFiber``, and so do the ``line``
+lines under ``fiber F: spindle a, b, ...`` (whose points are ``north`` and
+``south``).
 """
 from __future__ import annotations
 
 from dataclasses import dataclass, field
 from fractions import Fraction
-from typing import Optional
+from typing import Callable, Optional
 
 from compiler.statements import nodes as n
-from compiler.statements.core import Cursor, did_you_mean, equations
+from compiler.statements.core import Cursor, did_you_mean, equations, expr
 from compiler.statements.lexer import LogicalLine
 from compiler.statements.tree import Ident
 
-BODY_WORDS = ("class", "relation", "integral")
+BODY_WORDS = ("class", "relation", "integral", "point", "line")
 #: A fiber of higher dimension (or a class of higher degree) is beyond any
 #: anomaly computation.
 MAX_FIBER_DIMENSION = 64
 
 
 @dataclass(frozen=True)
-class GeneralHeader:
-    """``fiber F: dimension n``, waiting for its indented body."""
+class Header:
+    """A fiber header waiting for its indented body: the body words it reads
+    and how the collected parts (lists keyed by part name) make its node."""
 
-    name: Ident
-    dimension: int
+    rules: dict
+    make: Callable[[dict, dict], object]   # (parts, span) -> statement node
     span: dict
 
 
 @dataclass
 class FiberBody:
-    """The body lines collected so far under a general fiber's header
-    (``header`` is None under a header that failed to parse)."""
+    """The body lines collected so far under a fiber's header (``header`` is
+    None under a header that failed to parse)."""
 
-    header: Optional[GeneralHeader]
-    classes: list = field(default_factory=list)
-    relations: list = field(default_factory=list)
-    integrals: list = field(default_factory=list)
+    header: Optional[Header]
+    parts: dict = field(default_factory=dict)
     end_line: int = 0
     sources: list = field(default_factory=list)
 
     def add(self, parsed: tuple[str, list], logical: LogicalLine) -> None:
         kind, items = parsed
-        getattr(self, kind).extend(items)
+        self.parts.setdefault(kind, []).extend(items)
         self.end_line = logical.end_line
         self.sources.append("  " + logical.source)
 
-    def build(self) -> n.GeneralFiber:
+    def build(self):
         span = dict(self.header.span)
         span["end_line"] = max(span["end_line"], self.end_line)
         span["source"] = "\n".join([span["source"], *self.sources])
-        return n.GeneralFiber(self.header.name, self.header.dimension, tuple(self.classes),
-                              tuple(self.relations), tuple(self.integrals), **span)
+        return self.header.make(self.parts, span)
 
 
 def fiber_rule(c: Cursor):
-    """``fiber NAME: KIND ...``: a fiber node, or a ``GeneralHeader``."""
+    """``fiber NAME: KIND ...``: a fiber node, or a ``Header`` waiting for its body."""
     name = c.name("a fiber name")
     c.expect(":")
     kind = c.peek()
@@ -66,9 +68,10 @@ def fiber_rule(c: Cursor):
         return FIBER_KINDS[kind.text](c, name)
     if kind.kind == "name":
         c.fail(kind, f"unknown fiber kind '{kind.text}' (allowed: 'surface, genus g, "
-                     "tangent T', 'sphere of B, angular e', 'dimension n')"
+                     "tangent T', 'sphere of B, angular e', 'dimension n', 'fixed points, "
+                     "dimension n, rotation t', 'spindle a, b, rotation t')"
                + did_you_mean(kind.text, FIBER_KINDS))
-    c.expected("surface, sphere or dimension")
+    c.expected("surface, sphere, dimension, fixed or spindle")
 
 
 def _surface(c: Cursor, name: Ident) -> n.SurfaceFiber:
@@ -83,9 +86,72 @@ def _sphere(c: Cursor, name: Ident) -> n.SphereFiber:
     return n.SphereFiber(name, bundle, options["angular"], **c.span)
 
 
-def _dimension(c: Cursor, name: Ident) -> GeneralHeader:
+def _dimension(c: Cursor, name: Ident) -> Header:
     dimension = c.positive_integer("the fiber dimension", MAX_FIBER_DIMENSION)
-    return GeneralHeader(name, dimension, c.span)
+
+    def make(parts: dict, span: dict) -> n.GeneralFiber:
+        return n.GeneralFiber(name, dimension, *(tuple(parts.get(k, ())) for k in
+                                                 ("classes", "relations", "integrals")), **span)
+    return Header(GENERAL_RULES, make, c.span)
+
+
+def _fixed(c: Cursor, name: Ident) -> Header:
+    """``fixed points, dimension d, rotation t [= value], ... [, tangent T]``."""
+    c.expect_word("points")
+    c.expect(",")
+    c.expect_word("dimension")
+    token = c.peek()
+    dimension = c.positive_integer("the fiber dimension", MAX_FIBER_DIMENSION)
+    if dimension % 2:
+        c.fail(token, f"a fiber with isolated fixed points has even dimension, not {dimension}")
+    rotation = _rotation(c)
+    return Header(FIXED_RULES, lambda parts, span: _fixed_node(
+        name, dimension, rotation, parts.get("points", ()), parts, span), c.span)
+
+
+def _spindle(c: Cursor, name: Ident) -> Header:
+    """``spindle a, b, rotation t [= value] [, tangent T]``: the pole ``north`` of
+    order a with weight t/a and the pole ``south`` of order b with weight -t/b."""
+    a = expr(c)
+    c.expect(",")
+    b = expr(c)
+    rotation = _rotation(c)
+    if len(rotation[0]) != 1:
+        c.fail(rotation[0][1], "a spindle turns about one axis: give one rotation parameter")
+    t = n.Name(rotation[0][0], rotation[0][0].line, rotation[0][0].column)
+    poles = (n.FixedPointDecl("north", (n.Binary("/", t, a, a.line, a.column),), a,
+                              a.line, a.column),
+             n.FixedPointDecl("south", (n.Unary("-", n.Binary("/", t, b, b.line, b.column),
+                                                b.line, b.column),), b, b.line, b.column))
+    return Header(SPINDLE_RULES, lambda parts, span: _fixed_node(
+        name, 2, rotation, poles, parts, span), c.span)
+
+
+def _rotation(c: Cursor) -> tuple:
+    """``, rotation t [= value], u [= value] [, tangent T]``: the parameters,
+    what each stands for (None: formal), and the tangent bundle's name."""
+    c.expect(",")
+    c.expect_word("rotation")
+    parameters, identified, tangent = [], [], None
+    while True:
+        parameters.append(c.name("a rotation parameter"))
+        identified.append(expr(c) if c.accept("=") else None)
+        if not c.accept(","):
+            break
+        if c.at_word("tangent"):
+            c.next()
+            tangent = c.name("the tangent bundle's name")
+            break
+    c.no_duplicates(parameters)
+    return tuple(parameters), tuple(identified), tangent
+
+
+def _fixed_node(name: Ident, dimension: int, rotation: tuple, points, parts: dict,
+                span: dict) -> n.FixedPointFiber:
+    lines = parts.get("lines", ())
+    return n.FixedPointFiber(name, dimension, rotation[0], rotation[1], rotation[2],
+                             tuple(points), tuple(line for line, _ in lines),
+                             tuple(values for _, values in lines), **span)
 
 
 def _options(c: Cursor, readers: dict) -> dict:
@@ -114,14 +180,14 @@ def _genus(c: Cursor) -> n.Expr:
     return n.Name(name, name.line, name.column)
 
 
-def body_line(c: Cursor) -> tuple[str, list]:
-    """One indented line of a general fiber: class, relation or integral."""
+def body_line(c: Cursor, rules: dict) -> tuple[str, list]:
+    """One indented line of a fiber body, read by the header's ``rules``."""
     c.lexing_problems()
     word = c.peek()
-    reader = BODY_RULES.get(word.text) if word.kind == "name" else None
+    reader = rules.get(word.text) if word.kind == "name" else None
     if reader is None:
-        c.fail(word, "a fiber body line starts with class, relation or integral, found "
-                     f"{c.describe(word)}" + (did_you_mean(word.text, BODY_WORDS)
+        c.fail(word, f"a line of this fiber's body starts with {' or '.join(rules)}, found "
+                     f"{c.describe(word)}" + (did_you_mean(word.text, rules)
                                               if word.kind == "name" else ""))
     c.next()
     result = reader(c)
@@ -136,9 +202,44 @@ def _body_class(c: Cursor) -> tuple[str, list]:
     return "classes", [n.FiberClass(name, degree, name.line, name.column) for name in names]
 
 
-FIBER_KINDS = {"surface": _surface, "sphere": _sphere, "dimension": _dimension}
+def _point(c: Cursor) -> tuple[str, list]:
+    """``point p: weights w1, w2 [, order d]`` (``weight`` for one)."""
+    label = c.name("a fixed point's label")
+    c.expect(":")
+    if not (c.at_word("weight") or c.at_word("weights")):
+        c.expected("'weights'")
+    c.next()
+    weights, order = [expr(c)], None
+    while c.accept(","):
+        if c.at_word("order"):
+            c.next()
+            order = expr(c)
+            break
+        weights.append(expr(c))
+    return "points", [n.FixedPointDecl(str(label), tuple(weights), order,
+                                       label.line, label.column)]
 
-BODY_RULES = {
+
+def _line(c: Cursor) -> tuple[str, list]:
+    """``line L: p = value, q = value``: a line bundle by its restrictions."""
+    name = c.name("a line bundle's name")
+    c.expect(":")
+    values = []
+    while True:
+        label = c.name("a fixed point's label")
+        c.expect("=")
+        values.append(n.PointValue(str(label), expr(c), label.line, label.column))
+        if not c.accept(","):
+            return "lines", [(name, tuple(values))]
+
+
+FIBER_KINDS = {"surface": _surface, "sphere": _sphere, "dimension": _dimension,
+               "fixed": _fixed, "spindle": _spindle}
+
+FIXED_RULES = {"point": _point, "line": _line}
+SPINDLE_RULES = {"line": _line}
+
+GENERAL_RULES = {
     "class": _body_class,
     "relation": lambda c: ("relations", list(equations(c, bare=True))),
     "integral": lambda c: ("integrals", list(equations(c, bare=False))),

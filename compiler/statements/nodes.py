@@ -156,6 +156,28 @@ class FiberClass:
 
 
 @dataclass(frozen=True)
+class FixedPointDecl:
+    """``point p: weights w1, w2, order d`` (order None: 1).  The label is
+    plain text, not an ``Ident``: it is not a name of the document."""
+
+    label: str
+    weights: tuple[Expr, ...]
+    order: Optional[Expr]
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class PointValue:
+    """``north = -t/3`` in a fixed-point fiber's ``line``: a restriction."""
+
+    label: str
+    value: Expr
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
 class Relation:
     """``Nf > Nc``, ``q < p``, ``Nf < 3*Nc`` in a ``symbol`` declaration.
 
@@ -249,6 +271,24 @@ class GeneralFiber(_Statement):
     classes: tuple[FiberClass, ...]
     relations: tuple[Equation, ...]
     integrals: tuple[Equation, ...]  # lhs a monomial, rhs its integral
+    kind = "fiber"
+
+
+@dataclass(frozen=True)
+class FixedPointFiber(_Statement):
+    """``fiber D: fixed points, dimension 2, rotation t = v, tangent TD`` with a body
+    of ``point`` and ``line``, or ``fiber D: spindle a, b, ...``.  ``identified[i]``
+    is what parameter i stands for (None: formal); ``line_values[i]`` restrict
+    ``lines[i]`` to the points."""
+
+    name: Ident
+    dimension: int
+    parameters: tuple[Ident, ...]
+    identified: tuple[Optional[Expr], ...]
+    tangent: Optional[Ident]
+    points: tuple[FixedPointDecl, ...]
+    lines: tuple[Ident, ...]
+    line_values: tuple[tuple[PointValue, ...], ...]
     kind = "fiber"
 
 
@@ -358,6 +398,6 @@ class Plot(_Statement):
 
 Statement = Union[
     SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
-    SphereFiber, GeneralFiber, Let, Substitute, Reduce, Integrate,
+    SphereFiber, GeneralFiber, FixedPointFiber, Let, Substitute, Reduce, Integrate,
     Coefficients, Extremize, Check, Show, Table, Plot,
 ]

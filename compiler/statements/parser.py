@@ -1,10 +1,10 @@
 """Derive block text → statement nodes, through the rule tables.
 
 Each logical line is read by the rule its first word selects
-(``rules.RULES``); indented lines belong to the general fiber above them
-(``fibers.BODY_RULES``).  A bad statement yields exactly one problem (at the
-offending token) and parsing goes on with the next line, so the author sees
-every bad line at once.  Nothing here evaluates anything: document text only
+(``rules.RULES``); indented lines belong to the fiber above them, read by
+the body rules its header names (``fibers.Header``).  A bad statement yields
+exactly one problem (at the offending token) and parsing goes on with the
+next line, so the author sees every bad line at once.  Nothing here evaluates anything: document text only
 ever becomes the frozen dataclasses of ``nodes``.
 """
 from __future__ import annotations
@@ -14,7 +14,7 @@ from typing import Optional
 from compiler.errors import DocumentError, Location, Problem
 from compiler.statements import nodes as n, words
 from compiler.statements.core import Cursor, did_you_mean
-from compiler.statements.fibers import BODY_WORDS, FiberBody, GeneralHeader, body_line
+from compiler.statements.fibers import BODY_WORDS, FiberBody, Header, body_line
 from compiler.statements.lexer import Token, logical_lines
 from compiler.statements.rules import RULES
 
@@ -49,10 +49,11 @@ def parse_block(text: str, first_line: int, path: str,
             if body is None:
                 problems.append(Problem(Location(path, first.line, first.column),
                                         "unexpected indentation: only the body lines of a "
-                                        "'fiber F: dimension n' are indented"))
+                                        "fiber ('dimension n', 'fixed points' or "
+                                        "'spindle') are indented"))
             elif body.header is not None:
                 try:
-                    body.add(body_line(cursor), logical)
+                    body.add(body_line(cursor, body.header.rules), logical)
                 except DocumentError as exc:
                     problems.append(exc.problems[0])
             continue
@@ -65,7 +66,7 @@ def parse_block(text: str, first_line: int, path: str,
             if first.kind == "name" and first.text == "fiber":
                 body = FiberBody(None)  # its body lines belong to the failed header
             continue
-        if isinstance(result, GeneralHeader):
+        if isinstance(result, Header):
             body = FiberBody(result)
         else:
             statements.append(result)
@@ -93,7 +94,7 @@ def statement(c: Cursor):
 
 def _unknown_statement(word: str, after: Token) -> str:
     if word in BODY_WORDS:
-        return f"'{word}' belongs in the indented body of a 'fiber F: dimension n'"
+        return f"'{word}' belongs in the indented body of a fiber"
     message = f"unknown statement '{word}'"
     if after.kind == "op" and after.text == "=":
         return message + f"; did you mean 'let {word} = ...'?"

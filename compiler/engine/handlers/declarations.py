@@ -6,7 +6,9 @@ from the cache); each is ``(scope, statement, step) -> None``.
 from __future__ import annotations
 
 from ... import notation
-from ...algebra import bundles as bundles_mod, fibers as fibers_mod
+from ...algebra import bundles as bundles_mod, fibers as fibers_mod, fixed_points
+from ...algebra.localization import FixedPoint
+from ...algebra.graded import Element
 from ...expressions import as_expr
 from ...results import CheckResult, Step
 from ...statements import nodes as n
@@ -110,8 +112,82 @@ def _general(scope, s: n.GeneralFiber, step: Step) -> None:
     _declare_fiber(scope, s, fiber, step)
 
 
+def _fixed_points(scope, s: n.FixedPointFiber, step: Step) -> None:
+    """A fiber given by the fixed points of a rotation; its data are checked
+    at once (the checks show in this step) and it integrates by localization."""
+    ring, group = scope.ring, scope.new_group()
+    for name in s.parameters:
+        scope.bind(name, "class", ring.generator(name, 2, text=name,
+                                                 latex=notation.name_latex(name)), s.line)
+    identify = {}
+    for name, node in zip(s.parameters, s.identified):
+        if node is not None:
+            identify[name] = element(scope, node, f"the value of the rotation parameter {name}")
+            if identify[name].generator_keys() & set(s.parameters):
+                raise scope.fail(node, f"{name} must stand for a base class, not for an "
+                                       f"expression in the rotation parameters")
+    points = [_fixed_point(scope, s, p) for p in s.points]
+    restrictions = {}
+    if s.tangent is not None:
+        scope.bundles.declare(s.tangent, "real", s.dimension, group=group)
+        scope.bind(s.tangent, "bundle", s.tangent, s.line)
+        keys = scope.bundles.get(s.tangent).keys      # p1, ..., pk, e (only e for a plane)
+        for index, key in enumerate(keys, 1):
+            restrictions[key] = fixed_points.tangent_restrictions(
+                s.name, ring, s.parameters, points, "e" if key == keys[-1] else "p", index)
+    for name, values in zip(s.lines, s.line_values):
+        scope.bundles.declare(name, "line", group=group)
+        scope.bind(name, "bundle", name, s.line)
+        restrictions[scope.bundles.get(name).keys[0]] = _restrictions(scope, name, values)
+    fiber = fixed_points.localized_fiber(s.name, ring, group, s.dimension, s.parameters,
+                                         points, restrictions, identify)
+    scope.bind(s.name, "fiber", fiber, s.line)
+    for c in fixed_points.consistency_checks(fiber):
+        step.checks.append(CheckResult(c.what, "proven" if c.ok else "failed", c.detail))
+    rotation = ", ".join(f"{k} = {identify[k].to_text()}" if k in identify else f"{k} (formal)"
+                         for k in s.parameters)
+    step.summary = (f"{s.name}: fiber of dimension {s.dimension} with fixed points "
+                    + ", ".join(f"{p.name} (order {fiber.text(p.order)})" for p in fiber.points)
+                    + f"; rotation {rotation}; integrated by localization")
+
+
+def _fixed_point(scope, s: n.FixedPointFiber, p: n.FixedPointDecl) -> FixedPoint:
+    """A point's order, checked first (a weight may divide by it), and its
+    weights as linear forms in the rotation parameters."""
+    try:
+        order = fixed_points.checked_order(
+            s.name, p.label, 1 if p.order is None else as_expr(scope.evaluate(p.order)))
+    except fibers_mod.FiberError as err:
+        raise scope.fail(p.order or p, str(err)) from None
+    weights = []
+    for node in p.weights:
+        w = element(scope, node, "a tangent weight")
+        coefficients = tuple(w.coefficient([(t, 1)]) for t in s.parameters)
+        if w != sum((c * scope.ring.gen(t) for c, t in zip(coefficients, s.parameters)),
+                    scope.ring.zero()):
+            raise scope.fail(node, f"a tangent weight is a combination of the rotation "
+                                   f"parameters {', '.join(s.parameters)}, not {w.to_text()}")
+        weights.append(tuple(as_expr(c) for c in coefficients))
+    try:
+        return fixed_points.checked_point(s.name, FixedPoint(p.label, tuple(weights), order),
+                                          len(s.parameters), s.dimension // 2)
+    except fibers_mod.FiberError as err:
+        raise scope.fail(p, str(err)) from None
+
+
+def _restrictions(scope, name: str, values) -> dict:
+    """{point label: restriction} of one line bundle; each point once."""
+    out = {}
+    for v in values:
+        if v.label in out:
+            raise scope.fail(v, f"the restriction of {name} to {v.label} is given twice")
+        value = scope.evaluate(v.value)
+        out[v.label] = value if isinstance(value, Element) else scope.ring.scalar(value)
+    return out
+
+
 HANDLERS = {
     n.SymbolDecl: _symbol, n.ConventionDecl: _convention, n.BundleDecl: _bundle,
     n.SplitDecl: _split, n.SurfaceFiber: _surface, n.SphereFiber: _sphere,
-    n.GeneralFiber: _general,
+    n.GeneralFiber: _general, n.FixedPointFiber: _fixed_points,
 }

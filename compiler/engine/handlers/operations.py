@@ -8,8 +8,9 @@ from __future__ import annotations
 import sympy
 
 from ... import notation
-from ...algebra import fibers as fibers_mod
-from ...algebra.extremize import ExtremizeError, extremize, tidy
+from ...algebra import fibers as fibers_mod, localization
+from ...algebra.extremize import ExtremizeError, extremize
+from ...algebra.radicals import tidy
 from ...algebra.graded import Element
 from ...checks import free_symbols
 from ...expressions import as_expr, is_class_free
@@ -94,10 +95,14 @@ def _reduce(scope, s: n.Reduce, step: Step) -> None:
     scope.output(step, s.outputs[0], result, s.line)
 
 
+#: Fiber types integrated otherwise than through their table of top integrals.
+INTEGRATE = {localization.LocalizedFiber: localization.integrate}
+
+
 def _integrate(scope, s: n.Integrate, step: Step) -> None:
     target = element(scope, s.target, "integrate")
     _, fiber = scope.lookup(s.fiber, s.fiber_line, s.fiber_column)
-    result, checks = fibers_mod.integrate(target, fiber)
+    result, checks = INTEGRATE.get(type(fiber), fibers_mod.integrate)(target, fiber)
     for c in checks:
         step.checks.append(CheckResult(c.what, "proven" if c.ok else "failed", c.detail))
     scope.output(step, s.outputs[0], result, s.line)
