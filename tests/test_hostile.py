@@ -12,12 +12,14 @@ practice, no source.
 from __future__ import annotations
 
 import json
+import os
 import shutil
 import subprocess
+import sys
 
 import pytest
 
-from support import anomark
+from support import ROOT, anomark
 
 DERIVE = "```derive\n{}\n```\n"
 
@@ -195,6 +197,23 @@ def test_a_bomb_is_stopped_by_a_limit_that_its_message_names(tmp_path, name):
 
 
 # ---------------------------------------------------------- filesystem
+
+def test_plotting_writes_nothing_outside_the_output_folder(tmp_path):
+    """A fresh process (matplotlib must not be loaded yet) with its home, cache
+    and temporary folders empty: after a build with plots they still are."""
+    home, temp, key, out = (tmp_path / name for name in ("home", "tmp", "key", "out"))
+    for folder in (home, temp, key):
+        folder.mkdir()
+    doc = write(tmp_path, PLOT)
+    env = {k: v for k, v in os.environ.items() if not k.startswith(("XDG_", "MPL"))}
+    env.update(HOME=str(home), TMPDIR=str(temp), ANOMARK_KEY_DIR=str(key), PYTHONPATH=str(ROOT))
+    run = subprocess.run([sys.executable, "-m", "compiler", "build", str(doc), "-o", str(out),
+                          "--format", "html,tex", "--quiet"], env=env, capture_output=True, text=True,
+                         timeout=300)
+    assert run.returncode == 0, run.stderr
+    assert list(home.iterdir()) == [] and list(temp.iterdir()) == []
+    assert sorted(p.name for p in out.iterdir()) == ["doc-plot-1.pdf", "doc.html", "doc.tex"]
+
 
 def test_an_existing_file_as_the_output_folder_is_refused(tmp_path):
     doc = write(tmp_path, DERIVE.format("symbol N"))
