@@ -181,6 +181,9 @@ BOMBS = {
                                   "bundle M: real, rank 64\nbundle K: real, rank 64\n"
                                   "let a = Ahat(T)*L(N)*Ahat(M)*L(K)", 9,
                                   "grew beyond 20000 terms (the term limit)"),
+    "large symmetric power": ("---\ntruncate: 40\n---\n",
+                              "bundle V: complex, rank 64\nlet a = ch(sym(V, 100))", 6,
+                              "sym(V, 100) would multiply about 37197269800 term pairs (the limit is"),
     "sphere of a line": ("", "bundle B: real, rank 1\nfiber S: sphere of B, angular e0", 3,
                          "the sphere bundle of B (rank 1) needs rank 3 or more"),
 }

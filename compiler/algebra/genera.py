@@ -30,6 +30,9 @@ from .bundles import COMPLEX, BundleTable
 from .graded import AlgebraError, Element
 
 MAX_POWER = 100  # largest k in sym(V, k): Newton's recursion costs O(k^2) products
+#: Term pairs those k^2/2 products may multiply, estimated before they start
+#: (about two seconds of work): a large k on a large Chern character is refused.
+MAX_POWER_PAIRS = 200_000_000
 
 
 # ------------------------------------------------------------ power series
@@ -252,6 +255,10 @@ class BundleValue:
             return BundleValue(0, one.ring.zero())
         if k > MAX_POWER:
             raise AlgebraError(f"{what}(V, {k}): k is limited to {MAX_POWER}")
+        pairs = k * (k + 1) // 2 * len(self.ch.terms()) ** 2
+        if pairs > MAX_POWER_PAIRS:
+            raise AlgebraError(f"{what}(V, {k}) would multiply about {pairs} term pairs (the limit "
+                               f"is {MAX_POWER_PAIRS}); lower k or truncate")
         psi = [None] + [self.adams(j) for j in range(1, k + 1)]
         powers = [one]
         for m in range(1, k + 1):
