@@ -48,6 +48,14 @@ MATH_COMMANDS = frozenset(_GREEK + """
 #: Environments allowed after ``\\begin``; all are amsmath's math environments.
 MATH_ENVIRONMENTS = frozenset("matrix pmatrix bmatrix Bmatrix vmatrix Vmatrix smallmatrix "
                               "cases aligned gathered split array".split())
+#: Commands that take an argument: TeX fails when none follows.
+_TAKES_ARGUMENT = frozenset("""frac dfrac tfrac binom dbinom tbinom sqrt mathrm mathit mathbf mathsf
+    mathtt mathcal mathbb mathfrak boldsymbol operatorname text textrm textit textbf texttt mbox hat
+    widehat tilde widetilde bar overline underline vec dot ddot check breve acute grave overbrace
+    underbrace overset underset stackrel""".split())
+_DELIMITER_WORDS = frozenset("langle rangle lfloor rfloor lceil rceil lvert rvert lVert rVert vert "
+                             "Vert uparrow downarrow backslash".split())
+_NO_ARGUMENT = "}&^_"
 #: Backslash followed by one of these is a harmless control symbol (spacing, escaped specials).
 _CONTROL_SYMBOLS = frozenset(",;:! {}|\\#%&_$")
 _CONTROL_WORD = re.compile(r"\\([A-Za-z]+)")
@@ -188,7 +196,7 @@ def file_name(name: str) -> str:
 def math_problem(latex: str) -> Optional[tuple[int, str]]:
     """The first thing in ``latex`` (math as the author wrote it) that may not
     reach TeX, as (offset, message); None when all of it is allowed."""
-    depth, environments, i = 0, [], 0
+    depth, environments, fences, i = 0, [], 0, 0
     while i < len(latex):
         ch = latex[i]
         if ch == "\\":
@@ -202,6 +210,13 @@ def math_problem(latex: str) -> Optional[tuple[int, str]]:
             if name not in MATH_COMMANDS:
                 return i, f"'\\{name}' is not an allowed math command"
             i = word.end()
+            problem = _argument_problem(latex, i, name)
+            if problem is not None:
+                return word.start(), problem
+            if name in ("left", "right"):
+                fences += 1 if name == "left" else -1
+                if fences < 0:
+                    return word.start(), "'\\right' without a '\\left' before it"
             if name in _ENVIRONMENT_COMMANDS:
                 env = _ENVIRONMENT.match(latex, i)
                 if env is None or env.group(1) not in MATH_ENVIRONMENTS:
@@ -222,19 +237,37 @@ def math_problem(latex: str) -> Optional[tuple[int, str]]:
         i += 1
     if environments:
         return len(latex), f"'\\begin{{{environments[-1]}}}' is never closed"
+    if fences:
+        return len(latex), "a '\\left' has no '\\right'"
     if depth:
         return len(latex), "a '{' is never closed"
     return None
 
 
+def _argument_problem(latex: str, i: int, name: str) -> Optional[str]:
+    """Why what follows ``\\name`` (from ``latex[i]``) cannot be its argument or delimiter."""
+    rest = latex[i:].lstrip()
+    if name in ("left", "right"):
+        word = _CONTROL_WORD.match(rest)
+        if rest[:1] in tuple("()[]|./") or rest[:2] in ("\\{", "\\}", "\\|") or (
+                word is not None and word.group(1) in _DELIMITER_WORDS):
+            return None
+        return f"'\\{name}' needs a delimiter such as ( or ."
+    if name in _TAKES_ARGUMENT and (not rest or rest[0] in _NO_ARGUMENT):
+        return f"'\\{name}' needs an argument"
+    return None
+
+
 def _math_char_problem(latex: str, i: int, depth: int, environments: list) -> Optional[str]:
     ch = latex[i]
+    if ch == "^" and latex[i + 1:i + 2] == "^":
+        return "'^^' (a character code) is not allowed in math"
+    if ch in "^_" and (not latex[i + 1:].lstrip() or latex[i + 1:].lstrip()[0] in _NO_ARGUMENT):
+        return f"'{ch}' needs something to raise or lower"
     if ch == "%":
         return "'%' would start a TeX comment; write '\\%'"
     if ch == "#":
         return "'#' is not allowed in math; write '\\#'"
-    if ch == "^" and latex[i + 1:i + 2] == "^":
-        return "'^^' (a character code) is not allowed in math"
     if ch == "&" and not environments:
         return "'&' belongs inside an environment such as aligned; write '\\&'"
     if math_character(ch) is None:

@@ -36,6 +36,12 @@ HOSTILE_MATH = [
     ("a # b", 2, "'#'"),
     ("\\@x", 0, r"'\@'"),
     ("x \U0001F600", 2, "U+1F600"),
+    (r"\left( x", 8, r"has no '\right'"),
+    (r"x \right)", 2, "without a"),
+    (r"\left x \right)", 0, "needs a delimiter"),
+    (r"\frac", 0, "needs an argument"),
+    ("x^", 1, "needs something to raise"),
+    ("x_}", 1, "needs something to raise"),
     ("x \x1b[2J", 2, "U+001B"),
 ]
 
