@@ -196,4 +196,3 @@ def diff_to_json(diff: Diff) -> str:
     (which can only sit inside strings) as ``\\u`` escapes, safe on a terminal."""
     text = json.dumps(diff.as_dict(), indent=2, ensure_ascii=False)
     return "".join(ch if ch.isprintable() or ch == "\n" else json.dumps(ch)[1:-1] for ch in text)
-

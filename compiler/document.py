@@ -96,7 +96,7 @@ def read_document(path: str, text: str) -> Document:
     if tokens and tokens[0].type == "front_matter":
         front = read_front_matter(path, tokens[0].content, 2)
         body_start = tokens[0].map[1]
-        problems = _math_problems(path, md, front.abstract, lines[:body_start], 1)
+        problems = _math_problems(path, md.parse(front.abstract), lines[:body_start], 1)
     elif lines and _FRONT_MATTER_OPEN.fullmatch(lines[0]):
         raise DocumentError(Location(path, 1, 1),
                             "front matter opened here is never closed with '---'")
@@ -175,8 +175,9 @@ def _add_prose(path: str, parts, md, lines: list[str], start: int, end: int) -> 
     if not any(line.strip() for line in chunk):
         return []
     markdown = "\n".join(chunk)
-    parts.append(ProsePart(markdown, start + 1, _find_refs(md, chunk, start + 1)))
-    return _math_problems(path, md, markdown, chunk, start + 1)
+    tokens = md.parse(markdown)
+    parts.append(ProsePart(markdown, start + 1, _find_refs(tokens, chunk, start + 1)))
+    return _math_problems(path, tokens, chunk, start + 1)
 
 
 def _check_characters(path: str, lines: list[str]) -> None:
@@ -184,17 +185,18 @@ def _check_characters(path: str, lines: list[str]) -> None:
     character), wherever they stand, so that every report can be written."""
     problems = [Problem(Location(path, number, column), character_problem(ch))
                 for number, line in enumerate(lines, 1)
+                if not (line.isascii() and line.isprintable())
                 for column, ch in enumerate(line, 1) if text_character(ch) is None]
     if problems:
         raise DocumentError.of(problems[:MAX_CHARACTER_PROBLEMS])
 
 
-def _math_problems(path: str, md, markdown: str, source: list[str], first_line: int) -> list[Problem]:
+def _math_problems(path: str, tokens, source: list[str], first_line: int) -> list[Problem]:
     """Math that may not reach TeX (``texsafe.math_problem``), located at the
     first source line holding the offending piece (``source`` starts at file
-    line ``first_line`` and holds ``markdown``, perhaps indented or quoted)."""
+    line ``first_line`` and holds the parsed text, perhaps indented or quoted)."""
     problems = []
-    for token in md.parse(markdown):
+    for token in tokens:
         for piece in [token] + list(token.children or ()):
             found = math_problem(piece.content) if piece.type in MATH_TOKENS else None
             if found is None:
@@ -207,7 +209,7 @@ def _math_problems(path: str, md, markdown: str, source: list[str], first_line: 
     return problems
 
 
-def _find_refs(md, chunk: list[str], first_line: int) -> tuple[Ref, ...]:
+def _find_refs(tokens, chunk: list[str], first_line: int) -> tuple[Ref, ...]:
     """Every ``value_ref`` the shared parser finds, at its file position.
 
     An inline token's content is its source lines with container markers and
@@ -216,7 +218,7 @@ def _find_refs(md, chunk: list[str], first_line: int) -> tuple[Ref, ...]:
     """
     refs = []
     claimed: set[tuple[int, int]] = set()
-    for token in md.parse("\n".join(chunk)):
+    for token in tokens:
         if token.map is None:
             continue
         math = [token] if token.type in MATH_TOKENS else [
