@@ -184,6 +184,8 @@ BOMBS = {
     "large symmetric power": ("---\ntruncate: 40\n---\n",
                               "bundle V: complex, rank 64\nlet a = ch(sym(V, 100))", 6,
                               "sym(V, 100) would multiply about 37197269800 term pairs (the limit is"),
+    "report size": ("", "symbol x, y\nlet a = (x + y + 1)^60\nlet b = a + 1", 4,
+                    "the values shown would pass 100000 characters of text (the limit on report size"),
     "sphere of a line": ("", "bundle B: real, rank 1\nfiber S: sphere of B, angular e0", 3,
                          "the sphere bundle of B (rank 1) needs rank 3 or more"),
 }

@@ -29,6 +29,9 @@ from .entries import value_to_data
 
 #: Most points a ``for`` list may expand to (every combination is computed).
 MAX_POINTS = 10_000
+#: Characters of value text a report may show in all (each value is printed
+#: as text, LaTeX and MathML; the largest bundled document shows about 5 000).
+MAX_SHOWN = 100_000
 
 
 @dataclass
@@ -64,6 +67,7 @@ class DocScope(Scope):
         self.class_uses: dict[str, int] = {}
         self.evaluator = Evaluator(self, path)
         self.keys: dict[str, str] = {}
+        self.shown = 0  # characters of value text shown so far (MAX_SHOWN)
         # The declarations so far (symbols, bundles, splits, fibers), the
         # conventions and the truncation: the ring every value lives in.
         self.ring_key = digest("ring", self.ring.truncate, sorted(self.report_conventions().items()),
@@ -103,8 +107,13 @@ class DocScope(Scope):
         self.bindings[name] = Binding(kind, value, line)
         self.keys[name] = key or self.value_key(name, kind, value)
         if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
-            if shown is None:
+            computed = shown is None
+            if computed:
                 shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value)
+            self.shown += len(shown.text)
+            if computed and self.shown > MAX_SHOWN:
+                raise AlgebraError(f"the values shown would pass {MAX_SHOWN} characters of text "
+                                   f"(the limit on report size; '{name}' alone has {len(shown.text)})")
             self.history.setdefault(name, []).append((line, shown))
 
     def bind_missing(self, names, line: int) -> None:
