@@ -13,12 +13,13 @@ extremization), a plain sympy expression.
 """
 from __future__ import annotations
 
+from contextlib import contextmanager
 from fractions import Fraction
 from typing import Callable, Union
 
 import sympy
 
-from . import notation
+from . import calls, expansions, notation
 from .algebra import budget, genera
 from .algebra.radicals import tidy
 from .algebra.genera import BundleValue
@@ -65,6 +66,26 @@ class Evaluator:
     def __init__(self, scope: Scope, path: str):
         self.scope = scope
         self.path = path
+        #: Local names (parameters, sum indices) in force: name -> (kind, value).
+        self.frames: list[dict] = []
+
+    def lookup(self, name: str, line: int, column: int):
+        """A local name first, then the document's."""
+        if self.frames and name in self.frames[-1]:
+            return self.frames[-1][name]
+        return self.scope.lookup(name, line, column)
+
+    @contextmanager
+    def frame(self, names: dict):
+        self.frames.append(names)
+        try:
+            yield
+        finally:
+            self.frames.pop()
+
+    def with_local(self, name: str, value) -> dict:
+        """The frame in force plus one local value."""
+        return {**(self.frames[-1] if self.frames else {}), name: ("value", value)}
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)
@@ -85,7 +106,7 @@ class Evaluator:
         return self.scope.ring.scalar(node.value)
 
     def _eval_Name(self, node: n.Name) -> Value:
-        kind, value = self.scope.lookup(node.id, node.line, node.column)
+        kind, value = self.lookup(node.id, node.line, node.column)
         if kind in ("bundle", "fiber"):
             raise self.fail(node, f"'{node.id}' is a {kind}; use it inside a class such as p1({node.id})"
                             if kind == "bundle" else f"'{node.id}' is a fiber; integrate over it")
@@ -145,10 +166,20 @@ class Evaluator:
     def _eval_Call(self, node: n.Call) -> Value:
         rule = FUNCTIONS.get(node.func)
         if rule is None:
-            if node.func[0] in "pc" and node.func[1:].isdigit():
-                return CLASS_RULES[node.func[0]](self, node, int(node.func[1:]))
+            prefix = node.func.rstrip("0123456789")
+            if prefix in CLASS_RULES and prefix != node.func:
+                return CLASS_RULES[prefix](self, node, int(node.func[len(prefix):]))
             raise self.fail(node, f"'{node.func}' cannot be called here")
         return rule(self, node)
+
+    def _eval_Apply(self, node: n.Apply) -> Value:
+        return calls.apply(self, node)
+
+    def _eval_Sum(self, node: n.Sum) -> Value:
+        return calls.sum_or_prod(self, node)
+
+    def _eval_Expansion(self, node: n.Expansion) -> Value:
+        return expansions.expand(self, node)
 
     # ------------------------------------------------------------ helpers
 
@@ -162,7 +193,7 @@ class Evaluator:
         arg = node.args[0]
         if not isinstance(arg, n.Name):
             raise self.fail(arg, f"{node.func}() takes a bundle name")
-        kind, _ = self.scope.lookup(arg.id, arg.line, arg.column)
+        kind, _ = self.lookup(arg.id, arg.line, arg.column)
         if kind != "bundle":
             raise self.fail(arg, f"{node.func}() takes a bundle, and '{arg.id}' is a {kind}")
         self.scope.note_class_use(arg.id, node.line)
@@ -177,7 +208,7 @@ class Evaluator:
     def construction(self, node):
         """A bundle construction inside ``ch(...)``: names, S, dual, +, *, wedge, sym."""
         if isinstance(node, n.Name):
-            kind, _ = self.scope.lookup(node.id, node.line, node.column)
+            kind, _ = self.lookup(node.id, node.line, node.column)
             if kind != "bundle":
                 raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle")
             self.scope.note_class_use(node.id, node.line)
@@ -202,7 +233,13 @@ def _chern(ev: Evaluator, node: n.Call, i: int) -> Value:
     return ev.scope.bundles.chern(ev.bundle_arg(node), i)
 
 
-CLASS_RULES = {"p": _pontryagin, "c": _chern}
+def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
+    """ch_k(X) = part(ch(X), 2k): a generator for a bundle of symbolic rank."""
+    ev.arity(node, 1)
+    return ev.construction(node.args[0]).ch.part(2 * k)
+
+
+CLASS_RULES = {"p": _pontryagin, "c": _chern, "ch": _ch_component}
 
 
 def _euler(ev, node):

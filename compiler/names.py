@@ -9,12 +9,13 @@ all at once and reported together, before the first computation.
 from __future__ import annotations
 
 import difflib
-from dataclasses import dataclass
+from dataclasses import dataclass, is_dataclass
 from typing import Iterator, Optional
 
 from .errors import DocumentError, Location, Problem
-from .statements import nodes as n
-from .statements.tree import Ident, walk
+from .statements import nodes as n, words
+from .statements.core import did_you_mean
+from .statements.tree import Ident, iter_child_nodes
 
 #: "Did you mean" is searched for this many problems, then no more.
 MAX_SUGGESTIONS = 20
@@ -27,9 +28,17 @@ class Declared:
     """What a name stands for and where it was first bound."""
 
     name: str
-    kind: str  # symbol, convention, bundle, fiber, class, value
+    kind: str  # symbol, convention, bundle, fiber, class, value, function
     line: int
     column: int
+    arity: Optional[int] = None  # of a function
+    origin: str = ""  # the used document that declared it ("" for this one)
+    via: int = 0  # the line of the 'use' that brought it in
+
+    def where(self) -> str:
+        if self.origin:
+            return f"at line {self.line} of {self.origin} (used at line {self.via})"
+        return f"at line {self.line}" if self.line else "as a built-in convention"
 
 
 class NameTable:
@@ -55,24 +64,56 @@ class NameTable:
         return f" (did you mean '{close[0]}'?)" if close else ""
 
     def declare(self, name: str, kind: str, line: int, column: int,
-                rebind: bool = False) -> None:
+                rebind: bool = False, arity: Optional[int] = None) -> None:
         if kind == "convention" and name in self.restatable:
             self.restatable.discard(name)  # a built-in or front-matter default restated
             return
         old = self.names.get(name)
+        word = "define" if kind == "function" else "let"
         if rebind:
             if old is None:
-                self.problem(line, column, f"let! rebinds '{name}', but it is not bound yet; use let")
-            elif old.kind != "value":
-                where = f"declared at line {old.line}" if old.line else "built in"
-                self.problem(line, column, f"let! cannot rebind the {old.kind} '{name}' ({where})")
+                self.problem(line, column, f"{word}! rebinds '{name}', but it is not bound yet; "
+                                           f"use {word}")
+                return
+            if old.kind != kind:
+                where = f"declared {old.where()}" if old.line else "built in"
+                self.problem(line, column, f"{word}! cannot rebind the {old.kind} '{name}' ({where})")
+                return
+        elif old is not None:
+            hint = {"value": "; use let! to rebind it on purpose",
+                    "function": "; use define! to redefine it on purpose"}.get(old.kind, "")
+            self.problem(line, column, f"'{name}' is already bound {old.where()}{hint}")
             return
+        self.names[name] = Declared(name, kind, line, column, arity)
+
+    def local(self, name: Ident, bound: frozenset) -> None:
+        """A name bound inside an expression (a sum index, a parameter):
+        it may not hide a declared name or an enclosing local one."""
+        old = self.names.get(name)
         if old is not None:
-            hint = "; use let! to rebind it on purpose" if old.kind == "value" else ""
-            where = f"at line {old.line}" if old.line else "as a built-in convention"
-            self.problem(line, column, f"'{name}' is already bound {where}{hint}")
-            return
-        self.names[name] = Declared(name, kind, line, column)
+            self.problem(name.line, name.column,
+                         f"the local name '{name}' would hide the {old.kind} '{name}' "
+                         f"declared {old.where()}; choose another name")
+        elif name in bound:
+            self.problem(name.line, name.column, f"the local name '{name}' is already in use here")
+
+    def call(self, name: Ident, count: int) -> None:
+        """A call of a function the document defines."""
+        found = self.names.get(name)
+        if found is None:
+            known = words.BUILTIN_FUNCTIONS | {d.name for d in self.names.values()
+                                                if d.kind == "function"}
+            self.problem(name.line, name.column,
+                         f"'{name}' is not a built-in function or a function defined earlier"
+                         + did_you_mean(name, known))
+        elif found.kind != "function":
+            self.problem(name.line, name.column, f"'{name}' is a {found.kind} "
+                                                 f"(line {found.line}), not a built-in "
+                                                 "function or a function defined earlier")
+        elif count != found.arity:
+            self.problem(name.line, name.column,
+                         f"{name}() takes {found.arity} argument{'s' if found.arity != 1 else ''}"
+                         f" (defined {found.where()}), found {count}")
 
     def use(self, name: str, line: int, column: int, kinds: tuple[str, ...] | None = None,
             role: str = "") -> None:
@@ -85,46 +126,142 @@ class NameTable:
                          f"'{name}' is a {found.kind} (line {found.line}), but a {what} is needed here")
 
 
-def _idents(statement, field: str) -> Iterator[tuple[Ident, object]]:
-    """The identifiers in one field of a statement, each with its parent node."""
-    for item, parent in walk(getattr(statement, field)):
-        if isinstance(item, Ident):
+def _idents(statement, field: str, local: Optional[str] = None) -> Iterator[tuple[Ident, object]]:
+    """The names one field of a statement reads, each with its parent node;
+    names local to the field (sum indices, the parameters in field ``local``)
+    are left out."""
+    for item, parent, bound in _scoped(statement, field, local):
+        if isinstance(item, Ident) and item not in bound and not _binds(item, parent):
             yield item, parent
+
+
+def _binds(item: Ident, parent) -> bool:
+    return isinstance(parent, n.Sum) and item is parent.index
+
+
+def _scoped(statement, field: str, local: Optional[str] = None):
+    """``walk`` that knows which names are local where: each Ident with its
+    parent and the local names in force (a sum's index in its body only).
+    Iterative, like ``walk``, for deep left-leaning sums."""
+    bound = frozenset(getattr(statement, local)) if local else frozenset()
+    stack = [(item, None, bound) for item in reversed(list(_top(getattr(statement, field))))]
+    while stack:
+        item, parent, bound = stack.pop()
+        yield item, parent, bound
+        if isinstance(item, Ident):
+            continue
+        inner = bound | {item.index} if isinstance(item, n.Sum) else bound
+        for child in reversed(list(iter_child_nodes(item))):
+            stack.append((child, item, inner if isinstance(item, n.Sum) and child is item.body
+                          else bound))
+
+
+def _top(root) -> Iterator:
+    """The nodes and Idents of a field (tuples flattened), as ``walk`` reads them."""
+    if isinstance(root, tuple):
+        for item in root:
+            yield from _top(item)
+    elif isinstance(root, Ident) or is_dataclass(root):
+        yield root
 
 
 @dataclass(frozen=True)
 class Use:
     """The names in field ``field`` are read.  A name written on its own (a
     fiber after ``over``, a ``for`` target) must be one of ``kinds``; a name
-    inside an expression must be one of ``expr_kinds`` (None: any kind)."""
+    inside an expression must be one of ``expr_kinds`` (None: any kind but a
+    function); a called name must be a function defined earlier; the names
+    in field ``local`` (a definition's parameters) are local to this one."""
 
     field: str
     kinds: Optional[tuple[str, ...]] = None
     role: str = ""
     expr_kinds: Optional[tuple[str, ...]] = None
+    local: Optional[str] = None
 
     def __call__(self, table: "NameTable", statement) -> None:
-        for name, parent in _idents(statement, self.field):
-            in_expression = isinstance(parent, n.Name)
-            table.use(name, name.line, name.column,
-                      self.expr_kinds if in_expression else self.kinds,
-                      "" if in_expression else self.role)
+        for name, parent, bound in _scoped(statement, self.field, self.local):
+            if isinstance(name, Ident):
+                _ROLES[_role(name, parent, bound)](self, table, name, parent, bound)
+
+    def standalone(self, table, name, parent, bound) -> None:
+        table.use(name, name.line, name.column, self.kinds, self.role)
+
+    def in_expression(self, table, name, parent, bound) -> None:
+        found = table.names.get(name)
+        if found is not None and found.kind == "function":
+            table.problem(name.line, name.column, f"'{name}' is a function: call it with "
+                                                  f"its arguments, as in {name}(...)")
+        else:
+            table.use(name, name.line, name.column, self.expr_kinds)
+
+
+def _role(name: Ident, parent, bound: frozenset) -> str:
+    """What a name does where it stands: binds an index, calls, is expanded in, is read."""
+    if _binds(name, parent):
+        return "index"
+    if isinstance(parent, n.Apply) and name is parent.func:
+        return "local call" if name in bound else "call"
+    if name in bound:
+        return "local"
+    if isinstance(parent, n.Expansion) and name is parent.variable:
+        return "expansion variable"
+    return "expression" if isinstance(parent, n.Name) else "standalone"
+
+
+_ROLES = {
+    "index": lambda use, table, name, parent, bound: table.local(name, bound),
+    "call": lambda use, table, name, parent, bound: table.call(name, len(parent.args)),
+    "local call": lambda use, table, name, parent, bound: table.problem(
+        name.line, name.column, f"'{name}' is a local name, not a function"),
+    "local": lambda use, table, name, parent, bound: None,
+    "expansion variable": lambda use, table, name, parent, bound: table.use(
+        name, name.line, name.column, ("symbol",), "declared symbol to expand in"),
+    "expression": Use.in_expression,
+    "standalone": Use.standalone,
+}
 
 
 @dataclass(frozen=True)
 class Bind:
     """The names in field ``field`` are bound as ``kind``; a problem points
     at the node that binds them (the statement, or a piece such as a fiber
-    body's ``class`` line)."""
+    body's ``class`` line).  A function's arity is the length of field
+    ``arity``."""
 
     field: str
     kind: str
+    arity: Optional[str] = None
 
     def __call__(self, table: "NameTable", statement) -> None:
+        count = len(getattr(statement, self.arity)) if self.arity else None
         for name, parent in _idents(statement, self.field):
             site = parent or statement
             table.declare(name, self.kind, site.line, site.column,
-                          rebind=getattr(statement, "rebind", False))
+                          rebind=getattr(statement, "rebind", False), arity=count)
+
+
+def _parameters(table: "NameTable", s: n.Define) -> None:
+    for name in s.params:
+        table.local(name, frozenset())
+
+
+def _use_document(table: "NameTable", s: n.UseDecl) -> None:
+    """Bring in what a used document declares, at the ``use`` line; the same
+    declaration arriving twice (two documents using a third) is one."""
+    if s.module is None:
+        table.problem(s.line, s.column, f"'{s.path}' was not loaded")
+        return
+    for d in s.module.exports:
+        old = table.names.get(d.name)
+        if old is not None and (old.origin, old.line) == (d.origin, d.line):
+            continue
+        if old is not None:
+            table.problem(s.line, s.column, f"'{d.name}' from line {d.line} of {d.origin} clashes "
+                                            f"with '{d.name}' bound {old.where()}")
+            continue
+        table.names[d.name] = Declared(d.name, d.kind, d.line, d.column, d.arity,
+                                       d.origin, s.line)
 
 
 def _not_into_itself(table: "NameTable", s: n.SplitDecl) -> None:
@@ -152,7 +289,8 @@ RULES: dict[type, tuple] = {
     n.SymbolDecl: (Bind("names", "symbol"),
                    Use("relations", expr_kinds=("symbol",)), _relations_not_evaluated),
     n.ConventionDecl: (Bind("name", "convention"),),
-    n.BundleDecl: (Bind("names", "bundle"),),
+    n.BundleDecl: (Use("rank", ("symbol",), "declared integer symbol for the rank"),
+                   Bind("names", "bundle")),
     n.SplitDecl: (Use("bundle", ("bundle",)), Use("parts", ("bundle",)), _not_into_itself),
     n.SurfaceFiber: (Use("genus"), Bind("name", "fiber"), Bind("tangent", "bundle")),
     n.SphereFiber: (Use("bundle", ("bundle",)), Bind("name", "fiber"), Bind("angular", "class")),
@@ -162,6 +300,8 @@ RULES: dict[type, tuple] = {
                         Use("points"), Bind("tangent", "bundle"), Bind("lines", "bundle"),
                         Use("line_values")),
     n.Let: (Use("expr"), Bind("name", "value")),
+    n.Define: (_parameters, Use("body", local="params"), Bind("name", "function", "params")),
+    n.UseDecl: (_use_document,),
     n.Substitute: (Use("target"), Use("pairs"), *_OUT),
     n.Reduce: (Use("target"), Use("relations"), *_OUT),
     n.Integrate: (Use("target"), Use("fiber", ("fiber",)), *_OUT),
@@ -178,7 +318,7 @@ RULES: dict[type, tuple] = {
 def references(statement) -> list[Ident]:
     """Every name a statement reads, in order: the inputs of its result."""
     found = [name for entry in RULES[type(statement)] if isinstance(entry, Use)
-             for name, _ in _idents(statement, entry.field)]
+             for name, _ in _idents(statement, entry.field, entry.local)]
     return list(dict.fromkeys(found))
 
 

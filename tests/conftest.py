@@ -21,7 +21,7 @@ import pytest
 from hypothesis import HealthCheck, settings
 
 from compiler.engine.cache import KEY_ENV
-from support import DOCUMENTS, anomark as run_anomark
+from support import DERIVATIONS, DOCUMENTS, anomark as run_anomark
 
 settings.register_profile("suite", deadline=None, derandomize=True, database=None,
                           suppress_health_check=[HealthCheck.too_slow])
@@ -70,13 +70,12 @@ class Built:
 
 @pytest.fixture(scope="session")
 def bundled_folder(tmp_path_factory) -> Path:
-    """A folder holding a copy of derivations/ (the documents only), so that
+    """A folder holding a copy of derivations/ (the documents, no cache), so that
     ``derivations/NAME.md`` builds from here as it does from the checkout,
     and the build cache lands here, not in the checkout."""
     work = tmp_path_factory.mktemp("bundled")
-    (work / "derivations").mkdir()
-    for doc in DOCUMENTS:
-        shutil.copyfile(doc, work / "derivations" / doc.name)
+    # with its subfolders: a document may use one below it (preambles/)
+    shutil.copytree(DERIVATIONS, work / "derivations", ignore=shutil.ignore_patterns(".*"))
     return work
 
 

@@ -241,6 +241,10 @@ SPEC_FORMS = {
     "check over an integer range": r"^check\b.*\bfor\s+\w+\s*=\s*-?\d+\s*\.\.",
     "inequality check": r"^check\b.*(<|>|!=)",
     "plot interval": r"^plot\b.*\bover\s+\w+\s+in\b",
+    "use of a document in the folder": r'^use\s+"',
+    "use of a bundled library document": r'^use\s+library\s+"',
+    "sum with symbolic bounds": r"\bsum\(.*=\s*\d+\s*\.\.\s*[A-Za-z]",
+    "series at a point": r"\b(series|leading)\(\s*\w+\s*,\s*\w+\s*=",
 }
 
 _FENCE = re.compile(r"^(`{3,}|~{3,})(.*)$")

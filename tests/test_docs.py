@@ -25,7 +25,7 @@ from compiler.statements.words import BUILTIN_FUNCTIONS, STATEMENT_WORDS
 ROOT = Path(__file__).resolve().parent.parent
 DOCS = ROOT / "docs"
 TOPICS = ("statements", "expressions", "fibers", "checks", "display", "front-matter",
-          "conventions", "command-line", "cache")
+          "conventions", "command-line", "cache", "preambles")
 LOCATED = re.compile(r"^\S+:\d+:\d+: ", re.M)
 
 

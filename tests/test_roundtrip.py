@@ -8,6 +8,8 @@ but denotes the very value that was computed.
 """
 from __future__ import annotations
 
+import shutil
+
 import pytest
 
 from support import DOCUMENTS, SETTLED, compile_text
@@ -20,7 +22,9 @@ def test_value_texts_read_back_to_the_same_values(path, bundled, tmp_path):
     assert values, "a bundled derivation binds values"
     claims = "\n".join(f"check {name} == {value['text']}" for name, value in values.items())
     text = path.read_text(encoding="utf-8") + "\n\n```derive\n" + claims + "\n```\n"
-    again = compile_text(tmp_path / path.name, text)
+    # in a copy of the whole folder, for the documents this one uses
+    folder = shutil.copytree(path.parent, tmp_path / "d", ignore=shutil.ignore_patterns(".*"))
+    again = compile_text(folder / path.name, text)
     readback = again.steps[len(record["steps"]):]
     assert len(readback) == len(values)
     for step in readback:

@@ -10,13 +10,16 @@ again.  Conventions (spec, "Classes, normal form, truncation"):
 * real rank 2 (an oriented plane): only e, and p1 = e^2;
 * real rank 2n+1: p1..pn, no Euler class (it is 2-torsion, zero rationally);
 * complex rank n: c1..cn; p and e are those of the underlying real bundle,
-  sum (-1)^k p_k = c(V) c(dual V) and e = c_n (Milnor–Stasheff, Cor. 15.5).
+  sum (-1)^k p_k = c(V) c(dual V) and e = c_n (Milnor–Stasheff, Cor. 15.5);
+* rank a declared integer symbol N: generators are the ch_k and every class
+  comes from them (``symbolic_rank``); what needs a numeric rank is refused.
 """
 from __future__ import annotations
 
 from dataclasses import dataclass, field
 from typing import Sequence, Union
 
+from . import symbolic_rank
 from .graded import AlgebraError, Element, Ring
 
 REAL, COMPLEX = "real", "complex"
@@ -42,9 +45,12 @@ class Bundle:
     parts: tuple | None = None
     used: bool = False
     keys: tuple[str, ...] = field(default=())
+    symbolic: symbolic_rank.SymbolicRank | None = None   # set when the rank is a symbol
 
     @property
     def real_rank(self) -> int:
+        if self.symbolic is not None:
+            raise symbolic_rank.refuse(self.symbolic, f"the real rank of {self.name}")
         return self.rank if self.kind == REAL else 2 * self.rank
 
 
@@ -73,6 +79,27 @@ class BundleTable:
         self._bundles[name] = b
         b.keys = tuple(self._register(b))
         return b
+
+    def declare_symbolic(self, name: str, kind: str, symbol, *, group: int = 0) -> Bundle:
+        """Declare a real or complex bundle whose rank is the declared integer symbol."""
+        from ..notation import name_latex
+        if name in self._bundles:
+            raise AlgebraError(f"bundle {name} is already declared")
+        if kind not in (REAL, COMPLEX):
+            raise AlgebraError(f"a bundle of symbolic rank is real or complex, not {kind}")
+        b = Bundle(name, kind, 0, group, symbolic=symbolic_rank.SymbolicRank(name, kind == REAL, symbol))
+        self._bundles[name] = b
+        b.keys = tuple(symbolic_rank.register(self.ring, b.symbolic, name_latex(name), group))
+        return b
+
+    def character(self, name: str) -> Element:
+        """ch of a bundle of symbolic rank (of its complexification if real)."""
+        b = self.get(name)
+        self._touch(b)
+        return symbolic_rank.character(self.ring, b.symbolic, b.keys)
+
+    def is_symbolic(self, name: str) -> bool:
+        return self.get(name).symbolic is not None
 
     def _register(self, b: Bundle) -> list[str]:
         from ..notation import name_latex   # here, so that importing the algebra needs no sympy
@@ -106,6 +133,9 @@ class BundleTable:
         b = self.get(name)
         if b.parts is not None:
             raise AlgebraError(f"{name} is already split")
+        for whole in [b] + [self.get(p) for p in parts if isinstance(p, str)]:
+            if whole.symbolic is not None:
+                raise symbolic_rank.refuse(whole.symbolic, "a split")
         if b.used:
             raise AlgebraError(f"{name} cannot be split: its classes are already in use")
         if not parts:
@@ -158,7 +188,10 @@ class BundleTable:
 
     def rank(self, name: str) -> int:
         """Rank in the bundle's own kind (complex rank for complex bundles)."""
-        return self.get(name).rank
+        b = self.get(name)
+        if b.symbolic is not None:
+            raise symbolic_rank.refuse(b.symbolic, "this step")
+        return b.rank
 
     def real_rank(self, name: str) -> int:
         return self.get(name).real_rank
@@ -175,9 +208,11 @@ class BundleTable:
     # -------------------------------------------------------------- classes
     def pontryagin(self, name: str, i: int) -> Element:
         b = self.get(name)
-        m = b.real_rank // 2
         if isinstance(i, bool) or not isinstance(i, int) or i < 1:
             raise AlgebraError(f"Pontryagin classes are numbered from 1, got p{i}({name})")
+        if b.symbolic is not None:   # every p_i exists as a polynomial in the ch (module docstring)
+            return self.total_pontryagin(name).part(4 * i)
+        m = b.real_rank // 2
         if i > m:
             what = f"real rank {b.rank}" if b.kind == REAL else f"complex rank {b.rank}"
             have = f"its Pontryagin classes are p1..p{m}" if m else "it has no Pontryagin classes"
@@ -187,6 +222,8 @@ class BundleTable:
     def total_pontryagin(self, name: str) -> Element:
         b = self.get(name)
         ring = self.ring
+        if b.symbolic is not None:
+            return symbolic_rank.total_pontryagin(self.character(name), b.kind == REAL)
         if b.kind == COMPLEX:
             c = self.total_chern(name)
             cbar = self._conjugate(c)
@@ -211,6 +248,8 @@ class BundleTable:
 
     def euler(self, name: str) -> Element:
         b = self.get(name)
+        if b.symbolic is not None:
+            raise symbolic_rank.refuse(b.symbolic, f"e({name}), the top class,")
         if b.kind == COMPLEX:
             return self.chern(name, b.rank)
         if b.rank % 2:
@@ -244,7 +283,7 @@ class BundleTable:
             raise AlgebraError(f"c{i}({name}) does not exist: {name} is a real bundle")
         if isinstance(i, bool) or not isinstance(i, int) or i < 1:
             raise AlgebraError(f"Chern classes are numbered from 1, got c{i}({name})")
-        if i > b.rank:
+        if b.symbolic is None and i > b.rank:
             raise AlgebraError(f"c{i}({name}) does not exist: {name} has complex rank {b.rank}, "
                                f"so its Chern classes are c1..c{b.rank}")
         return self.total_chern(name).part(2 * i)
@@ -263,6 +302,8 @@ class BundleTable:
         if b.kind != COMPLEX:
             raise AlgebraError(f"c({name}) does not exist: {name} is a real bundle")
         ring = self.ring
+        if b.symbolic is not None:
+            return symbolic_rank.total_chern(self.character(name))
         if b.parts is not None:
             return self._over_parts(b, self.total_chern)
         self._touch(b)
@@ -273,7 +314,7 @@ class BundleTable:
 
     def chern_classes(self, name: str) -> list[Element]:
         total = self.total_chern(name)
-        return [total.part(2 * k) for k in range(1, self.get(name).rank + 1)]
+        return [total.part(2 * k) for k in range(1, self.rank(name) + 1)]
 
     @staticmethod
     def _conjugate(x: Element) -> Element:

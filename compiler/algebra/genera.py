@@ -25,7 +25,7 @@ from fractions import Fraction
 from functools import lru_cache
 from math import comb, factorial
 
-from . import budget
+from . import budget, symbolic_rank
 from .bundles import COMPLEX, BundleTable
 from .graded import AlgebraError, Element
 
@@ -99,14 +99,21 @@ def _power_sums(n: int) -> list[dict]:
 
 
 @lru_cache(maxsize=None)
-def multiplicative_sequence(series: str, n: int) -> tuple[Fraction, tuple[dict, ...]]:
-    """(q_0, [K_0, ..., K_n]): prod_i Q(z_i) = q_0^m * sum_j K_j(sigma) for m roots."""
+def log_coefficients(series: str, n: int) -> tuple[Fraction, tuple[Fraction, ...]]:
+    """(q_0, [0, l_1, ..., l_n]) with log(Q(y)/q_0) = sum_k l_k y^k."""
     q = _series(series, n)
     q0 = q[0]
     qt = [c / q0 for c in q]
-    log = [Fraction(0)] * (n + 1)    # log of the normalised series: k l_k = k q_k - sum j l_j q_{k-j}
+    log = [Fraction(0)] * (n + 1)    # k l_k = k q_k - sum j l_j q_{k-j}
     for k in range(1, n + 1):
         log[k] = (k * qt[k] - sum(j * log[j] * qt[k - j] for j in range(1, k))) / k
+    return q0, tuple(log)
+
+
+@lru_cache(maxsize=None)
+def multiplicative_sequence(series: str, n: int) -> tuple[Fraction, tuple[dict, ...]]:
+    """(q_0, [K_0, ..., K_n]): prod_i Q(z_i) = q_0^m * sum_j K_j(sigma) for m roots."""
+    q0, log = log_coefficients(series, n)
     s = _power_sums(n)
     # exp of y = sum_k log_k s_k, one weight at a time: with y_k = log_k s_k of
     # weight k, the weight-w part of exp(y) is (1/w) sum_k k y_k K_{w-k}, which
@@ -152,22 +159,33 @@ def _genus(table: BundleTable, series: str, sigmas: list[Element], step: int) ->
     return _evaluate(parts, sigmas, ring.one()) * q0 ** len(sigmas)
 
 
+def _genus_of(table: BundleTable, series: str, name: str, squares: bool) -> Element:
+    """The genus of a declared bundle: through its classes, or through its ch
+    components when its rank is symbolic (Q(0) = 1 for every series here)."""
+    if table.is_symbolic(name):
+        sums = symbolic_rank.power_sums(table.character(name), table.kind(name) != COMPLEX, squares)
+        return symbolic_rank.multiplicative(log_coefficients(series, len(sums))[1], sums)
+    if squares:
+        return _genus(table, series, table.pontryagin_classes(name), 4)
+    return _genus(table, series, table.chern_classes(name), 2)
+
+
 # ------------------------------------------------------------------ genera
 def ahat(table: BundleTable, name: str) -> Element:
     """Â-genus of a real bundle (a complex one counts as its underlying real bundle)."""
-    return _genus(table, "Ahat", table.pontryagin_classes(name), 4)
+    return _genus_of(table, "Ahat", name, squares=True)
 
 
 def hirzebruch_l(table: BundleTable, name: str) -> Element:
     """Hirzebruch L-genus of a real bundle."""
-    return _genus(table, "L", table.pontryagin_classes(name), 4)
+    return _genus_of(table, "L", name, squares=True)
 
 
 def todd(table: BundleTable, name: str) -> Element:
     """Todd class of a complex bundle."""
     if table.kind(name) != COMPLEX:
         raise AlgebraError(f"td({name}) does not exist: {name} is a real bundle")
-    return _genus(table, "todd", table.chern_classes(name), 2)
+    return _genus_of(table, "todd", name, squares=False)
 
 
 def _newton_power_sums(sigmas: list[Element], n: int, one: Element) -> list[Element]:
@@ -186,9 +204,10 @@ def _newton_power_sums(sigmas: list[Element], n: int, one: Element) -> list[Elem
 # --------------------------------------------------------- bundle values
 @dataclass(frozen=True)
 class BundleValue:
-    """A (complex) bundle built by constructions, known through rank and Chern character."""
+    """A (complex) bundle built by constructions, known through rank and Chern
+    character; the rank is None when it is symbolic (ch_0 then carries it)."""
 
-    rank: int
+    rank: int | None
     ch: Element
 
     @classmethod
@@ -196,6 +215,8 @@ class BundleValue:
         """A declared bundle; a real one is complexified."""
         ring = table.ring
         one = ring.one()
+        if table.is_symbolic(name):
+            return cls(None, table.character(name))
         if table.kind(name) == COMPLEX:
             rank = table.rank(name)
             s = _newton_power_sums(table.chern_classes(name), ring.truncate // 2, one)
@@ -214,14 +235,16 @@ class BundleValue:
     @classmethod
     def spinor(cls, table: BundleTable, name: str) -> "BundleValue":
         """The Dirac spinor bundle S(B): ch = prod over roots of 2 cosh(x_i/2)."""
+        if table.is_symbolic(name):
+            raise symbolic_rank.refuse(table.get(name).symbolic, f"S({name}), of rank 2^(N/2),")
         sigmas = table.pontryagin_classes(name)
         return cls(2 ** len(sigmas), _genus(table, "spinor", sigmas, 4))
 
     def __add__(self, other: "BundleValue") -> "BundleValue":
-        return BundleValue(self.rank + other.rank, self.ch + other.ch)
+        return BundleValue(_known(self.rank, other.rank, int.__add__), self.ch + other.ch)
 
     def __mul__(self, other: "BundleValue") -> "BundleValue":
-        return BundleValue(self.rank * other.rank, self.ch * other.ch)
+        return BundleValue(_known(self.rank, other.rank, int.__mul__), self.ch * other.ch)
 
     def _graded_scale(self, factor) -> Element:
         """Multiply the degree-2k part of ch by factor(k)."""
@@ -251,7 +274,7 @@ class BundleValue:
         if isinstance(k, bool) or not isinstance(k, int) or k < 0:
             raise AlgebraError(f"{what}(V, k) needs a non-negative integer k, got {k!r}")
         one = self.ch.ring.one()
-        if alternating and k > self.rank:
+        if alternating and self.rank is not None and k > self.rank:
             return BundleValue(0, one.ring.zero())
         if k > MAX_POWER:
             raise AlgebraError(f"{what}(V, {k}): k is limited to {MAX_POWER}")
@@ -267,8 +290,15 @@ class BundleValue:
                 term = psi[j] * powers[m - j]
                 acc = acc - term if alternating and j % 2 == 0 else acc + term
             powers.append(acc / m)
+        if self.rank is None:
+            return BundleValue(None, powers[k])
         rank = comb(self.rank, k) if alternating else comb(self.rank + k - 1, k)
         return BundleValue(rank, powers[k])
+
+
+def _known(a: int | None, b: int | None, op) -> int | None:
+    """A rank from two ranks, None (symbolic) if either is."""
+    return None if a is None or b is None else op(a, b)
 
 
 def chern_character(table: BundleTable, name: str) -> Element:

@@ -20,7 +20,7 @@ from contextlib import contextmanager
 from dataclasses import dataclass, field
 from typing import Callable, Optional
 
-from .. import __version__, names as names_pass
+from .. import __version__, names as names_pass, preambles
 from ..algebra import budget, fibers as fibers_mod
 from ..algebra.extremize import ExtremizeError
 from ..algebra.graded import AlgebraError
@@ -113,6 +113,14 @@ def _prepare(path: str, text: str, options: BuildOptions):
     """Parse, resolve names and set up the run: everything before the first step."""
     document, statements_by_block = parse(path, text)
     statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
+    try:
+        loaded = iter(preambles.load(path, statements, parse))
+    except DocumentError as err:
+        err.warnings = document.warnings
+        raise
+    statements_by_block = {i: [next(loaded) for _ in statements_by_block[i]]
+                           for i in sorted(statements_by_block)}
+    statements = [s for i in sorted(statements_by_block) for s in statements_by_block[i]]
     refs = [(r.name, r.line, r.column) for part in document.parts
             if isinstance(part, ProsePart) for r in part.refs]
     front_conventions = [(c.name, c.line, c.column) for c in document.front.conventions]
@@ -131,7 +139,7 @@ class Run:
         self.path = path
         self.document = document
         self.options = options
-        self.scope = DocScope(path, document, statements, options.overrides)
+        self.scope = DocScope(path, document, list(preambles.flatten(statements)), options.overrides)
         self.cache = StepCache(path, options.use_cache)
         self.layer = CacheLayer(self.scope, self.cache, options.recompute)
         self.step_limit = _limit_name("step", options.time_limit, "--time-limit")
@@ -157,7 +165,7 @@ class Run:
                 continue
             for statement in statements_by_block.get(i, []):
                 index += 1
-                step = self.run_step(index, statement)
+                step = self.run_statement(index, statement)
                 parts.append(step)
                 if self.options.progress:
                     self.options.progress(step)
@@ -181,6 +189,25 @@ class Run:
         """Each @{NAME}: the binding in force at that line, else the first one."""
         return {ref.name: _at(self.scope.history[ref.name], ref.line)
                 for ref in part.refs if self.scope.history.get(ref.name)}
+
+    def run_statement(self, index: int, s) -> Step:
+        """One statement; a ``use`` first runs its document's statements
+        (once per build), each a step of its own that the ``use`` step shows."""
+        if isinstance(s, n.UseDecl) and s.module.key not in self.scope.used:
+            self.scope.used[s.module.key] = self._run_used(s.module)
+        return self.run_step(index, s)
+
+    def _run_used(self, module) -> list[Step]:
+        """The used document's steps, with their problems kept apart: the
+        ``use`` step reports them, at its own line."""
+        kept = self.problems, self.roots, self.follow_ons, self.counted, self.path
+        self.problems, self.roots, self.follow_ons, self.counted = [], {}, {}, set()
+        self.path = module.display
+        try:
+            with self.scope.reading(module.display):
+                return [self.run_statement(0, inner) for inner in module.statements]
+        finally:
+            self.problems, self.roots, self.follow_ons, self.counted, self.path = kept
 
     def run_step(self, index: int, s) -> Step:
         scope = self.scope

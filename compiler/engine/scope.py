@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import itertools
 import math
+from contextlib import contextmanager
 from dataclasses import dataclass
 from fractions import Fraction
 from pathlib import Path
@@ -36,7 +37,7 @@ MAX_SHOWN = 100_000
 
 @dataclass
 class Binding:
-    kind: str  # symbol, convention, bundle, fiber, class, value
+    kind: str  # symbol, convention, bundle, fiber, class, value, function
     value: object
     line: int
 
@@ -46,6 +47,11 @@ class DocScope(Scope):
 
     def __init__(self, path: str, document, statements, overrides: dict):
         self.path = path
+        self.top_path = path
+        #: Used documents (by key): the steps of their statements, and those
+        #: whose ``use`` step has shown them.
+        self.used: dict[str, list] = {}
+        self.reported: set[str] = set()
         self.conventions = _conventions(path, document, statements, overrides)
         self.specs: dict[sympy.Symbol, SymbolSpec] = {}
         self.symbols_by_name: dict[str, SymbolSpec] = {}
@@ -142,6 +148,16 @@ class DocScope(Scope):
 
     def evaluate(self, expr) -> Value:
         return self.evaluator.evaluate(expr)
+
+    @contextmanager
+    def reading(self, path: str):
+        """While a used document's statements run, problems point into it."""
+        outer = self.path
+        self.path = self.evaluator.path = path
+        try:
+            yield
+        finally:
+            self.path = self.evaluator.path = outer
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)

@@ -227,6 +227,8 @@ def _prefix(c: Cursor) -> n.Expr:
         return n.Unary(token.text, expr(c, _UNARY), token.line, token.column)
     if c.at("["):
         c.fail(token, "square brackets are not used in expressions; use parentheses")
+    if token.kind == "string":
+        c.fail(token, "strings are not allowed in expressions (only 'use' takes one)")
     c.expected("an expression")
 
 
@@ -235,19 +237,59 @@ def _name_or_call(c: Cursor) -> n.Expr:
     name = c.name()
     if not c.at("("):
         return n.Name(name, name.line, name.column)
-    if not words.is_builtin_function(name):
-        c.fail(token, f"'{name}' is not a built-in function"
-               + did_you_mean(name, words.BUILTIN_FUNCTIONS))
+    form = SPECIAL_FORMS.get(name)
+    if form is not None:
+        c.next()
+        node = form(c, name)
+        c.expect(")")
+        return node
     c.next()
     args = [expr(c)]
     while c.accept(","):
         args.append(expr(c))
     c.expect(")")
+    if not words.is_builtin_function(name):
+        # A function the document defines: the name pass checks that it
+        # exists and takes this many arguments.
+        return n.Apply(name, tuple(args), token.line, token.column)
     wanted = arity(name)
     if len(args) != wanted:
         c.fail(token, f"{name}() takes {wanted} argument"
                       f"{'s' if wanted != 1 else ''}, found {len(args)}")
     return n.Call(str(name), tuple(args), token.line, token.column)
+
+
+#: Most terms a ``series`` may ask for.
+MAX_SERIES_TERMS = 20
+
+
+def _sum(c: Cursor, word: Ident) -> n.Sum:
+    """``sum(body, k = low..high)`` (or ``prod``), after the ``(``."""
+    body = expr(c)
+    c.expect(",")
+    index = c.name("the index of the range, as in k = 1..N")
+    c.expect("=")
+    low = expr(c)
+    c.expect("..")
+    high = expr(c)
+    return n.Sum(str(word), body, index, low, high, word.line, word.column)
+
+
+def _expansion(c: Cursor, word: Ident) -> n.Expansion:
+    """``leading(f, N)``, ``series(f, N, 3)``; ``N = 0`` expands at a point."""
+    target = expr(c)
+    c.expect(",")
+    variable = c.name("the symbol to expand in")
+    point = c.rational() if c.accept("=") else None
+    terms = 1
+    if word == "series":
+        c.expect(",")
+        terms = c.positive_integer("the number of terms", MAX_SERIES_TERMS)
+    return n.Expansion(str(word), target, variable, point, terms, word.line, word.column)
+
+
+#: Built-ins with a syntax of their own inside the parentheses.
+SPECIAL_FORMS = {"sum": _sum, "prod": _sum, "leading": _expansion, "series": _expansion}
 
 
 def _exponent(c: Cursor) -> n.Num:

@@ -27,9 +27,12 @@ MAX_DIGITS = 4000
 _NAME = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
 _DIGITS = re.compile(r"[0-9]+")
 _DECIMAL = re.compile(r"[0-9]*\.[0-9]+|[0-9]+\.(?!\.)[0-9]*")
+#: A double-quoted string (only ``use`` reads one): no escapes, one line.
+_STRING = re.compile(r'"([^"\\]*)"')
+MAX_STRING = 500
 _SPECIAL = {
     "'": "strings are not allowed",
-    '"': "strings are not allowed",
+    '"': "strings are not allowed (a string is closed on its line, without backslashes)",
     ";": "';' is not allowed: write one statement per line",
     ".": "'.' is not allowed here (no attribute access; ranges are written a..b)",
 }
@@ -37,9 +40,10 @@ _SPECIAL = {
 
 @dataclass(frozen=True)
 class Token:
-    """``kind`` is ``name``, ``int``, ``op``, ``error`` or ``end``.
+    """``kind`` is ``name``, ``int``, ``op``, ``string``, ``error`` or ``end``.
 
-    For ``error`` tokens ``text`` is the message.  ``end_column`` is the
+    For ``error`` tokens ``text`` is the message; for ``string`` tokens the
+    text between the quotes.  ``end_column`` is the
     column just past the token, so "expected ..." can point after it.
     """
 
@@ -145,6 +149,15 @@ def tokenize_line(text: str, line: int, offset: int = 0) -> tuple[list[Token], b
             else:
                 tokens.append(Token("int", digits, line, col, end + 1))
             pos = end
+            continue
+        match = _STRING.match(code, pos)
+        if match:
+            if len(match.group(1)) > MAX_STRING:
+                tokens.append(Token("error", f"string too long (more than {MAX_STRING} characters)",
+                                    line, col, match.end() + 1))
+            else:
+                tokens.append(Token("string", match.group(1), line, col, match.end() + 1))
+            pos = match.end()
             continue
         op = next((op for op in OPERATORS if code.startswith(op, pos)), None)
         if op is not None:

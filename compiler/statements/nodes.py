@@ -9,7 +9,7 @@ package never imports sympy.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Optional, Union
 
@@ -68,7 +68,44 @@ class Binary:
     column: int
 
 
-Expr = Union[Num, Name, Call, Unary, Binary]
+@dataclass(frozen=True)
+class Apply:
+    """A call of a function the document defined: ``a_chiral(r)``."""
+
+    func: Ident
+    args: tuple["Expr", ...]
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class Sum:
+    """``sum(body, k = low..high)`` or ``prod(...)``; ``index`` is local to ``body``."""
+
+    op: str  # "sum" or "prod"
+    body: "Expr"
+    index: Ident
+    low: "Expr"
+    high: "Expr"
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
+class Expansion:
+    """``leading(f, N)``, ``series(f, N, 3)``: the first ``terms`` nonzero terms
+    of ``f`` in ``variable`` at infinity (``point`` None) or at ``x = point``."""
+
+    op: str  # "leading" or "series"
+    target: "Expr"
+    variable: Ident
+    point: Optional[Fraction]
+    terms: int
+    line: int
+    column: int
+
+
+Expr = Union[Num, Name, Call, Unary, Binary, Apply, Sum, Expansion]
 
 
 @dataclass(frozen=True)
@@ -231,7 +268,7 @@ class ConventionDecl(_Statement):
 class BundleDecl(_Statement):
     names: tuple[Ident, ...]
     bundle_kind: str  # "real", "complex" or "line"
-    rank: Optional[int]  # None for line bundles
+    rank: Union[int, Ident, None]  # None for line bundles; an Ident: a declared integer symbol
     kind = "bundle"
 
 
@@ -298,6 +335,28 @@ class Let(_Statement):
     expr: Expr
     rebind: bool
     kind = "let"
+
+
+@dataclass(frozen=True)
+class Define(_Statement):
+    """``define f(x, y) = body``: ``params`` are local to ``body``."""
+
+    name: Ident
+    params: tuple[Ident, ...]
+    body: Expr
+    rebind: bool
+    kind = "define"
+
+
+@dataclass(frozen=True)
+class UseDecl(_Statement):
+    """``use "common.md"`` (in this folder or below) or ``use library "x.md"``."""
+
+    path: str
+    library: bool
+    #: The loaded document (a ``preambles.Module``, not a node), set after parsing.
+    module: object = field(default=None, compare=False, repr=False)
+    kind = "use"
 
 
 @dataclass(frozen=True)
@@ -398,6 +457,6 @@ class Plot(_Statement):
 
 Statement = Union[
     SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
-    SphereFiber, GeneralFiber, FixedPointFiber, Let, Substitute, Reduce, Integrate,
-    Coefficients, Extremize, Check, Show, Table, Plot,
+    SphereFiber, GeneralFiber, FixedPointFiber, Let, Define, UseDecl, Substitute, Reduce,
+    Integrate, Coefficients, Extremize, Check, Show, Table, Plot,
 ]

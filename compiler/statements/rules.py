@@ -7,12 +7,13 @@ is adding a rule here (and its node, and its entry in ``names.RULES``).
 from __future__ import annotations
 
 from fractions import Fraction
-from typing import Optional
+from typing import Optional, Union
 
-from compiler.statements import nodes as n
+from compiler.statements import nodes as n, words
 from compiler.statements.core import Cursor, did_you_mean, equations, expr, expr_list
 from compiler.statements.fibers import fiber_rule
 from compiler.statements.lexer import Token
+from compiler.statements.tree import Ident
 from compiler.statements.symbols import symbol_rule
 
 CHECK_OPS = ("==", "!=", "<", "<=", ">", ">=")
@@ -32,7 +33,7 @@ def _bundle(c: Cursor) -> n.BundleDecl:
     names = c.name_list("a bundle name")
     c.expect(":")
     kind: Optional[Token] = None
-    rank: Optional[int] = None
+    rank: Union[int, Ident, None] = None
     rank_token: Optional[Token] = None
     while True:
         token = c.peek()
@@ -40,7 +41,8 @@ def _bundle(c: Cursor) -> n.BundleDecl:
             if rank_token is not None:
                 c.fail(token, "'rank' given twice")
             rank_token = c.next()
-            rank = c.positive_integer("the rank", MAX_RANK)
+            rank = (c.name("the rank symbol") if c.peek().kind == "name"
+                    else c.positive_integer("the rank", MAX_RANK))
         elif token.kind == "name" and token.text in BUNDLE_KINDS:
             if kind is not None:
                 c.fail(token, "the bundle kind is given twice")
@@ -81,17 +83,47 @@ def _split_part(c: Cursor) -> n.SplitPart:
     return n.SplitPart(name, None, name.line, name.column)
 
 
+def _bang(c: Cursor) -> bool:
+    """``let!`` / ``define!``: the ``!`` glued to the word rebinds."""
+    word = c.tokens[0]
+    if not c.at("!"):
+        return False
+    bang = c.next()
+    if bang.column != word.end_column:
+        c.fail(bang, f"write '{word.text}!' without a space")
+    return True
+
+
 def _let(c: Cursor) -> n.Let:
-    let = c.tokens[0]
-    rebind = False
-    if c.at("!"):
-        bang = c.next()
-        if bang.column != let.end_column:
-            c.fail(bang, "write 'let!' without a space")
-        rebind = True
+    rebind = _bang(c)
     name = c.name("the name to bind")
     c.expect("=")
     return n.Let(name, expr(c), rebind, **c.span)
+
+
+def _define(c: Cursor) -> n.Define:
+    rebind = _bang(c)
+    name = c.name("the name of the function")
+    if words.is_builtin_function(name):
+        c.fail(name, f"'{name}' is a built-in function and cannot be redefined")
+    c.expect("(")
+    params = c.name_list("a parameter name")
+    c.expect(")")
+    c.expect("=")
+    return n.Define(name, tuple(params), expr(c), rebind, **c.span)
+
+
+def _use(c: Cursor) -> n.UseDecl:
+    library = c.at_word("library")
+    if library:
+        c.next()
+    token = c.peek()
+    if token.kind != "string":
+        c.expected('a document path in double quotes, as in use "common.md"')
+    c.next()
+    if not token.text.endswith(".md"):
+        c.fail(token, f"'{token.text}' is not a Markdown document (a path ending in .md)")
+    return n.UseDecl(token.text, library, **c.span)
 
 
 def _substitute(c: Cursor) -> n.Substitute:
@@ -268,6 +300,8 @@ RULES = {
     "split": _split,
     "fiber": fiber_rule,
     "let": _let,
+    "define": _define,
+    "use": _use,
     "substitute": _substitute,
     "reduce": _reduce,
     "integrate": _integrate,

@@ -12,18 +12,18 @@ import re
 STATEMENT_WORDS = frozenset({
     "symbol", "convention", "bundle", "split", "fiber", "let", "substitute",
     "reduce", "integrate", "coefficients", "maximize", "minimize",
-    "extremize", "check", "show", "table", "plot",
+    "extremize", "check", "show", "table", "plot", "define", "use",
 })
 
 #: Built-in functions; a name is a function only in call position.
 BUILTIN_FUNCTIONS = frozenset({
     "p", "c", "e", "Ahat", "L", "td", "ch", "S", "dual", "wedge", "sym",
-    "part", "degree", "sqrt", "trivial",
+    "part", "degree", "sqrt", "trivial", "sum", "prod", "leading", "series",
 })
 
-_INDEXED_CLASS = re.compile(r"[pc][1-9][0-9]*")
+_INDEXED_CLASS = re.compile(r"(?:[pc]|ch)[1-9][0-9]*")
 
 
 def is_builtin_function(name: str) -> bool:
-    """True for ``p``, ``ch``, ... and the indexed classes ``p1``, ``c12``."""
+    """True for ``p``, ``ch``, ... and the indexed classes ``p1``, ``c12``, ``ch3``."""
     return name in BUILTIN_FUNCTIONS or _INDEXED_CLASS.fullmatch(name) is not None

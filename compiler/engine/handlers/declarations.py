@@ -1,15 +1,16 @@
-"""Declaration handlers: symbols, conventions, bundles, splits and fibers.
+"""Declaration handlers: symbols, conventions, bundles, splits, fibers, functions and uses.
 
 They build the ring every later value lives in, so they always run (never
 from the cache); each is ``(scope, statement, step) -> None``.
 """
 from __future__ import annotations
 
-from ... import notation
+from ... import names as names_pass, notation
 from ...algebra import bundles as bundles_mod, fibers as fibers_mod, fixed_points
 from ...algebra.localization import FixedPoint
 from ...algebra.graded import Element
-from ...expressions import as_expr
+from ...calls import Function
+from ...expressions import Missing, as_expr
 from ...results import CheckResult, Step
 from ...statements import nodes as n
 from ..cache import digest
@@ -32,11 +33,28 @@ def _convention(scope, s: n.ConventionDecl, step: Step) -> None:
 
 
 def _bundle(scope, s: n.BundleDecl, step: Step) -> None:
+    if isinstance(s.rank, str):
+        return _symbolic_bundle(scope, s, step)
     for name in s.names:
         scope.bundles.declare(name, s.bundle_kind, s.rank)
         scope.bind(name, "bundle", name, s.line)
     rank = f"rank {s.rank}" if s.rank is not None else "rank 1"
     step.summary = f"{', '.join(s.names)}: {s.bundle_kind} bundle{'s' if len(s.names) > 1 else ''}, {rank}"
+
+
+def _symbolic_bundle(scope, s: n.BundleDecl, step: Step) -> None:
+    """``bundle V: complex, rank N``: the rank symbol must be a nonnegative integer."""
+    spec = scope.symbols_by_name[s.rank]
+    nonnegative = spec.lower is not None and (spec.lower >= 0 or (spec.lower_strict and spec.lower > -1))
+    if not (spec.integer and nonnegative):
+        raise scope.fail(s.rank, f"the rank {s.rank} must be a symbol declared integer and "
+                            f"nonnegative, as in 'symbol {s.rank}: integer, positive'")
+    for name in s.names:
+        scope.bundles.declare_symbolic(name, s.bundle_kind, spec.symbol)
+        scope.bind(name, "bundle", name, s.line)
+    plural = "s" if len(s.names) > 1 else ""
+    step.summary = (f"{', '.join(s.names)}: {s.bundle_kind} bundle{plural}, rank {s.rank}; "
+                    "classes from the Chern character ch_k")
 
 
 def _split(scope, s: n.SplitDecl, step: Step) -> None:
@@ -186,8 +204,50 @@ def _restrictions(scope, name: str, values) -> dict:
     return out
 
 
+def _define(scope, s: n.Define, step: Step) -> None:
+    """The body's other names keep the values they have now (a later
+    ``let!`` does not change the function); the report shows the definition."""
+    captured = {name: scope.lookup(name, name.line, name.column) for name in names_pass.references(s)}
+    where = f"at line {s.line}" + ("" if scope.path == scope.top_path else f" of {scope.path}")
+    scope.bind(s.name, "function", Function(s.name, tuple(map(str, s.params)), s.body, captured, where),
+               s.line)
+    step.summary = s.source.split(None, 1)[1].lstrip("!").strip()
+
+
+def _use(scope, s: n.UseDecl, step: Step) -> None:
+    """Show what a used document brought in.  The run has already run its
+    statements (``Run.run_statement``); their checks become this step's and
+    their problems are reported here, with their own location."""
+    module = s.module
+    own = [d for d in module.exports if d.origin == module.display]
+    if module.key in scope.reported:
+        step.summary = f"{module.display}: already used above"
+        return
+    scope.reported.add(module.key)
+    step.summary = f"{module.display}: " + ", ".join(f"{d.name} ({d.kind}, line {d.line})" for d in own)
+    for inner in scope.used[module.key]:
+        for c in inner.checks:
+            if c.status == "error":  # told on the command line as its detail alone
+                place = f"{module.display}:{inner.line}:{inner.column}"
+                step.checks.append(CheckResult(c.what, "error", f"{place}: {c.detail}"))
+            else:
+                step.checks.append(CheckResult(f"{module.display}:{inner.line}: {c.what}",
+                                               c.status, c.detail))
+    for d in module.exports:
+        binding = scope.bindings.get(d.name)
+        if binding is None:
+            continue
+        if isinstance(binding.value, Missing):  # a later use points at this line
+            scope.bind(d.name, binding.kind, Missing(d.name, s.line), s.line)
+        elif d.name in scope.history:  # prose sees what this line brought in
+            scope.history[d.name] = [(s.line, shown) for _, shown in scope.history[d.name]]
+            if binding.kind == "value":
+                step.values.append(scope.history[d.name][-1][1])
+
+
 HANDLERS = {
     n.SymbolDecl: _symbol, n.ConventionDecl: _convention, n.BundleDecl: _bundle,
     n.SplitDecl: _split, n.SurfaceFiber: _surface, n.SphereFiber: _sphere,
-    n.GeneralFiber: _general, n.FixedPointFiber: _fixed_points,
+    n.GeneralFiber: _general, n.FixedPointFiber: _fixed_points, n.Define: _define,
+    n.UseDecl: _use,
 }
