@@ -28,7 +28,7 @@ class Declared:
     """What a name stands for and where it was first bound."""
 
     name: str
-    kind: str  # symbol, convention, bundle, fiber, class, value, function
+    kind: str  # symbol, convention, bundle, gauge, fiber, class, value, function
     line: int
     column: int
     arity: Optional[int] = None  # of a function
@@ -270,14 +270,6 @@ def _not_into_itself(table: "NameTable", s: n.SplitDecl) -> None:
             table.problem(part.line, part.column, f"'{s.bundle}' cannot be split into itself")
 
 
-def _relations_not_evaluated(table: "NameTable", s: n.SymbolDecl) -> None:
-    # The parser reads relations between symbols; until sampling and the
-    # sign oracle honour them, a document using one must not pass silently.
-    for r in s.relations:
-        table.problem(r.line, r.column, "relations between symbols (such as Nf > Nc) are "
-                                        "not evaluated yet; bound each symbol by numbers")
-
-
 _OUT = (Bind("outputs", "value"),)
 _FOR = Use("clauses", ("symbol",), "symbol to substitute")
 
@@ -287,10 +279,18 @@ _FOR = Use("clauses", ("symbol",), "symbol to substitute")
 #: handlers must cover exactly its keys.
 RULES: dict[type, tuple] = {
     n.SymbolDecl: (Bind("names", "symbol"),
-                   Use("relations", expr_kinds=("symbol",)), _relations_not_evaluated),
+                   Use("relations", expr_kinds=("symbol",))),
     n.ConventionDecl: (Bind("name", "convention"),),
     n.BundleDecl: (Use("rank", ("symbol",), "declared integer symbol for the rank"),
                    Bind("names", "bundle")),
+    n.GaugeDecl: (Use("rank_name", ("symbol",), "integer symbol for the rank"),
+                  Use("index", ("convention",), "convention for the trace index"),
+                  Use("curvature", ("convention",), "convention for the curvature factor"),
+                  Bind("names", "gauge")),
+    n.Factorize: (Use("target"), *_OUT),
+    n.MatterDecl: (Use("tangent", ("bundle",), "tangent bundle"),
+                   Use("r_symmetry", ("bundle", "gauge"), "R-symmetry bundle"),
+                   Use("fields", ("bundle", "gauge"), "bundle"), Bind("name", "value")),
     n.SplitDecl: (Use("bundle", ("bundle",)), Use("parts", ("bundle",)), _not_into_itself),
     n.SurfaceFiber: (Use("genus"), Bind("name", "fiber"), Bind("tangent", "bundle")),
     n.SphereFiber: (Use("bundle", ("bundle",)), Bind("name", "fiber"), Bind("angular", "class")),
@@ -348,7 +348,7 @@ def resolve(path: str, statements, front_conventions, prose_refs) -> dict[str, D
         found = table.names.get(name)
         if found is None:
             table.problem(line, column, f"@{{{name}}}: unknown name '{name}'{table.suggest(name)}")
-        elif found.kind in ("bundle", "fiber"):
+        elif found.kind in ("bundle", "fiber", "gauge"):
             table.problem(line, column, f"@{{{name}}}: '{name}' is a {found.kind}, which has no value to show")
     if table.problems:
         raise DocumentError.of(sorted(table.problems, key=lambda p: (p.location.line, p.location.column)))

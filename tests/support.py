@@ -7,6 +7,7 @@ conftest.py.
 from __future__ import annotations
 
 import io
+import json
 import os
 import re
 import shutil
@@ -288,3 +289,15 @@ def start_browser(profile: Path):
     options.add_argument(f"--user-data-dir={profile}")
     options.set_capability("goog:loggingPrefs", {"performance": "ALL", "browser": "ALL"})
     return webdriver.Chrome(service=Service(str(CHROMEDRIVER)), options=options)
+
+
+def build_snippet(tmp_path: Path, capsys, body: str, *extra: str, truncate: int = 8):
+    """Build one derive block through the command line: (exit status, stderr, JSON record or None)."""
+    doc = tmp_path / "doc.md"
+    doc.write_text(f"---\ntitle: t\ntruncate: {truncate}\n---\n\n```derive\n{body}\n```\n",
+                   encoding="utf-8")
+    status = cli.main(["build", str(doc), "-o", str(tmp_path / "out"), "--format", "json",
+                       "--no-cache", "--quiet", *extra])
+    err = capsys.readouterr().err
+    record = tmp_path / "out" / "doc.json"
+    return status, err, json.loads(record.read_text()) if record.exists() else None

@@ -174,7 +174,7 @@ def test_backslash_before_blank_line_ends_the_statement():
 def test_indented_line_outside_fiber_body_is_an_error():
     assert problem("let a = 1\n  let b = 2") == (
         2, 3, "unexpected indentation: only the body lines of a fiber ('dimension n', "
-              "'fixed points' or 'spindle') are indented")
+              "'fixed points' or 'spindle') or of 'matter' are indented")
 
 
 # ---------------------------------------------------------------- fibers
@@ -208,7 +208,7 @@ def test_blank_line_ends_fiber_body():
 
           integral x = 1
     """) == (4, 3, "unexpected indentation: only the body lines of a fiber ('dimension n', "
-                   "'fixed points' or 'spindle') are indented")
+                   "'fixed points' or 'spindle') or of 'matter' are indented")
 
 
 def test_fiber_body_is_followed_by_statements():
@@ -390,6 +390,9 @@ def test_every_statement_word_has_a_form():
         plot a over x in 0..1
         define f(y) = y + 1
         use "common.md"
+        factorize a into 4, 8 -> u, v
+        matter I: dimension 4, tangent B
+          weyl+ 2 in V, (G, adjoint) charges L: 1/2
     """
     kinds = [s.kind for s in parse(block)]
     assert set(kinds) == words.STATEMENT_WORDS
@@ -448,7 +451,7 @@ def test_every_statement_word_has_a_form():
     ("symbol x, x", 1, 11, "'x' appears twice"),
     ("bundle B: real", 1, 11, "a real bundle needs its rank, as in 'real, rank 4'"),
     ("bundle B: cmplex, rank 2", 1, 11, "unknown bundle kind 'cmplex' (allowed: real, complex, "
-                                        "line); did you mean 'complex'?"),
+                                        "line, gauge); did you mean 'complex'?"),
     ("bundle B: real, rank 0", 1, 22, "the rank must be positive, not 0"),
     ("bundle B: line, rank 2", 1, 17, "a line bundle has rank 1"),
     ("bundle B: rank 2", 1, 1, "say what kind of bundle: real, complex or line"),

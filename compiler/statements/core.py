@@ -24,11 +24,16 @@ MAX_NESTING = 60
 _INFIX = {"+": 10, "-": 10, "*": 20, "/": 20, "^": 40, "**": 40}
 _UNARY = 30
 
-_TWO_ARGUMENTS = frozenset({"wedge", "sym", "part"})
+#: Argument counts other than one.
+_ARITY = {"wedge": (2,), "sym": (2,), "part": (2,), "ch": (1, 2), "tr": (2, 3)}
+#: Functions whose second argument may be a representation (``RepSpec``).
+_REPRESENTATION_ARGUMENT = frozenset({"ch", "tr"})
+#: Largest Dynkin label or power written in a representation.
+MAX_LABEL = 1000
 
 
-def arity(func: str) -> int:
-    return 2 if func in _TWO_ARGUMENTS else 1
+def arity(func: str) -> tuple[int, ...]:
+    return _ARITY.get(func, (1,))
 
 
 def did_you_mean(word: str, choices) -> str:
@@ -234,6 +239,12 @@ def _prefix(c: Cursor) -> n.Expr:
 
 def _name_or_call(c: Cursor) -> n.Expr:
     token = c.peek()
+    chiral = _chiral_spinor(c, token)
+    if chiral:
+        c.pos += 3
+        args = (expr(c),)
+        c.expect(")")
+        return n.Call(chiral, args, token.line, token.column)
     name = c.name()
     if not c.at("("):
         return n.Name(name, name.line, name.column)
@@ -246,17 +257,71 @@ def _name_or_call(c: Cursor) -> n.Expr:
     c.next()
     args = [expr(c)]
     while c.accept(","):
-        args.append(expr(c))
+        if name in _REPRESENTATION_ARGUMENT and len(args) == 1 and _at_representation(c, name):
+            args.append(representation(c))
+        else:
+            args.append(expr(c))
     c.expect(")")
     if not words.is_builtin_function(name):
         # A function the document defines: the name pass checks that it
         # exists and takes this many arguments.
         return n.Apply(name, tuple(args), token.line, token.column)
     wanted = arity(name)
-    if len(args) != wanted:
-        c.fail(token, f"{name}() takes {wanted} argument"
-                      f"{'s' if wanted != 1 else ''}, found {len(args)}")
+    if len(args) not in wanted:
+        counts = " or ".join(map(str, wanted))
+        c.fail(token, f"{name}() takes {counts} argument"
+                      f"{'s' if wanted != (1,) else ''}, found {len(args)}")
     return n.Call(str(name), tuple(args), token.line, token.column)
+
+
+def _chiral_spinor(c: Cursor, name: Token) -> Optional[str]:
+    """``S+(`` or ``S-(`` written without spaces: the chiral spinor bundles."""
+    sign, paren = c.peek(1), c.peek(2)
+    if name.text == "S" and sign.kind == "op" and sign.text in "+-" and paren.text == "(" \
+            and sign.column == name.end_column and paren.column == sign.end_column:
+        return "S" + sign.text
+    return None
+
+
+def _at_representation(c: Cursor, func: str) -> bool:
+    """The second argument of ch(G, rep), and of tr(G, rep, k) when a third follows."""
+    token, after = c.peek(), c.peek(1)
+    if c.at("[") or func == "ch":
+        return True
+    return token.kind == "name" and (token.text in words.REPRESENTATION_WORDS or after.text == ",")
+
+
+def representation(c: Cursor) -> n.RepSpec:
+    """``adjoint``, ``spinor+``, ``antisymmetric(3)`` or Dynkin labels ``[1, 0, 2]``."""
+    start = c.peek()
+    if c.accept("["):
+        labels = [_small(c, "a Dynkin label")]
+        while c.accept(","):
+            labels.append(_small(c, "a Dynkin label"))
+        c.expect("]")
+        return n.RepSpec("", None, tuple(labels), start.line, start.column)
+    if start.kind != "name" or start.text not in words.REPRESENTATION_WORDS:
+        c.fail(start, "expected a representation: "
+               + ", ".join(sorted(words.REPRESENTATION_WORDS)) + " or Dynkin labels such as [1, 0]"
+               + (did_you_mean(start.text, words.REPRESENTATION_WORDS) if start.kind == "name" else ""))
+    word = c.next().text
+    sign = c.peek()
+    if word == "spinor" and sign.kind == "op" and sign.text in "+-" and sign.column == start.end_column:
+        c.next()
+        word += sign.text
+    power = None
+    if c.accept("("):
+        power = _small(c, "a power")
+        c.expect(")")
+    return n.RepSpec(word, power, (), start.line, start.column)
+
+
+def _small(c: Cursor, what: str) -> int:
+    token = c.peek()
+    value = c.integer(what)
+    if not 0 <= value <= MAX_LABEL:
+        c.fail(token, f"{what} must be from 0 to {MAX_LABEL}, not {value}")
+    return value
 
 
 #: Most terms a ``series`` may ask for.

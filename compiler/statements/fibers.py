@@ -186,7 +186,7 @@ def body_line(c: Cursor, rules: dict) -> tuple[str, list]:
     word = c.peek()
     reader = rules.get(word.text) if word.kind == "name" else None
     if reader is None:
-        c.fail(word, f"a line of this fiber's body starts with {' or '.join(rules)}, found "
+        c.fail(word, f"an indented line here starts with {' or '.join(rules)}, found "
                      f"{c.describe(word)}" + (did_you_mean(word.text, rules)
                                               if word.kind == "name" else ""))
     c.next()

@@ -69,6 +69,18 @@ class Binary:
 
 
 @dataclass(frozen=True)
+class RepSpec:
+    """A representation inside ``ch(G, ...)``/``tr(G, ..., k)``: a trade name
+    (``adjoint``, ``spinor+``, ``antisymmetric(3)``) or Dynkin labels ``[1, 0]``."""
+
+    name: str  # "" for Dynkin labels
+    power: Optional[int]
+    labels: tuple[int, ...]
+    line: int
+    column: int
+
+
+@dataclass(frozen=True)
 class Apply:
     """A call of a function the document defined: ``a_chiral(r)``."""
 
@@ -105,7 +117,7 @@ class Expansion:
     column: int
 
 
-Expr = Union[Num, Name, Call, Unary, Binary, Apply, Sum, Expansion]
+Expr = Union[Num, Name, Call, Unary, Binary, RepSpec, Apply, Sum, Expansion]
 
 
 @dataclass(frozen=True)
@@ -455,8 +467,47 @@ class Plot(_Statement):
     kind = "plot"
 
 
+@dataclass(frozen=True)
+class GaugeDecl(_Statement):
+    """``bundle G: gauge SU(N), index t, curvature 1/2``: rank a literal or an integer
+    symbol; the trace index and the curvature factor rational literals or conventions."""
+
+    names: tuple[Ident, ...]
+    family: str
+    rank: Optional[int]
+    rank_name: Optional[Ident]
+    index: Union[Fraction, Ident, None]
+    curvature: Union[Fraction, Ident, None]
+    kind = "bundle"
+
+
+@dataclass(frozen=True)
+class Factorize(_Statement):
+    """``factorize I into 4, 8 -> X, Y``."""
+
+    target: Expr
+    degrees: tuple[int, ...]
+    outputs: tuple[Ident, ...]
+    kind = "factorize"
+
+
+@dataclass(frozen=True)
+class MatterDecl(_Statement):
+    name: Ident
+    dimension: int
+    tangent: Ident
+    r_symmetry: Optional[Ident]
+    fields: tuple  # of matter.Field, the indented lines
+    kind = "matter"
+
+    @property
+    def outputs(self) -> tuple[Ident, ...]:
+        """The polynomial it binds, as the outputs of a step (kept in the cache)."""
+        return (self.name,)
+
+
 Statement = Union[
-    SymbolDecl, ConventionDecl, BundleDecl, SplitDecl, SurfaceFiber,
+    SymbolDecl, ConventionDecl, BundleDecl, GaugeDecl, SplitDecl, SurfaceFiber,
     SphereFiber, GeneralFiber, FixedPointFiber, Let, Define, UseDecl, Substitute, Reduce,
-    Integrate, Coefficients, Extremize, Check, Show, Table, Plot,
+    Integrate, Factorize, MatterDecl, Coefficients, Extremize, Check, Show, Table, Plot,
 ]

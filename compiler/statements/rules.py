@@ -12,6 +12,8 @@ from typing import Optional, Union
 from compiler.statements import nodes as n, words
 from compiler.statements.core import Cursor, did_you_mean, equations, expr, expr_list
 from compiler.statements.fibers import fiber_rule
+from compiler.statements.gauge import factorize_rule, gauge_rule
+from compiler.statements.matter import matter_rule
 from compiler.statements.lexer import Token
 from compiler.statements.tree import Ident
 from compiler.statements.symbols import symbol_rule
@@ -32,6 +34,8 @@ def _convention(c: Cursor) -> n.ConventionDecl:
 def _bundle(c: Cursor) -> n.BundleDecl:
     names = c.name_list("a bundle name")
     c.expect(":")
+    if c.at_word("gauge"):
+        return gauge_rule(c, names)
     kind: Optional[Token] = None
     rank: Union[int, Ident, None] = None
     rank_token: Optional[Token] = None
@@ -49,7 +53,7 @@ def _bundle(c: Cursor) -> n.BundleDecl:
             kind = c.next()
         elif token.kind == "name":
             c.fail(token, f"unknown bundle kind '{token.text}' (allowed: real, complex, "
-                          "line)" + did_you_mean(token.text, BUNDLE_KINDS))
+                          "line, gauge)" + did_you_mean(token.text, BUNDLE_KINDS + ("gauge",)))
         else:
             c.expected("real, complex, line or 'rank N'")
         if not c.accept(","):
@@ -313,4 +317,6 @@ RULES = {
     "show": _show,
     "table": _table,
     "plot": _plot,
+    "factorize": factorize_rule,
+    "matter": matter_rule,
 }
