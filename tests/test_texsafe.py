@@ -104,3 +104,10 @@ def test_every_mapped_character_typesets(tmp_path):
     run = subprocess.run(["pdflatex", "-interaction=nonstopmode", "-halt-on-error", "-no-shell-escape",
                           "a.tex"], cwd=tmp_path, capture_output=True, timeout=120)
     assert run.returncode == 0, run.stdout[-2000:].decode("latin-1")
+
+
+def test_the_notation_subset_is_part_of_the_one_whitelist():
+    from compiler.render.notation import TEX_COMMANDS, check_tex
+
+    assert TEX_COMMANDS <= texsafe.MATH_COMMANDS
+    assert "needs an argument" in check_tex(r"k_{\hat}")  # inside the subset, refused by the whitelist
