@@ -14,10 +14,10 @@ import sympy
 
 from . import expressions as ex, notation
 from .algebra.radicals import tidy
-from .statements import nodes as n
+from .statements import expr_nodes as en
 
 
-def expand(ev, node: n.Expansion):
+def expand(ev, node: en.Expansion):
     value = ev.evaluate(node.target)
     if not ex.is_class_free(value):
         raise ev.fail(node.target, f"{node.op}() expands class-free values; this one has "

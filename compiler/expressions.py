@@ -15,18 +15,17 @@ from __future__ import annotations
 
 from contextlib import contextmanager
 from fractions import Fraction
-from typing import Callable, Union
+from typing import Union
 
 import sympy
 
-from . import calls, expansions, notation, representations
-from .algebra import budget, genera
-from .algebra.radicals import tidy
+from . import calls, expansions, functions, notation
+from .algebra import budget
 from .algebra.genera import BundleValue
 from .algebra.errors import AlgebraError, NotRational
 from .algebra.graded import Element
 from .errors import DocumentError, Location
-from .statements import nodes as n
+from .statements import expr_nodes as en
 
 Value = Union[Element, sympy.Expr]
 
@@ -110,27 +109,27 @@ class Evaluator:
                 raise
             raise self.fail(node, str(exc) or type(exc).__name__) from None
 
-    def _eval_Num(self, node: n.Num) -> Value:
+    def _eval_Num(self, node: en.Num) -> Value:
         return self.scope.ring.scalar(node.value)
 
-    def _eval_Name(self, node: n.Name) -> Value:
+    def _eval_Name(self, node: en.Name) -> Value:
         kind, value = self.lookup(node.id, node.line, node.column)
         if kind in _NOT_VALUES:
             raise self.fail(node, _NOT_VALUES[kind].format(node.id))
         return value
 
-    def _eval_Unary(self, node: n.Unary) -> Value:
+    def _eval_Unary(self, node: en.Unary) -> Value:
         value = self.evaluate(node.operand)
         return -value if node.op == "-" else value
 
-    def _eval_Binary(self, node: n.Binary) -> Value:
+    def _eval_Binary(self, node: en.Binary) -> Value:
         if node.op == "^":
             return self._power(node)
         # Walk a left-associative chain (a + b - c + ...) without recursing
         # on its left spine, so long sums stay shallow.
         family = ("+", "-") if node.op in ("+", "-") else ("*", "/")
         chain = []
-        while isinstance(node, n.Binary) and node.op in family:
+        while isinstance(node, en.Binary) and node.op in family:
             chain.append(node)
             node = node.left
         value = self.evaluate(node)
@@ -138,7 +137,7 @@ class Evaluator:
             value = self._apply(link, value, self.evaluate(link.right))
         return value
 
-    def _apply(self, node: n.Binary, left: Value, right: Value) -> Value:
+    def _apply(self, node: en.Binary, left: Value, right: Value) -> Value:
         if node.op == "/":
             return self._divide(node, left, right)
         left, right = unify(self.scope.ring, left, right)
@@ -148,7 +147,7 @@ class Evaluator:
             return left - right
         return left * right
 
-    def _power(self, node: n.Binary) -> Value:
+    def _power(self, node: en.Binary) -> Value:
         base = self.evaluate(node.left)
         exponent = self.evaluate(node.right)
         k = integer_value(exponent)
@@ -170,35 +169,35 @@ class Evaluator:
         left, right = unify(self.scope.ring, left, right)
         return left / right
 
-    def _eval_Call(self, node: n.Call) -> Value:
-        rule = FUNCTIONS.get(node.func)
+    def _eval_Call(self, node: en.Call) -> Value:
+        rule = functions.FUNCTIONS.get(node.func)
         if rule is None:
             prefix = node.func.rstrip("0123456789")
-            if prefix in CLASS_RULES and prefix != node.func:
-                return CLASS_RULES[prefix](self, node, int(node.func[len(prefix):]))
+            if prefix in functions.CLASS_RULES and prefix != node.func:
+                return functions.CLASS_RULES[prefix](self, node, int(node.func[len(prefix):]))
             raise self.fail(node, f"'{node.func}' cannot be called here")
         return rule(self, node)
 
-    def _eval_Apply(self, node: n.Apply) -> Value:
+    def _eval_Apply(self, node: en.Apply) -> Value:
         return calls.apply(self, node)
 
-    def _eval_Sum(self, node: n.Sum) -> Value:
+    def _eval_Sum(self, node: en.Sum) -> Value:
         return calls.sum_or_prod(self, node)
 
-    def _eval_Expansion(self, node: n.Expansion) -> Value:
+    def _eval_Expansion(self, node: en.Expansion) -> Value:
         return expansions.expand(self, node)
 
     # ------------------------------------------------------------ helpers
 
-    def arity(self, node: n.Call, count: int) -> None:
+    def arity(self, node: en.Call, count: int) -> None:
         if len(node.args) != count:
             raise self.fail(node, f"{node.func}() takes {count} argument{'s' if count != 1 else ''}")
 
-    def bundle_arg(self, node: n.Call) -> str:
+    def bundle_arg(self, node: en.Call) -> str:
         """The bundle a class function is applied to, e.g. ``NW`` in ``p2(NW)``."""
         self.arity(node, 1)
         arg = node.args[0]
-        if not isinstance(arg, n.Name):
+        if not isinstance(arg, en.Name):
             raise self.fail(arg, f"{node.func}() takes a bundle name")
         kind, _ = self.lookup(arg.id, arg.line, arg.column)
         if kind != "bundle":
@@ -214,145 +213,20 @@ class Evaluator:
 
     def construction(self, node):
         """A bundle construction inside ``ch(...)``: names, S, dual, +, *, wedge, sym."""
-        if isinstance(node, n.Name):
+        if isinstance(node, en.Name):
             kind, _ = self.lookup(node.id, node.line, node.column)
             if kind != "bundle":
                 hint = f"; give a representation, as in ch({node.id}, adjoint)" if kind == "gauge" else ""
                 raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle{hint}")
             self.scope.note_class_use(node.id, node.line)
             return BundleValue.of(self.scope.bundles, node.id)
-        if isinstance(node, n.Binary) and node.op in ("+", "*"):
+        if isinstance(node, en.Binary) and node.op in ("+", "*"):
             left, right = self.construction(node.left), self.construction(node.right)
             return left + right if node.op == "+" else left * right
-        if isinstance(node, n.Call) and node.func in CONSTRUCTIONS:
-            return CONSTRUCTIONS[node.func](self, node)
+        if isinstance(node, en.Call) and node.func in functions.CONSTRUCTIONS:
+            return functions.CONSTRUCTIONS[node.func](self, node)
         raise self.fail(node, "ch() takes a bundle or a bundle construction: "
                               "S(B), S+(B), S-(B), dual(V), V + W, V*W, wedge(V, k), sym(V, k)")
-
-
-# ---------------------------------------------------------------- functions
-# One small function per built-in; the table below chooses.
-
-def _pontryagin(ev: Evaluator, node: n.Call, i: int) -> Value:
-    return ev.scope.bundles.pontryagin(ev.bundle_arg(node), i)
-
-
-def _chern(ev: Evaluator, node: n.Call, i: int) -> Value:
-    return ev.scope.bundles.chern(ev.bundle_arg(node), i)
-
-
-def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
-    """ch_k(X) = part(ch(X), 2k): a generator for a bundle of symbolic rank."""
-    ev.arity(node, 1)
-    return ev.construction(node.args[0]).ch.part(2 * k)
-
-
-CLASS_RULES = {"p": representations.or_built(_pontryagin, representations.pontryagin_of),
-               "c": representations.or_built(_chern, representations.chern_of),
-               "ch": _ch_component}
-
-
-def _euler(ev, node):
-    return ev.scope.bundles.euler(ev.bundle_arg(node))
-
-
-def _total_p(ev, node):
-    return ev.scope.bundles.total_pontryagin(ev.bundle_arg(node))
-
-
-def _total_c(ev, node):
-    return ev.scope.bundles.total_chern(ev.bundle_arg(node))
-
-
-def _ahat(ev, node):
-    return genera.ahat(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _hirzebruch_l(ev, node):
-    return genera.hirzebruch_l(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _todd(ev, node):
-    return genera.todd(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _ch(ev, node):
-    if len(node.args) == 2:
-        return representations.character(ev, node)
-    return ev.construction(node.args[0]).ch
-
-
-def _part(ev, node):
-    ev.arity(node, 2)
-    value = ev.evaluate(node.args[0])
-    k = ev.integer_arg(node.args[1])
-    if isinstance(value, Element):
-        return value.part(k)
-    return value if k == 0 else ev.scope.ring.zero()
-
-
-def _degree(ev, node):
-    ev.arity(node, 1)
-    value = ev.evaluate(node.args[0])
-    if not isinstance(value, Element):
-        return ev.scope.ring.zero()
-    degrees = value.degrees()
-    if len(degrees) > 1:
-        raise ev.fail(node, "degree() of a value with several degrees: "
-                            + ", ".join(map(str, degrees)))
-    return ev.scope.ring.scalar(degrees[0] if degrees else 0)
-
-
-def _sqrt(ev, node):
-    ev.arity(node, 1)
-    value = ev.evaluate(node.args[0])
-    if not is_class_free(value):
-        raise ev.fail(node, "sqrt() of a value with classes")
-    if as_expr(value).is_negative:
-        raise ev.fail(node, f"sqrt() of a negative value: {notation.text(as_expr(value))}")
-    root = tidy(sympy.sqrt(as_expr(value)), list(ev.scope.specs.values()))
-    return from_expr(ev.scope.ring, root)
-
-
-def _not_here(ev, node):
-    raise ev.fail(node, f"{node.func}() is a bundle construction: use it inside ch(...)"
-                  if node.func in CONSTRUCTIONS else f"{node.func}() belongs in a split statement")
-
-
-FUNCTIONS: dict[str, Callable] = {
-    "e": representations.or_built(_euler, representations.euler_of),
-    "p": representations.or_built(_total_p, representations.pontryagin_of),
-    "c": representations.or_built(_total_c, representations.chern_of),
-    "Ahat": _ahat, "L": _hirzebruch_l,
-    "td": _todd, "ch": _ch, "part": _part, "degree": _degree, "sqrt": _sqrt,
-    "S": _not_here, "dual": _not_here, "wedge": _not_here, "sym": _not_here,
-    "trivial": _not_here, "S+": _not_here, "S-": _not_here,
-    "tr": representations.trace, "pf": representations.pfaffian,
-}
-
-
-def _spinor(ev, node):
-    ev.arity(node, 1)
-    return BundleValue.spinor(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _dual(ev, node):
-    ev.arity(node, 1)
-    return ev.construction(node.args[0]).dual()
-
-
-def _wedge(ev, node):
-    ev.arity(node, 2)
-    return ev.construction(node.args[0]).wedge(ev.integer_arg(node.args[1]))
-
-
-def _sym(ev, node):
-    ev.arity(node, 2)
-    return ev.construction(node.args[0]).sym(ev.integer_arg(node.args[1]))
-
-
-CONSTRUCTIONS = {"S": _spinor, "dual": _dual, "wedge": _wedge, "sym": _sym,
-                 "S+": representations.chiral_spinor, "S-": representations.chiral_spinor}
 
 
 # ---------------------------------------------------------------- value helpers

@@ -13,7 +13,7 @@ from dataclasses import dataclass, is_dataclass
 from typing import Iterator, Optional
 
 from .errors import DocumentError, Location, Problem
-from .statements import nodes as n, words
+from .statements import expr_nodes as en, nodes as n, words
 from .statements.core import did_you_mean
 from .statements.tree import Ident, iter_child_nodes
 
@@ -136,7 +136,7 @@ def _idents(statement, field: str, local: Optional[str] = None) -> Iterator[tupl
 
 
 def _binds(item: Ident, parent) -> bool:
-    return isinstance(parent, n.Sum) and item is parent.index
+    return isinstance(parent, en.Sum) and item is parent.index
 
 
 def _scoped(statement, field: str, local: Optional[str] = None):
@@ -150,9 +150,9 @@ def _scoped(statement, field: str, local: Optional[str] = None):
         yield item, parent, bound
         if isinstance(item, Ident):
             continue
-        inner = bound | {item.index} if isinstance(item, n.Sum) else bound
+        inner = bound | {item.index} if isinstance(item, en.Sum) else bound
         for child in reversed(list(iter_child_nodes(item))):
-            stack.append((child, item, inner if isinstance(item, n.Sum) and child is item.body
+            stack.append((child, item, inner if isinstance(item, en.Sum) and child is item.body
                           else bound))
 
 
@@ -200,13 +200,13 @@ def _role(name: Ident, parent, bound: frozenset) -> str:
     """What a name does where it stands: binds an index, calls, is expanded in, is read."""
     if _binds(name, parent):
         return "index"
-    if isinstance(parent, n.Apply) and name is parent.func:
+    if isinstance(parent, en.Apply) and name is parent.func:
         return "local call" if name in bound else "call"
     if name in bound:
         return "local"
-    if isinstance(parent, n.Expansion) and name is parent.variable:
+    if isinstance(parent, en.Expansion) and name is parent.variable:
         return "expansion variable"
-    return "expression" if isinstance(parent, n.Name) else "standalone"
+    return "expression" if isinstance(parent, en.Name) else "standalone"
 
 
 _ROLES = {

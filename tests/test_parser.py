@@ -10,7 +10,7 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from compiler.errors import DocumentError
-from compiler.statements import nodes as n, words
+from compiler.statements import clause_nodes as cn, expr_nodes as en, nodes as n, words
 from compiler.statements.parser import parse_block
 
 
@@ -37,13 +37,13 @@ def problem(text: str, first_line: int = 1):
 
 def show(e) -> str:
     """Fully parenthesised form, so the tree's shape is visible in one string."""
-    if isinstance(e, n.Num):
+    if isinstance(e, en.Num):
         return str(e.value)
-    if isinstance(e, n.Name):
+    if isinstance(e, en.Name):
         return e.id
-    if isinstance(e, n.Call):
+    if isinstance(e, en.Call):
         return f"{e.func}({', '.join(show(a) for a in e.args)})"
-    if isinstance(e, n.Unary):
+    if isinstance(e, en.Unary):
         return f"({e.op}{show(e.operand)})"
     return f"({show(e.left)} {e.op} {show(e.right)})"
 
@@ -87,18 +87,18 @@ def test_precedence_and_associativity(source, tree):
                                   "p1", "degree", "trivial", "over", "of", "modulo", "for", "in"])
 def test_bare_identifiers_are_always_names(word):
     e = one(f"let v = {word} + 1").expr
-    assert e.left == n.Name(word, 1, 9)
+    assert e.left == en.Name(word, 1, 9)
 
 
 def test_builtin_in_call_position_is_a_call():
     e = one("let v = L(T) + S(NW) + p(B) + c12(V) + Ahat(T)").expr
     calls = []
-    while isinstance(e, n.Binary):
+    while isinstance(e, en.Binary):
         calls.append(e.right)
         e = e.left
     calls.append(e)
     assert sorted(c.func for c in calls) == ["Ahat", "L", "S", "c12", "p"]
-    assert all(isinstance(c, n.Call) for c in calls)
+    assert all(isinstance(c, en.Call) for c in calls)
 
 
 def test_integers_are_exact_fractions():
@@ -113,9 +113,9 @@ def test_expression_positions():
     assert (e.left.left.line, e.left.left.column) == (7, 9)
     minus = e.right
     assert (minus.op, minus.column) == ("-", 22)
-    assert minus.left == n.Call("p2", (n.Name("NW", 7, 18),), 7, 15)
+    assert minus.left == en.Call("p2", (en.Name("NW", 7, 18),), 7, 15)
     power = minus.right
-    assert power.right == n.Num(Fraction(2), 7, 26)
+    assert power.right == en.Num(Fraction(2), 7, 26)
 
 
 # ---------------------------------------------------------------- lines
@@ -191,8 +191,8 @@ def test_general_fiber_body():
     """, first_line=10)
     assert isinstance(f, n.GeneralFiber)
     assert (f.name, f.dimension, f.line, f.end_line) == ("F", 4, 10, 15)
-    assert f.classes == (n.FiberClass("x", 2, 11, 9), n.FiberClass("y", 2, 13, 9),
-                         n.FiberClass("z", 2, 13, 12))
+    assert f.classes == (cn.FiberClass("x", 2, 11, 9), cn.FiberClass("y", 2, 13, 9),
+                         cn.FiberClass("z", 2, 13, 12))
     assert [(show(r.lhs), r.rhs and show(r.rhs)) for r in f.relations] == [
         ("(x ^ 2)", "0"), ("(x * y)", None)]
     assert [(show(i.lhs), show(i.rhs)) for i in f.integrals] == [("(x * y)", "1"),
@@ -258,14 +258,14 @@ def test_symbol_forms():
     s = one("symbol N, k: integer, positive")
     assert (s.names, s.assumptions, s.bounds) == (("N", "k"), ("integer", "positive"), ())
     s = one("symbol g: integer, g >= 2")
-    assert s.bounds == (n.Bound("g", ">=", Fraction(2), 1, 20),)
+    assert s.bounds == (cn.Bound("g", ">=", Fraction(2), 1, 20),)
     s = one("symbol x: 0 < x < 1")
-    assert s.bounds == (n.Bound("x", ">", Fraction(0), 1, 11),
-                        n.Bound("x", "<", Fraction(1), 1, 11))
+    assert s.bounds == (cn.Bound("x", ">", Fraction(0), 1, 11),
+                        cn.Bound("x", "<", Fraction(1), 1, 11))
     s = one("symbol x: 1 >= x > -1/2")
     assert [(b.op, b.value) for b in s.bounds] == [("<=", 1), (">", Fraction(-1, 2))]
     s = one("symbol z: real, 2 <= z")
-    assert s.bounds == (n.Bound("z", ">=", Fraction(2), 1, 17),)
+    assert s.bounds == (cn.Bound("z", ">=", Fraction(2), 1, 17),)
     s = one("symbol eps")
     assert (s.names, s.assumptions, s.bounds, s.kind) == (("eps",), (), (), "symbol")
     s = one("symbol p, S, L, N")
@@ -291,16 +291,16 @@ def test_bundle_forms():
 def test_split():
     s = one("split NW = L1 + L2 + trivial(1)")
     assert s.bundle == "NW"
-    assert s.parts == (n.SplitPart("L1", None, 1, 12), n.SplitPart("L2", None, 1, 17),
-                       n.SplitPart(None, 1, 1, 22))
+    assert s.parts == (cn.SplitPart("L1", None, 1, 12), cn.SplitPart("L2", None, 1, 17),
+                       cn.SplitPart(None, 1, 1, 22))
     assert one("split T6 = T4 + TS").parts[1].name == "TS"
 
 
 def test_surface_and_sphere_fibers():
     f = one("fiber Sigma: surface, genus g, tangent TS")
-    assert (f.name, f.genus, f.tangent, f.kind) == ("Sigma", n.Name("g", 1, 29), "TS", "fiber")
+    assert (f.name, f.genus, f.tangent, f.kind) == ("Sigma", en.Name("g", 1, 29), "TS", "fiber")
     f = one("fiber C: surface, tangent TC, genus 0")
-    assert (f.genus, f.tangent) == (n.Num(Fraction(0), 1, 37), "TC")
+    assert (f.genus, f.tangent) == (en.Num(Fraction(0), 1, 37), "TC")
     f = one("fiber S4: sphere of NW, angular e4")
     assert (f.name, f.bundle, f.angular) == ("S4", "NW", "e4")
 
@@ -334,9 +334,9 @@ def test_extremize_forms():
     m = one("maximize a over eps -> eps_star, a_star")
     assert (m.mode, m.kind, m.point, m.value) == ("maximize", "maximize", ("eps_star",), "a_star")
     assert m.outputs == ("eps_star", "a_star")
-    assert m.variables == (n.Variable("eps", None, 1, 17),)
+    assert m.variables == (cn.Variable("eps", None, 1, 17),)
     m = one("minimize f over x in (-1, 1/2) -> x0, f0")
-    assert m.variables[0].interval == n.Interval(Fraction(-1), Fraction(1, 2), False, 1, 22)
+    assert m.variables[0].interval == cn.Interval(Fraction(-1), Fraction(1, 2), False, 1, 22)
     m = one("extremize f over x, y in (0, 1) -> (x0, y0), f0")
     assert [v.name for v in m.variables] == ["x", "y"]
     assert (m.variables[0].interval, m.variables[1].interval.high) == (None, 1)
@@ -350,10 +350,10 @@ def test_check_forms():
         assert one(f"check k {op} 0").op == op
     c = one("check k > 0 for N = 2..8, z = 1/2, g = -3..-1")
     assert c.clauses == (
-        n.ForClause("N", None, (2, 8), 1, 17),
-        n.ForClause("z", n.Binary("/", n.Num(Fraction(1), 1, 31), n.Num(Fraction(2), 1, 33),
+        cn.ForClause("N", None, (2, 8), 1, 17),
+        cn.ForClause("z", en.Binary("/", en.Num(Fraction(1), 1, 31), en.Num(Fraction(2), 1, 33),
                                   1, 32), None, 1, 27),
-        n.ForClause("g", None, (-3, -1), 1, 36),
+        cn.ForClause("g", None, (-3, -1), 1, 36),
     )
 
 
@@ -364,7 +364,7 @@ def test_show_table_plot():
     assert [c.name for c in t.clauses] == ["N", "g", "z"] and t.clauses[0].range == (2, 5)
     assert one("table a").clauses == ()
     p = one("plot a, b over z in 1/2..3 for N = 4, g = 3")
-    assert (p.variable, p.interval) == ("z", n.Interval(Fraction(1, 2), Fraction(3), True, 1, 21))
+    assert (p.variable, p.interval) == ("z", cn.Interval(Fraction(1, 2), Fraction(3), True, 1, 21))
     assert [c.name for c in p.clauses] == ["N", "g"]
     assert one("plot a over z in -1..1").clauses == ()
 
@@ -516,7 +516,7 @@ def test_injection_attempts_are_clean_document_errors(text, column, start):
 
 
 def test_inner_underscores_make_an_ordinary_name():
-    assert one("let y = a__b__").expr == n.Name("a__b__", 1, 9)
+    assert one("let y = a__b__").expr == en.Name("a__b__", 1, 9)
 
 
 def test_one_problem_per_bad_statement_and_parsing_goes_on():

@@ -8,7 +8,8 @@ the declaration runs, so its suggestions come from one place.
 from __future__ import annotations
 
 from compiler.statements import nodes as n
-from compiler.statements.core import Cursor, expr
+from compiler.statements.core import Cursor
+from compiler.statements.expr_parser import expr
 
 #: Largest numeric rank of a gauge group: weight systems stay small.
 MAX_GAUGE_RANK = 64

@@ -18,8 +18,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Optional
 
-from compiler.statements import nodes as n
-from compiler.statements.core import Cursor, expr, representation
+from compiler.statements import expr_nodes as en, nodes as n
+from compiler.statements.core import Cursor
+from compiler.statements.expr_parser import expr, representation
 from compiler.statements.fibers import Header
 from compiler.statements.tree import Ident
 
@@ -33,8 +34,8 @@ class Factor:
     """A representation a field sits in: ``(G, rep)`` or a bundle construction."""
 
     gauge: Optional[Ident]
-    rep: Optional[n.RepSpec]
-    construction: Optional[n.Expr]
+    rep: Optional[en.RepSpec]
+    construction: Optional[en.Expr]
     line: int
     column: int
 
@@ -44,7 +45,7 @@ class Charge:
     """``L: q`` after ``charges``: the charge under a line bundle."""
 
     bundle: Ident
-    value: n.Expr
+    value: en.Expr
     line: int
     column: int
 
@@ -54,7 +55,7 @@ class Field:
     """One body line: a kind (``weyl+``, ``hyper``, ...), its multiplicity and representation."""
 
     kind: str
-    count: Optional[n.Expr]
+    count: Optional[en.Expr]
     factors: tuple[Factor, ...]
     charges: tuple[Charge, ...]
     line: int

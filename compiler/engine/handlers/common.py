@@ -5,7 +5,7 @@ from ... import notation
 from ...algebra.graded import Element
 from ...expressions import Value
 from ...results import CheckResult
-from ...statements import nodes as n
+from ...statements import expr_nodes as en
 
 
 def element(scope, node, what: str) -> Element:
@@ -16,7 +16,7 @@ def element(scope, node, what: str) -> Element:
     return value
 
 
-def relation(scope, eq: n.Equation) -> Element:
+def relation(scope, eq: en.Equation) -> Element:
     """``lhs == rhs`` (or a bare ``lhs``, meaning ``lhs == 0``) as ``lhs - rhs``."""
     sides = [scope.evaluate(side) for side in (eq.lhs, eq.rhs) if side is not None]
     if not all(isinstance(side, Element) for side in sides):
