@@ -461,7 +461,7 @@ def test_every_statement_word_has_a_form():
                               "tangent T', 'sphere of B, angular e', 'dimension n', 'fixed "
                               "points, dimension n, rotation t', 'spindle a, b, rotation t')"),
     ("fiber S: surface, genus g", 1, 26, "expected ', tangent ...', found end of line"),
-    ("fiber S: surface, genus g, genus h, tangent T", 1, 28, "'genus' given twice"),
+    ("fiber S: surface, genus g, genus h, tangent T", 1, 28, "'genus' is given twice"),
     ("fiber S: sphere NW, angular e", 1, 17, "expected 'of', found 'NW'"),
     ("coefficients X of a, b -> k", 1, 24,
      "coefficients of 2 monomials needs 2 output names, found 1"),

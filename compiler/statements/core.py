@@ -133,6 +133,20 @@ class Cursor:
                              f"found {len(names)}")
         return tuple(names)
 
+    def options(self, readers: dict) -> dict:
+        """``, word value`` pairs in any order, each at most once: word -> what
+        ``readers[word](cursor)`` read."""
+        values = {}
+        while self.accept(","):
+            token = self.peek()
+            if token.kind != "name" or token.text not in readers:
+                self.expected(" or ".join(f"'{w}'" for w in readers))
+            if token.text in values:
+                self.fail(token, f"'{token.text}' is given twice")
+            self.next()
+            values[token.text] = readers[token.text](self)
+        return values
+
     def sign(self) -> int:
         if self.accept("-"):
             return -1
@@ -154,6 +168,15 @@ class Cursor:
             self.fail(token, f"{what} must be positive, not {value}")
         if limit is not None and value > limit:
             self.fail(token, f"{what} is at most {limit}, not {value}")
+        return value
+
+    def even_dimension(self, what: str, limit: int, odd: str) -> int:
+        """A positive even integer literal up to ``limit``; ``odd`` says why,
+        formatted with the odd value found."""
+        token = self.peek()
+        value = self.positive_integer(what, limit)
+        if value % 2:
+            self.fail(token, odd.format(value))
         return value
 
     def rational(self, what: str = "a rational number such as 2, -3 or 1/2") -> Fraction:

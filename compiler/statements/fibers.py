@@ -101,10 +101,8 @@ def _fixed(c: Cursor, name: Ident) -> Header:
     c.expect_word("points")
     c.expect(",")
     c.expect_word("dimension")
-    token = c.peek()
-    dimension = c.positive_integer("the fiber dimension", MAX_FIBER_DIMENSION)
-    if dimension % 2:
-        c.fail(token, f"a fiber with isolated fixed points has even dimension, not {dimension}")
+    dimension = c.even_dimension("the fiber dimension", MAX_FIBER_DIMENSION,
+                                 "a fiber with isolated fixed points has even dimension, not {}")
     rotation = _rotation(c)
     return Header(FIXED_RULES, lambda parts, span: _fixed_node(
         name, dimension, rotation, parts.get("points", ()), parts, span), c.span)
@@ -157,15 +155,7 @@ def _fixed_node(name: Ident, dimension: int, rotation: tuple, points, parts: dic
 
 def _options(c: Cursor, readers: dict) -> dict:
     """``, word value`` pairs in any order, each required exactly once."""
-    values = {}
-    while c.accept(","):
-        token = c.peek()
-        if token.kind != "name" or token.text not in readers:
-            c.expected(" or ".join(f"'{w}'" for w in readers))
-        if token.text in values:
-            c.fail(token, f"'{token.text}' given twice")
-        c.next()
-        values[token.text] = readers[token.text](c)
+    values = c.options(readers)
     missing = [w for w in readers if w not in values]
     if missing:
         c.expected(f"', {missing[0]} ...'")

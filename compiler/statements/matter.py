@@ -67,19 +67,9 @@ def matter_rule(c: Cursor) -> Header:
     name = c.name("a name for the anomaly polynomial")
     c.expect(":")
     c.expect_word("dimension")
-    token = c.peek()
-    dimension = c.positive_integer("the dimension", MAX_DIMENSION)
-    if dimension % 2:
-        c.fail(token, f"anomalies of chiral fields live in even dimensions, not {dimension}")
-    options: dict[str, Ident] = {}
-    while c.accept(","):
-        word = c.peek()
-        if word.kind != "name" or word.text not in _OPTIONS:
-            c.expected("tangent or R_symmetry")
-        if word.text in options:
-            c.fail(word, f"'{word.text}' is given twice")
-        c.next()
-        options[word.text] = c.name("a bundle name")
+    dimension = c.even_dimension("the dimension", MAX_DIMENSION,
+                                 "anomalies of chiral fields live in even dimensions, not {}")
+    options = c.options(dict.fromkeys(_OPTIONS, lambda c: c.name("a bundle name")))
     if "tangent" not in options:
         c.fail(c.peek(), "name the tangent bundle: 'matter I: dimension 6, tangent T'")
     tangent, r_symmetry = options["tangent"], options.get("R_symmetry")
