@@ -57,11 +57,16 @@ def expr(c: Cursor, rbp: int = 0) -> en.Expr:
     return left
 
 
+def literal(c: Cursor) -> en.Num:
+    """The integer literal at the cursor, as a ``Num``."""
+    token = c.next()
+    return en.Num(Fraction(token.value), token.line, token.column)
+
+
 def _prefix(c: Cursor) -> en.Expr:
     token = c.peek()
     if token.kind == "int":
-        c.next()
-        return en.Num(Fraction(token.value), token.line, token.column)
+        return literal(c)
     if token.kind == "name":
         return _name_or_call(c)
     if c.accept("("):

@@ -11,12 +11,11 @@ lines under ``fiber F: spindle a, b, ...`` (whose points are ``north`` and
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from fractions import Fraction
 from typing import Callable, Optional
 
 from compiler.statements import clause_nodes as cn, expr_nodes as en, nodes as n
 from compiler.statements.core import Cursor, did_you_mean
-from compiler.statements.expr_parser import equations, expr
+from compiler.statements.expr_parser import equations, expr, literal
 from compiler.statements.lexer import LogicalLine
 from compiler.statements.tree import Ident
 
@@ -163,10 +162,8 @@ def _options(c: Cursor, readers: dict) -> dict:
 
 
 def _genus(c: Cursor) -> en.Expr:
-    token = c.peek()
-    if token.kind == "int":
-        c.next()
-        return en.Num(Fraction(token.value), token.line, token.column)
+    if c.peek().kind == "int":
+        return literal(c)
     name = c.name("the genus (a symbol or a nonnegative integer)")
     return en.Name(name, name.line, name.column)
 
