@@ -1,7 +1,7 @@
-"""Helpers shared by the test files: the command run in-process, small
-documents built through the engine, lookups in a JSON record, a hand-built
-Report for the renderer tests, bundle tables for the algebra tests,
-pdflatex, and the headless browser.  Fixtures built on these live in
+"""Helpers shared by the test files: the command run in-process, derive
+blocks parsed and their problems, small documents built through the engine,
+lookups in a JSON record, a hand-built Report for the renderer tests, bundle
+tables for the algebra tests, pdflatex, and the headless browser.  Fixtures built on these live in
 conftest.py.
 """
 from __future__ import annotations
@@ -12,6 +12,7 @@ import os
 import re
 import shutil
 import subprocess
+import textwrap
 from contextlib import redirect_stderr, redirect_stdout
 from dataclasses import dataclass
 from fractions import Fraction
@@ -21,7 +22,9 @@ import pytest
 
 from compiler import cli
 from compiler.engine import BuildOptions, build
+from compiler.errors import DocumentError
 from compiler.results import CheckResult, PlotData, Prose, Report, Step, TableData, ValueRecord
+from compiler.statements.parser import parse_block
 
 ROOT = Path(__file__).resolve().parent.parent
 DERIVATIONS = ROOT / "derivations"
@@ -68,6 +71,27 @@ def anomark(*args, cwd: Path = ROOT) -> Outcome:
 def visible(folder: Path) -> list[str]:
     """Names in ``folder``, leaving out hidden ones (the cache, temporaries)."""
     return sorted(p.name for p in folder.iterdir() if not p.name.startswith("."))
+
+
+# ---------------------------------------------------------------- derive blocks, parsed
+
+def parse(text: str, first_line: int = 1):
+    """The statements of a derive block (dedented) that starts at ``first_line`` of doc.md."""
+    return parse_block(textwrap.dedent(text).strip("\n"), first_line, "doc.md")
+
+
+def parse_problems(text: str, first_line: int = 1) -> list[tuple[str, int, int, str]]:
+    """(path, line, column, message) of each problem of a block that does not parse."""
+    with pytest.raises(DocumentError) as info:
+        parse(text, first_line)
+    return [(p.location.path, p.location.line, p.location.column, p.message)
+            for p in info.value.problems]
+
+
+def parse_problem(text: str, first_line: int = 1) -> tuple[int, int, str]:
+    """(line, column, message) of the one problem of a block that does not parse."""
+    (found,) = parse_problems(text, first_line)
+    return found[1:]
 
 
 # ---------------------------------------------------------------- documents through the engine

@@ -3,7 +3,6 @@ docs/spec: "Statements" and "Precise rules → Lexing and grammar"; syntax
 rules of the format itself, so common practice, no source)."""
 from __future__ import annotations
 
-import textwrap
 from fractions import Fraction
 
 import pytest
@@ -12,27 +11,12 @@ from hypothesis import given, settings, strategies as st
 from compiler.errors import DocumentError
 from compiler.statements import clause_nodes as cn, expr_nodes as en, nodes as n, words
 from compiler.statements.parser import parse_block
-
-
-def parse(text: str, first_line: int = 1):
-    return parse_block(textwrap.dedent(text).strip("\n"), first_line, "doc.md")
+from support import parse, parse_problem, parse_problems
 
 
 def one(text: str, first_line: int = 1):
     (statement,) = parse(text, first_line)
     return statement
-
-
-def problems(text: str, first_line: int = 1):
-    with pytest.raises(DocumentError) as info:
-        parse(text, first_line)
-    return [(p.location.path, p.location.line, p.location.column, p.message)
-            for p in info.value.problems]
-
-
-def problem(text: str, first_line: int = 1):
-    (found,) = problems(text, first_line)
-    return found[1:]
 
 
 def show(e) -> str:
@@ -154,7 +138,7 @@ def test_open_bracket_continuation():
 
 
 def test_unclosed_bracket_stops_at_the_next_statement_word():
-    found = problems("""
+    found = parse_problems("""
         let a = (1 + 2
         let b = 3 3
     """)
@@ -167,12 +151,12 @@ def test_unclosed_bracket_stops_at_the_next_statement_word():
 def test_backslash_before_blank_line_ends_the_statement():
     a, b = parse("let a = 1 \\\n\nlet b = 2")
     assert (a.source, a.end_line, b.line) == ("let a = 1", 1, 3)
-    assert problem("let a = 1 + \\\n\nlet b = 2") == (
+    assert parse_problem("let a = 1 + \\\n\nlet b = 2") == (
         1, 12, "expected an expression, found end of line")
 
 
 def test_indented_line_outside_fiber_body_is_an_error():
-    assert problem("let a = 1\n  let b = 2") == (
+    assert parse_problem("let a = 1\n  let b = 2") == (
         2, 3, "unexpected indentation: only the body lines of a fiber ('dimension n', "
               "'fixed points' or 'spindle') or of 'matter' are indented")
 
@@ -202,7 +186,7 @@ def test_general_fiber_body():
 
 
 def test_blank_line_ends_fiber_body():
-    assert problem("""
+    assert parse_problem("""
         fiber F: dimension 2
           class x: 2
 
@@ -223,11 +207,11 @@ def test_fiber_body_is_followed_by_statements():
 
 
 def test_body_after_surface_fiber_is_an_error():
-    assert problem("fiber S: surface, genus 2, tangent T\n  class x: 2")[:2] == (2, 3)
+    assert parse_problem("fiber S: surface, genus 2, tangent T\n  class x: 2")[:2] == (2, 3)
 
 
 def test_failed_fiber_header_hides_its_body():
-    assert problems("fiber F: dimension 0\n  class x: 2\n  bogus\nlet a = 1") == [
+    assert parse_problems("fiber F: dimension 0\n  class x: 2\n  bogus\nlet a = 1") == [
         ("doc.md", 1, 20, "the fiber dimension must be positive, not 0")]
 
 
@@ -238,17 +222,17 @@ def test_failed_fiber_header_hides_its_body():
     ("fiber F: dimension 2\n  integral x", (2, 13)),
 ])
 def test_fiber_body_errors(text, where):
-    assert problem(text)[:2] == where
+    assert parse_problem(text)[:2] == where
 
 
 def test_each_bad_body_line_is_reported():
-    found = problems("fiber F: dimension 2\n  clas x: 2\n  class y: -2")
+    found = parse_problems("fiber F: dimension 2\n  clas x: 2\n  class y: -2")
     assert [f[1:3] for f in found] == [(2, 3), (3, 12)]
     assert "did you mean 'class'" in found[0][3]
 
 
 def test_class_at_top_level_explains_itself():
-    assert problem("class x: 2")[2] == "'class' belongs in the indented body of a fiber"
+    assert parse_problem("class x: 2")[2] == "'class' belongs in the indented body of a fiber"
 
 
 # ---------------------------------------------------------------- statement forms
@@ -494,7 +478,7 @@ def test_every_statement_word_has_a_form():
     ("let y = [1]", 1, 9, "square brackets are not used in expressions; use parentheses"),
 ])
 def test_errors_at_the_offending_token(text, line, column, message):
-    assert problem(text) == (line, column, message)
+    assert parse_problem(text) == (line, column, message)
 
 
 @pytest.mark.parametrize("text, column, start", [
@@ -511,7 +495,7 @@ def test_errors_at_the_offending_token(text, line, column, message):
     ("let y = sqrt(x) if x else y", 17, "unexpected 'if'"),
 ])
 def test_injection_attempts_are_clean_document_errors(text, column, start):
-    line, col, message = problem(text)
+    line, col, message = parse_problem(text)
     assert (line, col) == (1, column) and message.startswith(start)
 
 
@@ -520,7 +504,7 @@ def test_inner_underscores_make_an_ordinary_name():
 
 
 def test_one_problem_per_bad_statement_and_parsing_goes_on():
-    found = problems("""
+    found = parse_problems("""
         let a = 0.5 + 0.25
         let b = 1
         lett c = 2
