@@ -232,7 +232,7 @@ def compile_file(args, path: str):
 
 def status_of(report) -> int:
     statuses = {s.status for s in report.steps}
-    return 2 if "error" in statuses else 1 if "failed" in statuses else 0
+    return 2 if "error" in statuses or report.prose_errors else 1 if "failed" in statuses else 0
 
 
 def write_whole(files: dict[Path, bytes]) -> None:

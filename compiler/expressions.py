@@ -21,10 +21,10 @@ import sympy
 
 from . import calls, expansions, functions, notation
 from .algebra import budget
-from .algebra.genera import BundleValue
 from .algebra.errors import AlgebraError, NotRational
 from .algebra.graded import Element
 from .errors import DocumentError, Location
+from .precision import Known, beyond, power, product, quotient, smallest, whole
 from .statements import expr_nodes as en
 
 Value = Union[Element, sympy.Expr]
@@ -65,6 +65,10 @@ class Scope:
     def lookup(self, name: str, line: int, column: int):  # -> (kind, value)
         raise NotImplementedError
 
+    def exact_to(self, name: str):
+        """The degree up to which a bound value is exact (None: in every degree)."""
+        return None
+
     def note_class_use(self, bundle: str, line: int) -> None:
         """Remember that a value mentions ``bundle``'s classes (for split order)."""
 
@@ -73,14 +77,21 @@ class Evaluator:
     def __init__(self, scope: Scope, path: str):
         self.scope = scope
         self.path = path
-        #: Local names (parameters, sum indices) in force: name -> (kind, value).
+        #: Local names (parameters, sum indices) in force:
+        #: name -> (kind, value, the degree up to which the value is exact).
         self.frames: list[dict] = []
 
     def lookup(self, name: str, line: int, column: int):
-        """A local name first, then the document's."""
+        """A local name first, then the document's: (kind, value)."""
         if self.frames and name in self.frames[-1]:
-            return self.frames[-1][name]
+            return self.frames[-1][name][:2]
         return self.scope.lookup(name, line, column)
+
+    def exact_to(self, name: str):
+        """The degree up to which a name's value is exact, local names first."""
+        if self.frames and name in self.frames[-1]:
+            return self.frames[-1][name][2]
+        return self.scope.exact_to(name)
 
     @contextmanager
     def frame(self, names: dict):
@@ -91,8 +102,8 @@ class Evaluator:
             self.frames.pop()
 
     def with_local(self, name: str, value) -> dict:
-        """The frame in force plus one local value."""
-        return {**(self.frames[-1] if self.frames else {}), name: ("value", value)}
+        """The frame in force plus one local value (a number: exact)."""
+        return {**(self.frames[-1] if self.frames else {}), name: ("value", value, None)}
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)
@@ -100,6 +111,10 @@ class Evaluator:
     # ------------------------------------------------------------ node kinds
 
     def evaluate(self, node) -> Value:
+        return self.known(node).value
+
+    def known(self, node) -> Known:
+        """The value of ``node`` with the degree up to which it is exact."""
         budget.check()  # every node: a long evaluation stops at its deadline in any thread
         method = getattr(self, "_eval_" + type(node).__name__)
         try:
@@ -109,20 +124,32 @@ class Evaluator:
                 raise
             raise self.fail(node, str(exc) or type(exc).__name__) from None
 
-    def _eval_Num(self, node: en.Num) -> Value:
-        return self.scope.ring.scalar(node.value)
+    def read(self, node, degree: int | None = None) -> Known:
+        """The value of ``node`` read in ``degree`` (None: as a whole); an
+        error if that degree is beyond what is exact."""
+        k = self.known(node)
+        truncate = self.scope.ring.truncate
+        what = f"this use of {node.id}" if isinstance(node, en.Name) else "this expression"
+        problem = (whole(k, truncate, what) if degree is None
+                   else beyond(k, degree, truncate, what))
+        if problem:
+            raise self.fail(node, problem)
+        return k
 
-    def _eval_Name(self, node: en.Name) -> Value:
+    def _eval_Num(self, node: en.Num) -> Known:
+        return Known(self.scope.ring.scalar(node.value))
+
+    def _eval_Name(self, node: en.Name) -> Known:
         kind, value = self.lookup(node.id, node.line, node.column)
         if kind in _NOT_VALUES:
             raise self.fail(node, _NOT_VALUES[kind].format(node.id))
-        return value
+        return Known(value, self.exact_to(node.id))
 
-    def _eval_Unary(self, node: en.Unary) -> Value:
-        value = self.evaluate(node.operand)
-        return -value if node.op == "-" else value
+    def _eval_Unary(self, node: en.Unary) -> Known:
+        k = self.known(node.operand)
+        return Known(-k.value, k.exact_to) if node.op == "-" else k
 
-    def _eval_Binary(self, node: en.Binary) -> Value:
+    def _eval_Binary(self, node: en.Binary) -> Known:
         if node.op == "^":
             return self._power(node)
         # Walk a left-associative chain (a + b - c + ...) without recursing
@@ -132,24 +159,25 @@ class Evaluator:
         while isinstance(node, en.Binary) and node.op in family:
             chain.append(node)
             node = node.left
-        value = self.evaluate(node)
+        value = self.known(node)
         for link in reversed(chain):
-            value = self._apply(link, value, self.evaluate(link.right))
+            value = self._apply(link, value, self.known(link.right))
         return value
 
-    def _apply(self, node: en.Binary, left: Value, right: Value) -> Value:
+    def _apply(self, node: en.Binary, a: Known, b: Known) -> Known:
         if node.op == "/":
-            return self._divide(node, left, right)
-        left, right = unify(self.scope.ring, left, right)
+            return Known(self._divide(node, a.value, b.value), quotient(a, b))
+        left, right = unify(self.scope.ring, a.value, b.value)
         if node.op == "+":
-            return left + right
+            return Known(left + right, smallest(a.exact_to, b.exact_to))
         if node.op == "-":
-            return left - right
-        return left * right
+            return Known(left - right, smallest(a.exact_to, b.exact_to))
+        return Known(left * right, product(a, b, self.scope.ring.truncate))
 
-    def _power(self, node: en.Binary) -> Value:
-        base = self.evaluate(node.left)
-        exponent = self.evaluate(node.right)
+    def _power(self, node: en.Binary) -> Known:
+        known = self.known(node.left)
+        base = known.value
+        exponent = self.read(node.right, 0).value
         k = integer_value(exponent)
         if k is None:
             raise self.fail(node.right, "an exponent must be an integer")
@@ -158,8 +186,9 @@ class Evaluator:
                 raise self.fail(node, "a negative power needs a class-free base")
             if is_zero(base):
                 raise self.fail(node, "a negative power of zero")
-            return self._divide(node, self.scope.ring.one(), base ** (-k))
-        return base ** k
+            inverse = self._divide(node, self.scope.ring.one(), base ** (-k))
+            return Known(inverse, quotient(Known(inverse), known))
+        return Known(base ** k, power(known, k, self.scope.ring.truncate))
 
     def _divide(self, node, left: Value, right: Value) -> Value:
         if not is_class_free(right):
@@ -169,22 +198,28 @@ class Evaluator:
         left, right = unify(self.scope.ring, left, right)
         return left / right
 
-    def _eval_Call(self, node: en.Call) -> Value:
+    def _eval_Call(self, node: en.Call) -> Known:
         rule = functions.FUNCTIONS.get(node.func)
         if rule is None:
             prefix = node.func.rstrip("0123456789")
             if prefix in functions.CLASS_RULES and prefix != node.func:
-                return functions.CLASS_RULES[prefix](self, node, int(node.func[len(prefix):]))
+                i = int(node.func[len(prefix):])
+                value = functions.CLASS_RULES[prefix](self, node, i)
+                truncate = self.scope.ring.truncate
+                return Known(value, truncate if functions.CLASS_DEGREE[prefix] * i > truncate else None)
             raise self.fail(node, f"'{node.func}' cannot be called here")
-        return rule(self, node)
+        value = rule(self, node)
+        if isinstance(value, Known):
+            return value
+        return Known(value, self.scope.ring.truncate if node.func in functions.TRUNCATED else None)
 
-    def _eval_Apply(self, node: en.Apply) -> Value:
+    def _eval_Apply(self, node: en.Apply) -> Known:
         return calls.apply(self, node)
 
-    def _eval_Sum(self, node: en.Sum) -> Value:
+    def _eval_Sum(self, node: en.Sum) -> Known:
         return calls.sum_or_prod(self, node)
 
-    def _eval_Expansion(self, node: en.Expansion) -> Value:
+    def _eval_Expansion(self, node: en.Expansion) -> Known:
         return expansions.expand(self, node)
 
     # ------------------------------------------------------------ helpers
@@ -206,28 +241,10 @@ class Evaluator:
         return arg.id
 
     def integer_arg(self, node) -> int:
-        k = integer_value(self.evaluate(node))
+        k = integer_value(self.read(node, 0).value)
         if k is None:
             raise self.fail(node, "an integer is needed here")
         return k
-
-    def construction(self, node):
-        """A bundle construction inside ``ch(...)``: names, S, dual, +, *, wedge, sym."""
-        if isinstance(node, en.Name):
-            kind, _ = self.lookup(node.id, node.line, node.column)
-            if kind != "bundle":
-                hint = f"; give a representation, as in ch({node.id}, adjoint)" if kind == "gauge" else ""
-                raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle{hint}")
-            self.scope.note_class_use(node.id, node.line)
-            return BundleValue.of(self.scope.bundles, node.id)
-        if isinstance(node, en.Binary) and node.op in ("+", "*"):
-            left, right = self.construction(node.left), self.construction(node.right)
-            return left + right if node.op == "+" else left * right
-        if isinstance(node, en.Call) and node.func in functions.CONSTRUCTIONS:
-            return functions.CONSTRUCTIONS[node.func](self, node)
-        raise self.fail(node, "ch() takes a bundle or a bundle construction: "
-                              "S(B), S+(B), S-(B), dual(V), V + W, V*W, wedge(V, k), sym(V, k)")
-
 
 # ---------------------------------------------------------------- value helpers
 

@@ -1,8 +1,8 @@
 """The built-in functions of expressions: one small rule each, chosen from a table.
 
 The evaluator (``expressions``) looks a call up here: ``FUNCTIONS`` by name,
-``CLASS_RULES`` by prefix for indexed classes (``p2``, ``c1``, ``ch3``), and
-``CONSTRUCTIONS`` for the bundle constructions inside ``ch(...)``.
+``CLASS_RULES`` by prefix for indexed classes (``p2``, ``c1``, ``ch3``), with
+``CLASS_DEGREE`` and ``TRUNCATED`` saying how far each result is exact.
 """
 from __future__ import annotations
 
@@ -10,11 +10,11 @@ from typing import Callable
 
 import sympy
 
-from . import expressions as ex, notation, representations
+from . import constructions, expressions as ex, notation, representations
 from .algebra import genera
-from .algebra.genera import BundleValue
 from .algebra.graded import Element
 from .algebra.radicals import tidy
+from .precision import Known
 from .statements import expr_nodes as en
 
 
@@ -29,12 +29,14 @@ def _chern(ev: ex.Evaluator, node: en.Call, i: int) -> ex.Value:
 def _ch_component(ev: ex.Evaluator, node: en.Call, k: int) -> ex.Value:
     """ch_k(X) = part(ch(X), 2k): a generator for a bundle of symbolic rank."""
     ev.arity(node, 1)
-    return ev.construction(node.args[0]).ch.part(2 * k)
+    return constructions.construction(ev, node.args[0]).ch.part(2 * k)
 
 
 CLASS_RULES = {"p": representations.or_built(_pontryagin, representations.pontryagin_of),
                "c": representations.or_built(_chern, representations.chern_of),
                "ch": _ch_component}
+#: The form degree of the class ``prefix + i`` is ``CLASS_DEGREE[prefix] * i``.
+CLASS_DEGREE = {"p": 4, "c": 2, "ch": 2}
 
 
 def _euler(ev, node):
@@ -64,13 +66,13 @@ def _todd(ev, node):
 def _ch(ev, node):
     if len(node.args) == 2:
         return representations.character(ev, node)
-    return ev.construction(node.args[0]).ch
+    return constructions.construction(ev, node.args[0]).ch
 
 
 def _part(ev, node):
     ev.arity(node, 2)
-    value = ev.evaluate(node.args[0])
     k = ev.integer_arg(node.args[1])
+    value = ev.read(node.args[0], k).value
     if isinstance(value, Element):
         return value.part(k)
     return value if k == 0 else ev.scope.ring.zero()
@@ -78,7 +80,7 @@ def _part(ev, node):
 
 def _degree(ev, node):
     ev.arity(node, 1)
-    value = ev.evaluate(node.args[0])
+    value = ev.read(node.args[0]).value
     if not isinstance(value, Element):
         return ev.scope.ring.zero()
     degrees = value.degrees()
@@ -90,18 +92,19 @@ def _degree(ev, node):
 
 def _sqrt(ev, node):
     ev.arity(node, 1)
-    value = ev.evaluate(node.args[0])
+    known = ev.read(node.args[0], 0)
+    value, exact_to = known.value, known.exact_to
     if not ex.is_class_free(value):
         raise ev.fail(node, "sqrt() of a value with classes")
     if ex.as_expr(value).is_negative:
         raise ev.fail(node, f"sqrt() of a negative value: {notation.text(ex.as_expr(value))}")
     root = tidy(sympy.sqrt(ex.as_expr(value)), list(ev.scope.specs.values()))
-    return ex.from_expr(ev.scope.ring, root)
+    return Known(ex.from_expr(ev.scope.ring, root), exact_to)
 
 
 def _not_here(ev, node):
     raise ev.fail(node, f"{node.func}() is a bundle construction: use it inside ch(...)"
-                  if node.func in CONSTRUCTIONS else f"{node.func}() belongs in a split statement")
+                  if node.func in constructions.CONSTRUCTIONS else f"{node.func}() belongs in a split statement")
 
 
 FUNCTIONS: dict[str, Callable] = {
@@ -116,25 +119,5 @@ FUNCTIONS: dict[str, Callable] = {
 }
 
 
-def _spinor(ev, node):
-    ev.arity(node, 1)
-    return BundleValue.spinor(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _dual(ev, node):
-    ev.arity(node, 1)
-    return ev.construction(node.args[0]).dual()
-
-
-def _wedge(ev, node):
-    ev.arity(node, 2)
-    return ev.construction(node.args[0]).wedge(ev.integer_arg(node.args[1]))
-
-
-def _sym(ev, node):
-    ev.arity(node, 2)
-    return ev.construction(node.args[0]).sym(ev.integer_arg(node.args[1]))
-
-
-CONSTRUCTIONS = {"S": _spinor, "dual": _dual, "wedge": _wedge, "sym": _sym,
-                 "S+": representations.chiral_spinor, "S-": representations.chiral_spinor}
+#: Built-ins whose value is a series cut at ``truncate``: exact only up to it.
+TRUNCATED = frozenset({"p", "c", "Ahat", "L", "td", "ch"})

@@ -261,14 +261,6 @@ def _not_into_itself(table: "NameTable", s: n.SplitDecl) -> None:
             table.problem(part.line, part.column, f"'{s.bundle}' cannot be split into itself")
 
 
-def _relations_not_evaluated(table: "NameTable", s: n.SymbolDecl) -> None:
-    # The parser reads relations between symbols; until sampling and the
-    # sign oracle honour them, a document using one must not pass silently.
-    for r in s.relations:
-        table.problem(r.line, r.column, "relations between symbols (such as Nf > Nc) are "
-                                        "not evaluated yet; bound each symbol by numbers")
-
-
 _OUT = (Bind("outputs", "value"),)
 _FOR = Use("clauses", ("symbol",), "symbol to substitute")
 
@@ -278,7 +270,7 @@ _FOR = Use("clauses", ("symbol",), "symbol to substitute")
 #: handlers must cover exactly its keys.
 RULES: dict[type, tuple] = {
     n.SymbolDecl: (Bind("names", "symbol"),
-                   Use("relations", expr_kinds=("symbol",)), _relations_not_evaluated),
+                   Use("relations", expr_kinds=("symbol",))),
     n.ConventionDecl: (Bind("name", "convention"),),
     n.BundleDecl: (Use("rank", ("symbol",), "declared integer symbol for the rank"),
                    Bind("names", "bundle")),

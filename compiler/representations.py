@@ -1,5 +1,5 @@
-"""Built-ins on gauge bundles, chiral spinors and constructions: ch(G, rep), tr(G, rep, k),
-tr(G, k), pf(G), S+(B), S-(B), and c, c_k, p, p_k, e of a bundle construction.
+"""Built-ins on gauge bundles and constructions: ch(G, rep), tr(G, rep, k),
+tr(G, k), pf(G), and c, c_k, p, p_k, e of a bundle construction.
 
 Each is a small function ``(evaluator, call node) -> value`` that the
 expression evaluator's table chooses; the group theory is in
@@ -11,8 +11,8 @@ from __future__ import annotations
 
 from functools import wraps
 
+from . import constructions
 from .algebra import gauge, newton
-from .algebra.genera import BundleValue
 from .algebra.weights import GroupError
 from .statements import expr_nodes as en
 
@@ -71,12 +71,6 @@ def pfaffian(ev, node: en.Call):
     return gauge.pfaffian(ev.scope.ring, gauge_arg(ev, node))
 
 
-def chiral_spinor(ev, node: en.Call) -> BundleValue:
-    """S+(B) or S-(B), a construction inside ch(...)."""
-    ev.arity(node, 1)
-    return BundleValue.chiral(ev.scope.bundles, ev.bundle_arg(node), 1 if node.func == "S+" else -1)
-
-
 # ---------------------------------------------------------------- classes of constructions
 
 def or_built(declared, built):
@@ -105,7 +99,7 @@ def _real(ev, node) -> bool:
 
 def _construction(ev, node: en.Call):
     ev.arity(node, 1)
-    value = ev.construction(node.args[0])
+    value = constructions.construction(ev, node.args[0])
     return value, _real(ev, node.args[0])
 
 

@@ -35,6 +35,9 @@ class ValueRecord:
     text: str
     latex: str
     degrees: list[int] = field(default_factory=list)
+    #: The degree from which the value is not known (``truncate`` dropped what
+    #: it depends on); None when it is exact.  ``text`` and ``latex`` show it.
+    unknown_from: Optional[int] = None
 
 
 @dataclass
@@ -117,6 +120,8 @@ class Report:
     warnings: list = field(default_factory=list)
     #: How many steps were replayed from the build cache rather than computed.
     cached_steps: int = 0
+    #: How many ``@{NAME}`` in prose show a value beyond its known precision.
+    prose_errors: int = 0
 
     @property
     def steps(self) -> list[Step]:
@@ -124,7 +129,7 @@ class Report:
 
     @property
     def passed(self) -> bool:
-        return all(s.status in ("proven", "sampled") for s in self.steps)
+        return not self.prose_errors and all(s.status in ("proven", "sampled") for s in self.steps)
 
     def count(self, status: str) -> int:
         """How many checks over all steps ended in ``status``."""

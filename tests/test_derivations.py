@@ -238,6 +238,14 @@ def test_general_fiber(bundled):
     assert_proven(record, "check s2 == c1(E)^2 - c2(E)")
     assert_proven(record, "check s4 == c1(E)^4 - 3*c1(E)^2*c2(E) + c2(E)^2")
     assert record["values"]["index8"]["degrees"] == [8]
+    # fibers given by their point class; Griffiths and Harris, "Principles of
+    # Algebraic Geometry" (1978): deg G(2,4) = 2 (ch. 1.5), K^2 = 8 and χ = 4
+    # for every Hirzebruch surface (ch. 4.3)
+    assert_proven(record, "check lines == 2")
+    assert_proven(record, "check x2y == 1")
+    assert_proven(record, "check K2 == 8")
+    assert_proven(record, "check chi_Fn == 4")
+    assert_proven(record, "check self_s == -h")
 
 
 def test_spindle_d3(bundled):
@@ -263,6 +271,22 @@ def test_spindle_d3(bundled):
                               "line L: north = -t/(3*n1), south = -t/(3*n2)")
     assert any(c["what"] == "the degree of c1(L) over D is integral up to the orders"
                for c in fiber["checks"])
+
+
+def test_sqcd_duality(bundled):
+    record = bundled("sqcd-duality").record
+    # Seiberg, "Electric-magnetic duality in supersymmetric non-Abelian gauge
+    # theories" (1994); Intriligator and Wecht, "The exact superconformal
+    # R-symmetry maximizes a" (2003): the electric and magnetic anomalies, a and c agree
+    assert_proven(record, "check I_mag == I_el")
+    assert_proven(record, "check a_mag == a_el")
+    assert_proven(record, "check c_mag == c_el")
+    # Anselmi, Freedman, Grisaru and Johansen (1998) with Tr R = -Nc^2 - 1 and
+    # Tr R^3 = Nc^2 - 1 - 2 Nc^4/Nf^2 for R_Q = 1 - Nc/Nf (Seiberg 1994)
+    assert_proven(record, "check a_el == 3/32*(4*Nc^2 - 2 - 6*Nc^4/Nf^2)")
+    # signs decided from the window Nc < Nf < 3*Nc, not from sample points
+    for claim in ("check R_Q > 0", "check Nt >= 1", "check R_q > 0", "check R_M > 0"):
+        assert_proven(record, claim)
 
 
 def test_check_command_passes_all_documents(bundled, bundled_folder, anomark):

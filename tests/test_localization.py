@@ -4,8 +4,8 @@ from fractions import Fraction
 import pytest
 import sympy
 
-from compiler.algebra.fibers import (FiberError, declare_fiber_classes, general_fiber,
-                                     surface_fiber)
+from compiler.algebra.fibers import FiberError, surface_fiber
+from compiler.algebra.general_fibers import declare_fiber_classes, general_fiber
 from compiler.algebra.fibers import integrate as integrate_by_relations
 from compiler.algebra.graded import Ring
 from compiler.algebra.fixed_points import (consistency_checks, localized_fiber,

@@ -167,7 +167,7 @@ truncate: 6
 def test_rank_symbol_must_be_a_nonnegative_integer(tmp_path):
     report = compile_text(tmp_path / "a.md", DOC.format(
         body="symbol N: integer\nbundle V: complex, rank N"))
-    assert any(":8:1: the rank N must be a symbol declared integer and nonnegative" in d
+    assert any(":8:25: the rank N must be a symbol declared integer and nonnegative" in d
                for d in report.diagnostics), report.diagnostics
     with pytest.raises(DocumentError, match="unknown name 'M'"):
         compile_text(tmp_path / "b.md", DOC.format(body="bundle V: complex, rank M"))

@@ -27,6 +27,7 @@ from ..algebra.graded import AlgebraError
 from ..document import Block, ProsePart, read_document
 from ..errors import DocumentError, Location, Problem
 from ..expressions import Missing, MissingValue
+from ..precision import prose_read
 from ..results import CheckResult, Prose, Report, Step, ValueRecord
 from ..statements import nodes as n
 from ..statements.parser import parse_block
@@ -153,6 +154,10 @@ class Run:
         self.counted: set[int] = set()
         #: The line of the step that ran out of build time; later steps do not run.
         self.out_of_time: Optional[int] = None
+        #: Line of an error step → where inside the statement its problem is.
+        self.error_at: dict[int, Location] = {}
+        #: ``@{NAME}`` in prose that show a value beyond its known precision.
+        self.prose_errors = 0
 
     # ------------------------------------------------------------ running
 
@@ -183,12 +188,22 @@ class Run:
             abstract=front.abstract, conventions=scope.report_conventions(),
             truncate=front.truncate, items=items, values=values,
             allow_html=self.options.allow_html, diagnostics=self._diagnostics(),
-            warnings=list(self.document.warnings), cached_steps=self.layer.restored)
+            warnings=list(self.document.warnings), cached_steps=self.layer.restored,
+            prose_errors=self.prose_errors)
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
-        """Each @{NAME}: the binding in force at that line, else the first one."""
-        return {ref.name: _at(self.scope.history[ref.name], ref.line)
-                for ref in part.refs if self.scope.history.get(ref.name)}
+        """Each @{NAME}: the binding in force at that line, else the first one.
+        Showing a value that is not known in every degree it reads is an error."""
+        shown = {}
+        for ref in part.refs:
+            if self.scope.history.get(ref.name):
+                rec = shown[ref.name] = _at(self.scope.history[ref.name], ref.line)
+                problem = prose_read(rec, self.scope.ring.truncate, f"@{{{ref.name}}}")
+                if problem:
+                    self.prose_errors += 1
+                    self.problems.append([Problem(Location(self.path, ref.line, ref.column),
+                                                  problem), 0])
+        return shown
 
     def run_statement(self, index: int, s) -> Step:
         """One statement; a ``use`` first runs its document's statements
@@ -262,6 +277,7 @@ class Run:
                     origin: int | None = None) -> None:
         """An error step: everything the statement would have bound has no value."""
         step.checks.append(CheckResult(STEP_RUNS, "error", problem.message))
+        self.error_at[s.line] = problem.location
         self.scope.bind_missing(names_pass.bound_names(s), s.line)
         if not follow_on:
             return
@@ -283,7 +299,10 @@ class Run:
                 continue
             form = MESSAGES.get((check.status, check.what), MESSAGES[check.status])
             message = form.format(what=check.what, detail=check.detail).removesuffix(": ")
-            self.problems.append([Problem(Location(self.path, s.line, s.column), message), 0])
+            where = Location(self.path, s.line, s.column)
+            if check.what == STEP_RUNS:
+                where = self.error_at.get(s.line, where)
+            self.problems.append([Problem(where, message), 0])
         if s.line == self.out_of_time:  # the steps it keeps from running are counted on its line
             self.follow_ons[s.line] = len(self.problems) - 1
 
