@@ -212,22 +212,25 @@ def make_report(document: str = "derivations/twisted.md") -> Report:
 
 # ---------------------------------------------------------------- bundle tables
 
-def bundle_table(truncate: int = 12):
-    """A bundle table over a ring with no symbols (imported here, so a moved
-    algebra module breaks only the tests that use it)."""
+def bundle_table(truncate: int = 12, **bundles: str):
+    """A bundle table over a ring with no symbols, with ``bundles`` declared in
+    the order given as ``name="kind [rank]"`` (``NW="real 5"``, ``L="line"``).
+    The algebra is imported here, so a moved module breaks only the tests that
+    use it."""
     from compiler.algebra.bundles import BundleTable
     from compiler.algebra.graded import Ring
 
-    return BundleTable(Ring([], truncate))
+    table = BundleTable(Ring([], truncate))
+    for name, spec in bundles.items():
+        kind, *rank = spec.split()
+        table.declare(name, kind, *map(int, rank))
+    return table
 
 
 def whitney_sum(ranks):
     """Real bundles A0, A1, ... of the given ranks and B split as their sum."""
-    t = bundle_table()
     names = [f"A{k}" for k in range(len(ranks))]
-    for name, r in zip(names, ranks):
-        t.declare(name, "real", r)
-    t.declare("B", "real", sum(ranks))
+    t = bundle_table(**{name: f"real {r}" for name, r in zip(names, ranks)}, B=f"real {sum(ranks)}")
     t.split("B", names)
     return t, names
 
