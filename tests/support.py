@@ -75,6 +75,25 @@ def visible(folder: Path) -> list[str]:
 
 # ---------------------------------------------------------------- derive blocks, parsed
 
+#: The format spec's declaration examples, verbatim, in an order that compiles
+#: (the surface fiber declares TS before the split that uses it).
+SPEC_DECLARATIONS = """\
+symbol N, k: integer, positive      # assumptions: integer, positive, nonnegative, real, nonzero
+symbol g: integer, g >= 2           # bounds: g >= 2, z > 0, 0 < x < 1
+symbol z: real, z > 0
+symbol eps: real
+convention angular_integral = 2     # default value; front matter or --set overrides it
+bundle T4: real, rank 4
+bundle T6: real, rank 6             # oriented real bundle: p1(T6) .. p3(T6), e(T6)
+bundle NW: real, rank 5             # p1(NW), p2(NW); odd rank, so no e(NW)
+bundle L1, L2: line                 # complex line bundles: c1(L1), c1(L2)
+bundle V: complex, rank 3           # c1(V) .. c3(V)
+fiber Sigma: surface, genus g, tangent TS
+split T6 = T4 + TS                  # Whitney sum (TS declared earlier, e.g. by a surface fiber)
+split NW = L1 + L2 + trivial(1)     # real rank 5 = two oriented planes + a trivial line
+"""
+
+
 def parse(text: str, first_line: int = 1):
     """The statements of a derive block (dedented) that starts at ``first_line`` of doc.md."""
     return parse_block(textwrap.dedent(text).strip("\n"), first_line, "doc.md")

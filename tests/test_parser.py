@@ -11,7 +11,7 @@ from hypothesis import given, settings, strategies as st
 from compiler.errors import DocumentError
 from compiler.statements import clause_nodes as cn, expr_nodes as en, nodes as n, words
 from compiler.statements.parser import parse_block
-from support import parse, parse_problem, parse_problems
+from support import SPEC_DECLARATIONS, parse, parse_problem, parse_problems
 
 
 def one(text: str, first_line: int = 1):
@@ -565,20 +565,7 @@ def test_pathological_nesting_and_length_are_document_errors(text):
 def test_the_spec_examples_parse():
     # Verbatim from the format spec's Declarations, Definitions, Operations,
     # Fibers, Checks and Display examples.
-    block = r"""
-symbol N, k: integer, positive      # assumptions: integer, positive, nonnegative, real, nonzero
-symbol g: integer, g >= 2           # bounds: g >= 2, z > 0, 0 < x < 1
-symbol z: real, z > 0
-symbol eps: real
-convention angular_integral = 2     # default value; front matter or --set overrides it
-bundle T4: real, rank 4
-bundle T6: real, rank 6             # oriented real bundle: p1(T6) .. p3(T6), e(T6)
-bundle NW: real, rank 5             # p1(NW), p2(NW); odd rank, so no e(NW)
-bundle L1, L2: line                 # complex line bundles: c1(L1), c1(L2)
-bundle V: complex, rank 3           # c1(V) .. c3(V)
-split T6 = T4 + TS                  # Whitney sum (TS declared earlier, e.g. by a surface fiber)
-split NW = L1 + L2 + trivial(1)     # real rank 5 = two oriented planes + a trivial line
-let I8_free = 1/48*(p2(NW) - p2(T6) + 1/4*(p1(T6) - p1(NW))^2)
+    block = SPEC_DECLARATIONS + r"""let I8_free = 1/48*(p2(NW) - p2(T6) + 1/4*(p1(T6) - p1(NW))^2)
 let I8 = (N - 1)*I8_free + (N^3 - N)/24*p2(NW)
 substitute I8: c1(L1) = (1 + eps)*c1(R) - p/(2*g - 2)*e(TS), \
                c1(L2) = (1 - eps)*c1(R) - q/(2*g - 2)*e(TS)  -> I8tw
@@ -588,7 +575,6 @@ coefficients I6 of c1(R)^3, c1(R)*p1(T4) -> kRRR, kR
 maximize a over eps -> eps_star, a_star
 minimize f over x -> x0, f0
 extremize f over x, y -> (x0, y0), f0
-fiber Sigma: surface, genus g, tangent TS
 fiber S4: sphere of NW, angular e4
 fiber F: dimension 2
   class x: 2
@@ -606,6 +592,6 @@ integrate e4^3 over S4 -> m
 """
     statements = parse_block(block.strip("\n"), 1, "doc.md")
     assert len(statements) == 33
-    assert [s.line for s in statements][:15] == list(range(1, 16))
-    assert statements[14].end_line == 16
+    assert [s.line for s in statements][:16] == list(range(1, 17))
+    assert statements[15].end_line == 17
     assert isinstance(statements[23], n.GeneralFiber) and statements[23].end_line == 28
