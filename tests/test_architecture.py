@@ -102,7 +102,6 @@ def test_the_statement_syntax_needs_no_sympy_and_no_algebra():
     assert offending("compiler.statements", forbidden=forbidden) == {}
 
 
-@pytest.mark.xfail(strict=True, reason="notation moving into one step (issue 8)")
 def test_the_renderers_read_only_results_errors_and_markdown():
     allowed = ("compiler.results", "compiler.errors", "compiler.markdown", "compiler.render")
     assert offending("compiler.render", allowed=allowed) == {}

@@ -189,7 +189,8 @@ class Run:
             truncate=front.truncate, items=items, values=values,
             allow_html=self.options.allow_html, diagnostics=self._diagnostics(),
             warnings=list(self.document.warnings), cached_steps=self.layer.restored,
-            prose_errors=self.prose_errors)
+            prose_errors=self.prose_errors,
+            notation=dict(front.notation), headline=list(front.results))
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
         """Each @{NAME}: the binding in force at that line, else the first one.

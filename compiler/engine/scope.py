@@ -24,6 +24,8 @@ from ..errors import DocumentError, Location
 from ..expressions import Evaluator, Missing, MissingValue, Scope, Value, from_expr, rational_value
 from ..precision import Known, Precision, unknown_above
 from ..results import ValueRecord
+from ..presentation import display_tree
+from ..render.printers import LatexPrinter
 from ..statements import nodes as n
 from .cache import digest
 from .entries import value_to_data
@@ -232,15 +234,13 @@ def fraction_text(value: Fraction) -> str:
 
 
 def record(name: str, value: Value, unknown_from: int | None = None) -> ValueRecord:
-    """A value as the renderers see it; ``unknown_from`` is the degree from
-    which it is not known (shown as an order term, like a series' O(x^n))."""
-    if isinstance(value, Element):
-        shown = ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
-    else:
-        shown = ValueRecord(name, notation.text(value), notation.latex(value),
-                            [] if value == 0 else [0])
+    """A value as the renderers see it: normal-form text, display tree and its
+    LaTeX; ``unknown_from`` is the degree from which it is not known (shown as
+    an order term, like a series' O(x^n))."""
+    tree = display_tree(value)
+    text = value.to_text() if isinstance(value, Element) else notation.text(value)
+    degrees = value.degrees() if isinstance(value, Element) else [] if value == 0 else [0]
     if unknown_from is not None:
-        shown.unknown_from = unknown_from
-        shown.text += f" + O(degree >= {unknown_from})"
-        shown.latex += rf" + \mathcal{{O}}(\deg \geq {unknown_from})"
-    return shown
+        tree = ["add", *(tree[1:] if tree[0] == "add" else [tree]), ["order", unknown_from]]
+        text += f" + O(degree >= {unknown_from})"
+    return ValueRecord(name, text, LatexPrinter().doprint(tree), degrees, tree, unknown_from)
