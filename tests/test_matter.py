@@ -66,11 +66,12 @@ BAD = [
 
 
 @pytest.mark.parametrize("body, line, message", BAD, ids=[b[2] for b in BAD])
-def test_bad_field_content_is_an_error_at_its_statement(tmp_path, capsys, body, line, message):
+def test_bad_field_content_is_an_error_at_its_field_line(tmp_path, capsys, body, line, message):
     head = "bundle T: real, rank 6\nbundle L: line\nbundle V: complex, rank 2\n"
     status, err, _ = build_snippet(tmp_path, capsys, head + body)
     assert status == 2, err
-    assert f"doc.md:{line + 3}:" in err and message in err, err
+    # the statement is on line + 3 of the file, the offending field on the line below it
+    assert f"doc.md:{line + 4}:" in err and message in err, err
 
 
 @pytest.mark.parametrize("body, message", [
