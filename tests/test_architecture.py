@@ -126,7 +126,6 @@ def test_the_command_line_reaches_the_rest_through_engine_renderers_and_diff():
     assert {m: i for owner in COMMAND_LINE for m, i in offending(owner, allowed=allowed).items()} == {}
 
 
-@pytest.mark.xfail(strict=False, reason="modules being split (issue 8)")
 def test_no_module_is_over_450_lines():
     sizes = {module_name(p): len(p.read_text(encoding="utf-8").splitlines()) for p in PACKAGE.rglob("*.py")}
     assert {m: n for m, n in sizes.items() if n > MAX_LINES} == {}
