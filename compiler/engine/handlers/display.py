@@ -11,7 +11,7 @@ from ...checks import free_symbols, show, substitute
 from ...expressions import as_expr, is_class_free
 from ...precision import unknown_above
 from ...results import PlotData, Step, TableData
-from ...statements import nodes as n
+from ...statements import expr_nodes as en, nodes as n
 from ..scope import fraction_text, record
 
 #: Sample points along a plotted interval (both ends included).
@@ -19,7 +19,7 @@ PLOT_SAMPLES = 121
 
 
 def _label(node) -> str:
-    return node.id if isinstance(node, n.Name) else ""
+    return node.id if isinstance(node, en.Name) else ""
 
 
 def _show(scope, s: n.Show, step: Step) -> None:
@@ -34,7 +34,7 @@ def _table(scope, s: n.Table, step: Step) -> None:
     points = scope.points(s.clauses)
     params = [c.name for c in s.clauses]
     columns = [notation.name_latex(p) for p in params]
-    columns += [notation.name_latex(node.id) if isinstance(node, n.Name) else r"\cdots"
+    columns += [notation.name_latex(node.id) if isinstance(node, en.Name) else r"\cdots"
                 for node in s.exprs]
     rows, text_rows = [], []
     for point in points or [{}]:
