@@ -153,6 +153,8 @@ class Run:
         self.counted: set[int] = set()
         #: The line of the step that ran out of build time; later steps do not run.
         self.out_of_time: Optional[int] = None
+        #: Where the running step's own error points (a sub-expression), for its diagnostic.
+        self.error_at: Optional[Location] = None
 
     # ------------------------------------------------------------ running
 
@@ -264,6 +266,7 @@ class Run:
         step.checks.append(CheckResult(STEP_RUNS, "error", problem.message))
         self.scope.bind_missing(names_pass.bound_names(s), s.line)
         if not follow_on:
+            self.error_at = problem.location
             return
         root = self.roots.get(origin, origin)
         self.roots[s.line] = root
@@ -276,6 +279,7 @@ class Run:
 
     def _note(self, step: Step, s) -> None:
         """One diagnostic for each failed or errored check a step has (its own, not a follow-on)."""
+        error_at, self.error_at = self.error_at, None
         if s.line in self.counted:
             return
         for check in step.checks:
@@ -283,7 +287,8 @@ class Run:
                 continue
             form = MESSAGES.get((check.status, check.what), MESSAGES[check.status])
             message = form.format(what=check.what, detail=check.detail).removesuffix(": ")
-            self.problems.append([Problem(Location(self.path, s.line, s.column), message), 0])
+            where = error_at if check.what == STEP_RUNS and error_at else Location(self.path, s.line, s.column)
+            self.problems.append([Problem(where, message), 0])
         if s.line == self.out_of_time:  # the steps it keeps from running are counted on its line
             self.follow_ons[s.line] = len(self.problems) - 1
 
