@@ -20,9 +20,9 @@ from dataclasses import dataclass
 
 import sympy
 
-from . import expressions as ex, notation
+from . import expressions as ex, notation, precision
 from .errors import DocumentError, InternalError
-from .statements import nodes as n
+from .statements import expr_nodes as en
 
 #: Most terms a sum or product with numeric bounds expands.
 MAX_RANGE_TERMS = 10_000
@@ -42,18 +42,18 @@ class Function:
     origin: str
 
 
-def apply(ev, node: n.Apply):
+def apply(ev, node: en.Apply):
     kind, fn = ev.lookup(node.func, node.line, node.column)
     if kind != "function":
         raise ev.fail(node, f"'{node.func}' is a {kind}, not a function")
     if len(node.args) != len(fn.params):
         raise ev.fail(node, f"{fn.name}() takes {len(fn.params)} arguments, found {len(node.args)}")
-    args = [ev.evaluate(arg) for arg in node.args]
+    args = [ev.known(arg) for arg in node.args]
     frame = dict(fn.captured)
-    frame.update((p, ("value", value)) for p, value in zip(fn.params, args))
+    frame.update((p, ("value", k.value, k.exact_to)) for p, k in zip(fn.params, args))
     try:
         with ev.frame(frame):
-            return ev.evaluate(fn.body)
+            return ev.known(fn.body)
     except ex.MissingValue:
         raise
     except DocumentError as err:
@@ -61,8 +61,8 @@ def apply(ev, node: n.Apply):
                             f"{err.problems[0].message}") from None
 
 
-def sum_or_prod(ev, node: n.Sum):
-    low, high = ev.evaluate(node.low), ev.evaluate(node.high)
+def sum_or_prod(ev, node: en.Sum):
+    low, high = ev.read(node.low, 0).value, ev.read(node.high, 0).value
     for bound, value in ((node.low, low), (node.high, high)):
         if not ex.is_class_free(value):
             raise ev.fail(bound, f"a bound of {node.op}() must be a number or a symbol's value")
@@ -80,35 +80,37 @@ def sum_or_prod(ev, node: n.Sum):
     return _faulhaber(ev, node, ex.as_expr(low), ex.as_expr(high))
 
 
-def _expand(ev, node: n.Sum, a: int, b: int):
+def _expand(ev, node: en.Sum, a: int, b: int):
     count = b - a + 1
     if count > MAX_RANGE_TERMS:
         raise ev.fail(node, f"{node.op}() over {node.index} = {a}..{b} has {count} terms; "
                             f"the limit for numeric bounds is {MAX_RANGE_TERMS} terms")
     ring = ev.scope.ring
-    total = ring.zero() if node.op == "sum" else ring.one()
+    total = precision.Known(ring.zero() if node.op == "sum" else ring.one())
     for k in range(a, b + 1):
         with ev.frame(ev.with_local(node.index, ring.scalar(k))):
-            term = ev.evaluate(node.body)
-        total, term = ex.unify(ring, total, term)
-        total = total + term if node.op == "sum" else total * term
+            term = ev.known(node.body)
+        left, right = ex.unify(ring, total.value, term.value)
+        total = (precision.Known(left + right, precision.smallest(total.exact_to, term.exact_to))
+                 if node.op == "sum" else
+                 precision.Known(left * right, precision.product(total, term, ring.truncate)))
     return total
 
 
-def _faulhaber(ev, node: n.Sum, low, high):
+def _faulhaber(ev, node: en.Sum, low, high):
     k = sympy.Dummy(str(node.index), integer=True)
     try:
         with ev.frame(ev.with_local(node.index, k)):
-            summand = ev.evaluate(node.body)
+            summand = ev.read(node.body, 0)
     except ex.MissingValue:
         raise
     except DocumentError as err:
         raise ev.fail(node, f"{err.problems[0].message} (with symbolic bounds the summand "
                             f"must be class-free and polynomial in {node.index})") from None
-    if not ex.is_class_free(summand):
+    if not ex.is_class_free(summand.value):
         raise ev.fail(node.body, "with symbolic bounds the summand must be class-free; "
                                  "give integer bounds to sum classes")
-    p = ex.as_expr(summand)
+    p = ex.as_expr(summand.value)
     if not p.is_polynomial(k):
         raise ev.fail(node.body, f"sum() with symbolic bounds needs a summand polynomial in "
                                  f"{node.index}; {notation.text(p.subs(k, sympy.Symbol(str(node.index))))}"
@@ -118,7 +120,9 @@ def _faulhaber(ev, node: n.Sum, low, high):
     # Telescoping proves the closed form: S(m) - S(m - 1) = p(m).
     if sympy.expand(partial - partial.subs(m, m - 1) - p.subs(k, m)) != 0:
         raise InternalError(f"Faulhaber closed form of {p} does not telescope")
-    return ex.from_expr(ev.scope.ring, sympy.expand(partial.subs(m, high) - partial.subs(m, low - 1)))
+    return precision.Known(ex.from_expr(ev.scope.ring,
+                                 sympy.expand(partial.subs(m, high) - partial.subs(m, low - 1))),
+                    summand.exact_to)
 
 
 def _partial_sum(poly: sympy.Poly, m):

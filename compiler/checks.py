@@ -62,6 +62,13 @@ class Context:
     def declared(self, symbols) -> bool:
         return all(s in self.specs for s in symbols)
 
+    def at(self, point: dict) -> "Context":
+        """The context once ``point`` fixes some symbols (see ``Region.fixing``)."""
+        if not point:
+            return self
+        left = self.region.fixing(point)
+        return Context(self.ring, {s.symbol: s for s in left.specs}, self.seed, left.relations)
+
 
 def substitute(ring, value: Value, point: dict) -> Value:
     """``value`` with the symbols of ``point`` replaced by exact numbers."""
@@ -89,10 +96,11 @@ def claim(lhs: Value, op: str, rhs: Value, points: list[dict], ctx: Context,
         try:
             left = substitute(ctx.ring, lhs, point)
             right = substitute(ctx.ring, rhs, point)
+            here = ctx.at(point)
         except (ZeroDivisionError, ValueError) as exc:
             results.append(("error", f"at {describe_point(point)}: {exc}"))
             continue
-        status, detail = DECIDERS[op](left, right, ctx)
+        status, detail = DECIDERS[op](left, right, here)
         if point and detail:
             detail = f"at {describe_point(point)}: {detail}"
         results.append((status, detail))

@@ -25,7 +25,7 @@ from .engine import BuildOptions, build
 from .errors import DocumentError, Location
 from .render.html import to_html
 from .render.json import to_json
-from .render.tex import plot_files, to_tex
+from .render.tex import STYLES, plot_files, to_tex
 from .results import STATUSES
 
 FORMATS = ("html", "json", "tex")
@@ -78,6 +78,8 @@ def parser() -> argparse.ArgumentParser:
                    help="comma-separated, from html,json,tex (default: html,json)")
     b.add_argument("--standalone", action="store_true",
                    help="LaTeX as a whole article rather than a fragment to \\input")
+    b.add_argument("--tex-style", choices=STYLES, default="appendix",
+                   help="appendix: results and claims for a paper (default); audit: every statement and check")
     common(b)
 
     c = command("check", "compile and check without writing files", usage.CHECK, usage.CHECK_EPILOG)
@@ -232,7 +234,7 @@ def compile_file(args, path: str):
 
 def status_of(report) -> int:
     statuses = {s.status for s in report.steps}
-    return 2 if "error" in statuses else 1 if "failed" in statuses else 0
+    return 2 if "error" in statuses or report.prose_errors else 1 if "failed" in statuses else 0
 
 
 def write_whole(files: dict[Path, bytes]) -> None:
@@ -302,7 +304,7 @@ def report_files(args, report, formats) -> dict[Path, bytes]:
     if "json" in formats:
         files[out / f"{stem}.json"] = to_json(report).encode("utf-8")
     if "tex" in formats:
-        files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone).encode("utf-8")
+        files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone, style=args.tex_style).encode("utf-8")
         for name, data in plot_files(report).items():
             files[out / name] = data
     return files

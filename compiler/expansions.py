@@ -14,11 +14,13 @@ import sympy
 
 from . import expressions as ex, notation
 from .algebra.radicals import tidy
-from .statements import nodes as n
+from .precision import Known
+from .statements import expr_nodes as en
 
 
-def expand(ev, node: n.Expansion):
-    value = ev.evaluate(node.target)
+def expand(ev, node: en.Expansion):
+    known = ev.read(node.target, 0)
+    value = known.value
     if not ex.is_class_free(value):
         raise ev.fail(node.target, f"{node.op}() expands class-free values; this one has "
                                    "classes (take a coefficient first)")
@@ -29,7 +31,7 @@ def expand(ev, node: n.Expansion):
                             f"'{node.variable}' is a {kind}")
     f = ex.as_expr(value)
     if x not in f.free_symbols:
-        return value
+        return known
     t = sympy.Dummy("t", positive=True)
     if node.point is None:
         inner, back = 1 / t, 1 / x
@@ -52,5 +54,5 @@ def expand(ev, node: n.Expansion):
         raise ev.fail(node, f"{node.op}() of {notation.text(f)} in {x}: sympy cannot expand it "
                             f"({exc})") from None
     if not terms:
-        return ev.scope.ring.zero()
-    return ex.from_expr(ev.scope.ring, sympy.Add(*terms))
+        return Known(ev.scope.ring.zero(), known.exact_to)
+    return Known(ex.from_expr(ev.scope.ring, sympy.Add(*terms)), known.exact_to)

@@ -15,18 +15,17 @@ from __future__ import annotations
 
 from contextlib import contextmanager
 from fractions import Fraction
-from typing import Callable, Union
+from typing import Union
 
 import sympy
 
-from . import calls, expansions, notation
-from .algebra import budget, genera
-from .algebra.radicals import tidy
-from .algebra.genera import BundleValue
+from . import calls, expansions, functions, notation
+from .algebra import budget
 from .algebra.errors import AlgebraError, NotRational
 from .algebra.graded import Element
 from .errors import DocumentError, Location
-from .statements import nodes as n
+from .precision import Known, beyond, power, product, quotient, smallest, whole
+from .statements import expr_nodes as en
 
 Value = Union[Element, sympy.Expr]
 
@@ -48,6 +47,14 @@ class MissingValue(DocumentError):
         self.line = line  # the step that did not produce it
 
 
+#: Kinds of names that have no value of their own, and what to say instead.
+_NOT_VALUES = {
+    "bundle": "'{0}' is a bundle; use it inside a class such as p1({0})",
+    "fiber": "'{0}' is a fiber; integrate over it",
+    "gauge": "'{0}' is a gauge bundle; use it inside ch({0}, adjoint) or tr({0}, 2)",
+}
+
+
 class Scope:
     """What the evaluator needs from the engine: names and the algebra."""
 
@@ -58,6 +65,10 @@ class Scope:
     def lookup(self, name: str, line: int, column: int):  # -> (kind, value)
         raise NotImplementedError
 
+    def exact_to(self, name: str):
+        """The degree up to which a bound value is exact (None: in every degree)."""
+        return None
+
     def note_class_use(self, bundle: str, line: int) -> None:
         """Remember that a value mentions ``bundle``'s classes (for split order)."""
 
@@ -66,14 +77,21 @@ class Evaluator:
     def __init__(self, scope: Scope, path: str):
         self.scope = scope
         self.path = path
-        #: Local names (parameters, sum indices) in force: name -> (kind, value).
+        #: Local names (parameters, sum indices) in force:
+        #: name -> (kind, value, the degree up to which the value is exact).
         self.frames: list[dict] = []
 
     def lookup(self, name: str, line: int, column: int):
-        """A local name first, then the document's."""
+        """A local name first, then the document's: (kind, value)."""
         if self.frames and name in self.frames[-1]:
-            return self.frames[-1][name]
+            return self.frames[-1][name][:2]
         return self.scope.lookup(name, line, column)
+
+    def exact_to(self, name: str):
+        """The degree up to which a name's value is exact, local names first."""
+        if self.frames and name in self.frames[-1]:
+            return self.frames[-1][name][2]
+        return self.scope.exact_to(name)
 
     @contextmanager
     def frame(self, names: dict):
@@ -84,8 +102,8 @@ class Evaluator:
             self.frames.pop()
 
     def with_local(self, name: str, value) -> dict:
-        """The frame in force plus one local value."""
-        return {**(self.frames[-1] if self.frames else {}), name: ("value", value)}
+        """The frame in force plus one local value (a number: exact)."""
+        return {**(self.frames[-1] if self.frames else {}), name: ("value", value, None)}
 
     def fail(self, node, message: str) -> DocumentError:
         return DocumentError(Location(self.path, node.line, node.column), message)
@@ -93,6 +111,10 @@ class Evaluator:
     # ------------------------------------------------------------ node kinds
 
     def evaluate(self, node) -> Value:
+        return self.known(node).value
+
+    def known(self, node) -> Known:
+        """The value of ``node`` with the degree up to which it is exact."""
         budget.check()  # every node: a long evaluation stops at its deadline in any thread
         method = getattr(self, "_eval_" + type(node).__name__)
         try:
@@ -102,48 +124,60 @@ class Evaluator:
                 raise
             raise self.fail(node, str(exc) or type(exc).__name__) from None
 
-    def _eval_Num(self, node: n.Num) -> Value:
-        return self.scope.ring.scalar(node.value)
+    def read(self, node, degree: int | None = None) -> Known:
+        """The value of ``node`` read in ``degree`` (None: as a whole); an
+        error if that degree is beyond what is exact."""
+        k = self.known(node)
+        truncate = self.scope.ring.truncate
+        what = f"this use of {node.id}" if isinstance(node, en.Name) else "this expression"
+        problem = (whole(k, truncate, what) if degree is None
+                   else beyond(k, degree, truncate, what))
+        if problem:
+            raise self.fail(node, problem)
+        return k
 
-    def _eval_Name(self, node: n.Name) -> Value:
+    def _eval_Num(self, node: en.Num) -> Known:
+        return Known(self.scope.ring.scalar(node.value))
+
+    def _eval_Name(self, node: en.Name) -> Known:
         kind, value = self.lookup(node.id, node.line, node.column)
-        if kind in ("bundle", "fiber"):
-            raise self.fail(node, f"'{node.id}' is a {kind}; use it inside a class such as p1({node.id})"
-                            if kind == "bundle" else f"'{node.id}' is a fiber; integrate over it")
-        return value
+        if kind in _NOT_VALUES:
+            raise self.fail(node, _NOT_VALUES[kind].format(node.id))
+        return Known(value, self.exact_to(node.id))
 
-    def _eval_Unary(self, node: n.Unary) -> Value:
-        value = self.evaluate(node.operand)
-        return -value if node.op == "-" else value
+    def _eval_Unary(self, node: en.Unary) -> Known:
+        k = self.known(node.operand)
+        return Known(-k.value, k.exact_to) if node.op == "-" else k
 
-    def _eval_Binary(self, node: n.Binary) -> Value:
+    def _eval_Binary(self, node: en.Binary) -> Known:
         if node.op == "^":
             return self._power(node)
         # Walk a left-associative chain (a + b - c + ...) without recursing
         # on its left spine, so long sums stay shallow.
         family = ("+", "-") if node.op in ("+", "-") else ("*", "/")
         chain = []
-        while isinstance(node, n.Binary) and node.op in family:
+        while isinstance(node, en.Binary) and node.op in family:
             chain.append(node)
             node = node.left
-        value = self.evaluate(node)
+        value = self.known(node)
         for link in reversed(chain):
-            value = self._apply(link, value, self.evaluate(link.right))
+            value = self._apply(link, value, self.known(link.right))
         return value
 
-    def _apply(self, node: n.Binary, left: Value, right: Value) -> Value:
+    def _apply(self, node: en.Binary, a: Known, b: Known) -> Known:
         if node.op == "/":
-            return self._divide(node, left, right)
-        left, right = unify(self.scope.ring, left, right)
+            return Known(self._divide(node, a.value, b.value), quotient(a, b))
+        left, right = unify(self.scope.ring, a.value, b.value)
         if node.op == "+":
-            return left + right
+            return Known(left + right, smallest(a.exact_to, b.exact_to))
         if node.op == "-":
-            return left - right
-        return left * right
+            return Known(left - right, smallest(a.exact_to, b.exact_to))
+        return Known(left * right, product(a, b, self.scope.ring.truncate))
 
-    def _power(self, node: n.Binary) -> Value:
-        base = self.evaluate(node.left)
-        exponent = self.evaluate(node.right)
+    def _power(self, node: en.Binary) -> Known:
+        known = self.known(node.left)
+        base = known.value
+        exponent = self.read(node.right, 0).value
         k = integer_value(exponent)
         if k is None:
             raise self.fail(node.right, "an exponent must be an integer")
@@ -152,8 +186,9 @@ class Evaluator:
                 raise self.fail(node, "a negative power needs a class-free base")
             if is_zero(base):
                 raise self.fail(node, "a negative power of zero")
-            return self._divide(node, self.scope.ring.one(), base ** (-k))
-        return base ** k
+            inverse = self._divide(node, self.scope.ring.one(), base ** (-k))
+            return Known(inverse, quotient(Known(inverse), known))
+        return Known(base ** k, power(known, k, self.scope.ring.truncate))
 
     def _divide(self, node, left: Value, right: Value) -> Value:
         if not is_class_free(right):
@@ -163,35 +198,41 @@ class Evaluator:
         left, right = unify(self.scope.ring, left, right)
         return left / right
 
-    def _eval_Call(self, node: n.Call) -> Value:
-        rule = FUNCTIONS.get(node.func)
+    def _eval_Call(self, node: en.Call) -> Known:
+        rule = functions.FUNCTIONS.get(node.func)
         if rule is None:
             prefix = node.func.rstrip("0123456789")
-            if prefix in CLASS_RULES and prefix != node.func:
-                return CLASS_RULES[prefix](self, node, int(node.func[len(prefix):]))
+            if prefix in functions.CLASS_RULES and prefix != node.func:
+                i = int(node.func[len(prefix):])
+                value = functions.CLASS_RULES[prefix](self, node, i)
+                truncate = self.scope.ring.truncate
+                return Known(value, truncate if functions.CLASS_DEGREE[prefix] * i > truncate else None)
             raise self.fail(node, f"'{node.func}' cannot be called here")
-        return rule(self, node)
+        value = rule(self, node)
+        if isinstance(value, Known):
+            return value
+        return Known(value, self.scope.ring.truncate if node.func in functions.TRUNCATED else None)
 
-    def _eval_Apply(self, node: n.Apply) -> Value:
+    def _eval_Apply(self, node: en.Apply) -> Known:
         return calls.apply(self, node)
 
-    def _eval_Sum(self, node: n.Sum) -> Value:
+    def _eval_Sum(self, node: en.Sum) -> Known:
         return calls.sum_or_prod(self, node)
 
-    def _eval_Expansion(self, node: n.Expansion) -> Value:
+    def _eval_Expansion(self, node: en.Expansion) -> Known:
         return expansions.expand(self, node)
 
     # ------------------------------------------------------------ helpers
 
-    def arity(self, node: n.Call, count: int) -> None:
+    def arity(self, node: en.Call, count: int) -> None:
         if len(node.args) != count:
             raise self.fail(node, f"{node.func}() takes {count} argument{'s' if count != 1 else ''}")
 
-    def bundle_arg(self, node: n.Call) -> str:
+    def bundle_arg(self, node: en.Call) -> str:
         """The bundle a class function is applied to, e.g. ``NW`` in ``p2(NW)``."""
         self.arity(node, 1)
         arg = node.args[0]
-        if not isinstance(arg, n.Name):
+        if not isinstance(arg, en.Name):
             raise self.fail(arg, f"{node.func}() takes a bundle name")
         kind, _ = self.lookup(arg.id, arg.line, arg.column)
         if kind != "bundle":
@@ -200,144 +241,10 @@ class Evaluator:
         return arg.id
 
     def integer_arg(self, node) -> int:
-        k = integer_value(self.evaluate(node))
+        k = integer_value(self.read(node, 0).value)
         if k is None:
             raise self.fail(node, "an integer is needed here")
         return k
-
-    def construction(self, node):
-        """A bundle construction inside ``ch(...)``: names, S, dual, +, *, wedge, sym."""
-        if isinstance(node, n.Name):
-            kind, _ = self.lookup(node.id, node.line, node.column)
-            if kind != "bundle":
-                raise self.fail(node, f"'{node.id}' is a {kind}, not a bundle")
-            self.scope.note_class_use(node.id, node.line)
-            return BundleValue.of(self.scope.bundles, node.id)
-        if isinstance(node, n.Binary) and node.op in ("+", "*"):
-            left, right = self.construction(node.left), self.construction(node.right)
-            return left + right if node.op == "+" else left * right
-        if isinstance(node, n.Call) and node.func in CONSTRUCTIONS:
-            return CONSTRUCTIONS[node.func](self, node)
-        raise self.fail(node, "ch() takes a bundle or a bundle construction: "
-                              "S(B), dual(V), V + W, V*W, wedge(V, k), sym(V, k)")
-
-
-# ---------------------------------------------------------------- functions
-# One small function per built-in; the table below chooses.
-
-def _pontryagin(ev: Evaluator, node: n.Call, i: int) -> Value:
-    return ev.scope.bundles.pontryagin(ev.bundle_arg(node), i)
-
-
-def _chern(ev: Evaluator, node: n.Call, i: int) -> Value:
-    return ev.scope.bundles.chern(ev.bundle_arg(node), i)
-
-
-def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
-    """ch_k(X) = part(ch(X), 2k): a generator for a bundle of symbolic rank."""
-    ev.arity(node, 1)
-    return ev.construction(node.args[0]).ch.part(2 * k)
-
-
-CLASS_RULES = {"p": _pontryagin, "c": _chern, "ch": _ch_component}
-
-
-def _euler(ev, node):
-    return ev.scope.bundles.euler(ev.bundle_arg(node))
-
-
-def _total_p(ev, node):
-    return ev.scope.bundles.total_pontryagin(ev.bundle_arg(node))
-
-
-def _total_c(ev, node):
-    return ev.scope.bundles.total_chern(ev.bundle_arg(node))
-
-
-def _ahat(ev, node):
-    return genera.ahat(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _hirzebruch_l(ev, node):
-    return genera.hirzebruch_l(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _todd(ev, node):
-    return genera.todd(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _ch(ev, node):
-    ev.arity(node, 1)
-    return ev.construction(node.args[0]).ch
-
-
-def _part(ev, node):
-    ev.arity(node, 2)
-    value = ev.evaluate(node.args[0])
-    k = ev.integer_arg(node.args[1])
-    if isinstance(value, Element):
-        return value.part(k)
-    return value if k == 0 else ev.scope.ring.zero()
-
-
-def _degree(ev, node):
-    ev.arity(node, 1)
-    value = ev.evaluate(node.args[0])
-    if not isinstance(value, Element):
-        return ev.scope.ring.zero()
-    degrees = value.degrees()
-    if len(degrees) > 1:
-        raise ev.fail(node, "degree() of a value with several degrees: "
-                            + ", ".join(map(str, degrees)))
-    return ev.scope.ring.scalar(degrees[0] if degrees else 0)
-
-
-def _sqrt(ev, node):
-    ev.arity(node, 1)
-    value = ev.evaluate(node.args[0])
-    if not is_class_free(value):
-        raise ev.fail(node, "sqrt() of a value with classes")
-    if as_expr(value).is_negative:
-        raise ev.fail(node, f"sqrt() of a negative value: {notation.text(as_expr(value))}")
-    root = tidy(sympy.sqrt(as_expr(value)), list(ev.scope.specs.values()))
-    return from_expr(ev.scope.ring, root)
-
-
-def _not_here(ev, node):
-    raise ev.fail(node, f"{node.func}() is a bundle construction: use it inside ch(...)"
-                  if node.func in CONSTRUCTIONS else f"{node.func}() belongs in a split statement")
-
-
-FUNCTIONS: dict[str, Callable] = {
-    "e": _euler, "p": _total_p, "c": _total_c, "Ahat": _ahat, "L": _hirzebruch_l,
-    "td": _todd, "ch": _ch, "part": _part, "degree": _degree, "sqrt": _sqrt,
-    "S": _not_here, "dual": _not_here, "wedge": _not_here, "sym": _not_here,
-    "trivial": _not_here,
-}
-
-
-def _spinor(ev, node):
-    ev.arity(node, 1)
-    return BundleValue.spinor(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _dual(ev, node):
-    ev.arity(node, 1)
-    return ev.construction(node.args[0]).dual()
-
-
-def _wedge(ev, node):
-    ev.arity(node, 2)
-    return ev.construction(node.args[0]).wedge(ev.integer_arg(node.args[1]))
-
-
-def _sym(ev, node):
-    ev.arity(node, 2)
-    return ev.construction(node.args[0]).sym(ev.integer_arg(node.args[1]))
-
-
-CONSTRUCTIONS = {"S": _spinor, "dual": _dual, "wedge": _wedge, "sym": _sym}
-
 
 # ---------------------------------------------------------------- value helpers
 
@@ -373,23 +280,22 @@ def unify(ring, left: Value, right: Value):
     return as_expr(left), as_expr(right)
 
 
+def _scalar(value: Value):
+    """The sympy number of a class-free value; None for a value with classes."""
+    if isinstance(value, Element):
+        return value.to_scalar() if value.is_class_free() else None
+    return value
+
+
 def integer_value(value: Value):
     """The Python int a value stands for, or None."""
-    if isinstance(value, Element):
-        if not value.is_class_free():
-            return None
-        value = value.to_scalar()
-    if isinstance(value, sympy.Integer):
-        return int(value)
-    return None
+    value = _scalar(value)
+    return int(value) if isinstance(value, sympy.Integer) else None
 
 
 def rational_value(value: Value):
     """The Fraction a value stands for, or None."""
-    if isinstance(value, Element):
-        if not value.is_class_free():
-            return None
-        value = value.to_scalar()
+    value = _scalar(value)
     if isinstance(value, sympy.Rational):
         return Fraction(int(value.p), int(value.q))
     return None

@@ -18,6 +18,7 @@ from typing import Callable, Iterator, Optional
 import yaml
 
 from compiler.errors import DocumentError, Location, Problem
+from compiler.render.notation import check_tex
 from compiler.statements.words import STATEMENT_WORDS
 
 DEFAULT_TRUNCATE = 12
@@ -29,7 +30,7 @@ MAX_YAML_DEPTH = 20
 #: Digits of an integer in the front matter (conventions are small numbers).
 MAX_YAML_DIGITS = 40
 
-KEYS = ("title", "authors", "date", "abstract", "truncate", "conventions")
+KEYS = ("title", "authors", "date", "abstract", "truncate", "conventions", "notation", "results")
 _IDENTIFIER = re.compile(r"[A-Za-z][A-Za-z0-9_]*")
 _DECIMAL = re.compile(r"[-+]?(0|[1-9][0-9]*)")
 _RATIONAL = re.compile(r"\s*([+-]?\d+)\s*(?:/\s*(\d+))?\s*")
@@ -54,6 +55,8 @@ class FrontMatter:
     abstract: str = ""
     truncate: int = DEFAULT_TRUNCATE
     conventions: tuple[ConventionEntry, ...] = ()
+    notation: tuple[tuple[str, str], ...] = ()  # name -> LaTeX, within the notation subset
+    results: tuple[str, ...] = ()  # headline values, shown first
     line: int = 0
 
 
@@ -248,6 +251,42 @@ def _rational(node, where, name: str) -> Fraction:
     return Fraction(int(match.group(1)), denominator)
 
 
+def _read_notation(node, where) -> tuple[tuple[str, str], ...]:
+    """``notation: {kRRR: "k_{RRR}"}``: each LaTeX inside the shared subset."""
+    if _is_null(node):
+        return ()
+    if not isinstance(node, yaml.MappingNode):
+        raise DocumentError(where(node), "'notation' must map names to LaTeX, such as kRRR: \"k_{RRR}\"")
+    problems, entries = [], []
+    for key_node, value_node in node.value:
+        name = key_node.value if isinstance(key_node, yaml.ScalarNode) else ""
+        if not _IDENTIFIER.fullmatch(name):
+            problems.append(Problem(where(key_node), f"notation name {name!r} is not an identifier"))
+            continue
+        latex = _text(value_node, where, "notation")
+        problem = check_tex(latex) if latex.strip() else "notation for a name cannot be empty"
+        if problem:
+            problems.append(Problem(where(value_node), problem))
+            continue
+        entries.append((name, latex))
+    if problems:
+        raise DocumentError.of(problems)
+    return tuple(entries)
+
+
+def _read_results(node, where) -> tuple[str, ...]:
+    """``results: [a_star, c_star]``: the values that open the report."""
+    if _is_null(node):
+        return ()
+    if not isinstance(node, yaml.SequenceNode):
+        raise DocumentError(where(node), "'results' must be a list of value names, such as [a_star, c_star]")
+    names = tuple(_text(item, where, "results") for item in node.value)
+    bad = [n for n in names if not _IDENTIFIER.fullmatch(n)]
+    if bad:
+        raise DocumentError(where(node), f"'results' lists {bad[0]!r}, which is not a name")
+    return names
+
+
 _READERS = {
     "title": lambda node, where: _text(node, where, "title"),
     "date": lambda node, where: _text(node, where, "date"),
@@ -255,4 +294,6 @@ _READERS = {
     "authors": _read_authors,
     "truncate": _read_truncate,
     "conventions": _read_conventions,
+    "notation": _read_notation,
+    "results": _read_results,
 }

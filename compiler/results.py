@@ -1,8 +1,16 @@
 """The plain data model of a build: what every renderer reads.
 
 The engine fills it in; HTML, LaTeX and JSON are views of it, and ``diff``
-compares two of its JSON forms.  Nothing here knows about sympy: values are
-already printed, as our own expression syntax (``text``) and as LaTeX.
+compares two of its JSON forms.  Nothing here knows about sympy: a value is
+its normal-form ``text`` (what comparisons and diffs use) and its
+presentation ``tree``, plain JSON lists ``[kind, *children]`` that the
+printers in ``compiler.render.printers`` turn into text, LaTeX and MathML.
+
+Tree kinds: ``["int", n]`` (n >= 0), ``["sym", name]``, ``["cls", text]`` (a
+class generator as the document writes it), ``["add", t, ...]``,
+``["neg", t]``, ``["mul", f, ...]``, ``["div", num, den]``,
+``["pow", base, n]`` (n >= 2), ``["sqrt", t]`` and ``["order", n]`` (the
+term standing for what is not known from degree n on).
 """
 from __future__ import annotations
 
@@ -29,12 +37,36 @@ class CheckResult:
 
 @dataclass
 class ValueRecord:
-    """A named value as printed: re-readable text, LaTeX, and form degrees."""
+    """A named value: normal-form text, LaTeX, form degrees, presentation tree."""
 
     name: str
     text: str
     latex: str
     degrees: list[int] = field(default_factory=list)
+    tree: list = field(default_factory=lambda: ["int", 0])
+    #: The degree from which the value is not known (``truncate`` dropped what
+    #: it depends on); None when it is exact.  ``text`` and ``latex`` show it.
+    unknown_from: Optional[int] = None
+
+
+_ARITY = {"order": 1, "int": 1, "sym": 1, "cls": 1, "neg": 1, "sqrt": 1, "div": 2, "pow": 2}
+
+
+def valid_tree(tree, depth: int = 0) -> bool:
+    """Whether ``tree`` is a presentation tree (for data read back from a cache)."""
+    if depth > 200 or not isinstance(tree, list) or not tree or tree[0] not in (*_ARITY, "add", "mul"):
+        return False
+    kind, args = tree[0], tree[1:]
+    if kind in ("int", "pow", "order"):
+        number = args[-1] if args else None
+        if type(number) is not int or number < 0 or len(args) != _ARITY[kind]:
+            return False
+        return kind != "pow" or valid_tree(args[0], depth + 1)
+    if kind in ("sym", "cls"):
+        return len(args) == 1 and isinstance(args[0], str)
+    if kind in _ARITY and len(args) != _ARITY[kind]:
+        return False
+    return len(args) >= 1 and all(valid_tree(a, depth + 1) for a in args)
 
 
 @dataclass
@@ -79,6 +111,17 @@ class Step:
     def status(self) -> str:
         return weakest(c.status for c in self.checks)
 
+    @property
+    def routine_checks(self) -> list[CheckResult]:
+        """Automatic checks that passed exactly: a reader folds these away.
+        A ``check`` statement's own claims are never routine."""
+        return [c for c in self.checks if self.kind != "check" and c.status == "proven"]
+
+    @property
+    def notable_checks(self) -> list[CheckResult]:
+        """Every check not routine: claims, and anything sampled, failed or in error."""
+        return [c for c in self.checks if self.kind == "check" or c.status != "proven"]
+
 
 @dataclass
 class Prose:
@@ -110,6 +153,10 @@ class Report:
     items: list[Item]
     values: dict[str, ValueRecord]  # each name's final binding
     allow_html: bool = False
+    #: front matter ``notation``: name -> the author's LaTeX for it (checked).
+    notation: dict[str, str] = field(default_factory=dict)
+    #: front matter ``results``: the headline values, in the author's order.
+    headline: list[str] = field(default_factory=list)
     #: ``FILE:LINE:COL: message`` lines for every failed check and step error,
     #: for the command line's standard error.
     diagnostics: list[str] = field(default_factory=list)
@@ -117,6 +164,8 @@ class Report:
     warnings: list = field(default_factory=list)
     #: How many steps were replayed from the build cache rather than computed.
     cached_steps: int = 0
+    #: How many ``@{NAME}`` in prose show a value beyond its known precision.
+    prose_errors: int = 0
 
     @property
     def steps(self) -> list[Step]:
@@ -124,8 +173,12 @@ class Report:
 
     @property
     def passed(self) -> bool:
-        return all(s.status in ("proven", "sampled") for s in self.steps)
+        return not self.prose_errors and all(s.status in ("proven", "sampled") for s in self.steps)
 
     def count(self, status: str) -> int:
         """How many checks over all steps ended in ``status``."""
         return sum(c.status == status for s in self.steps for c in s.checks)
+
+    @property
+    def check_count(self) -> int:
+        return sum(len(s.checks) for s in self.steps)

@@ -1,16 +1,18 @@
-"""Helpers shared by the test files: the command run in-process, small
-documents built through the engine, lookups in a JSON record, a hand-built
-Report for the renderer tests, bundle tables for the algebra tests,
-pdflatex, and the headless browser.  Fixtures built on these live in
+"""Helpers shared by the test files: the command run in-process, derive
+blocks parsed and their problems, small documents built through the engine,
+lookups in a JSON record, a hand-built Report for the renderer tests, bundle
+tables for the algebra tests, pdflatex, and the headless browser.  Fixtures built on these live in
 conftest.py.
 """
 from __future__ import annotations
 
 import io
+import json
 import os
 import re
 import shutil
 import subprocess
+import textwrap
 from contextlib import redirect_stderr, redirect_stdout
 from dataclasses import dataclass
 from fractions import Fraction
@@ -20,7 +22,9 @@ import pytest
 
 from compiler import cli
 from compiler.engine import BuildOptions, build
+from compiler.errors import DocumentError
 from compiler.results import CheckResult, PlotData, Prose, Report, Step, TableData, ValueRecord
+from compiler.statements.parser import parse_block
 
 ROOT = Path(__file__).resolve().parent.parent
 DERIVATIONS = ROOT / "derivations"
@@ -69,6 +73,46 @@ def visible(folder: Path) -> list[str]:
     return sorted(p.name for p in folder.iterdir() if not p.name.startswith("."))
 
 
+# ---------------------------------------------------------------- derive blocks, parsed
+
+#: The format spec's declaration examples, verbatim, in an order that compiles
+#: (the surface fiber declares TS before the split that uses it).
+SPEC_DECLARATIONS = """\
+symbol N, k: integer, positive      # assumptions: integer, positive, nonnegative, real, nonzero
+symbol g: integer, g >= 2           # bounds: g >= 2, z > 0, 0 < x < 1
+symbol z: real, z > 0
+symbol eps: real
+convention angular_integral = 2     # default value; front matter or --set overrides it
+bundle T4: real, rank 4
+bundle T6: real, rank 6             # oriented real bundle: p1(T6) .. p3(T6), e(T6)
+bundle NW: real, rank 5             # p1(NW), p2(NW); odd rank, so no e(NW)
+bundle L1, L2: line                 # complex line bundles: c1(L1), c1(L2)
+bundle V: complex, rank 3           # c1(V) .. c3(V)
+fiber Sigma: surface, genus g, tangent TS
+split T6 = T4 + TS                  # Whitney sum (TS declared earlier, e.g. by a surface fiber)
+split NW = L1 + L2 + trivial(1)     # real rank 5 = two oriented planes + a trivial line
+"""
+
+
+def parse(text: str, first_line: int = 1):
+    """The statements of a derive block (dedented) that starts at ``first_line`` of doc.md."""
+    return parse_block(textwrap.dedent(text).strip("\n"), first_line, "doc.md")
+
+
+def parse_problems(text: str, first_line: int = 1) -> list[tuple[str, int, int, str]]:
+    """(path, line, column, message) of each problem of a block that does not parse."""
+    with pytest.raises(DocumentError) as info:
+        parse(text, first_line)
+    return [(p.location.path, p.location.line, p.location.column, p.message)
+            for p in info.value.problems]
+
+
+def parse_problem(text: str, first_line: int = 1) -> tuple[int, int, str]:
+    """(line, column, message) of the one problem of a block that does not parse."""
+    (found,) = parse_problems(text, first_line)
+    return found[1:]
+
+
 # ---------------------------------------------------------------- documents through the engine
 
 def compile_text(path: Path, text: str, **options):
@@ -115,8 +159,12 @@ def assert_settled(record: dict, source: str) -> None:
 # M5-brane anomaly polynomial: I8 = (N-1) I8(1) + (N^3-N)/24 p2(N).
 # Source: Harvey, Minasian, Moore, "Non-abelian tensor-multiplet anomalies", 1998.
 I8_TEXT = "(N - 1)*I8_free + (N^3 - N)/24*p2(NW)"
-I8_LATEX = r"\left(N - 1\right) I_{8}^{\mathrm{free}} + \frac{N^{3} - N}{24} p_{2}(NW)"
+I8_LATEX = r"\left(N - 1\right) I_{8,\mathrm{free}} + \frac{N^{3} - N}{24} p_{2}(\mathrm{NW})"
 SCRIPT = "<script>alert(1)</script>"
+N3_MINUS_N = ["add", ["pow", ["sym", "N"], 3], ["neg", ["sym", "N"]]]
+I8_DISPLAY = "(N - 1)*I8_free + (N^3 - N)/24*p2(NW)"
+I8_TREE = ["add", ["mul", ["add", ["sym", "N"], ["neg", ["int", 1]]], ["sym", "I8_free"]],
+           ["mul", ["div", N3_MINUS_N, ["int", 24]], ["cls", "p2(NW)"]]]
 
 
 def a_star(n: int, g: int) -> Fraction:
@@ -138,9 +186,10 @@ def make_report(document: str = "derivations/twisted.md") -> Report:
     and a plot.  Renderers only display what the engine computed, so the
     values here are data to be shown; where a formula is a known result its
     source is noted above."""
-    i8 = ValueRecord("I8", I8_TEXT, I8_LATEX, [8])
-    kr = ValueRecord("kR", "(N^3 - N)/12", r"\frac{N^{3} - N}{12}", [0])
-    rem = ValueRecord("kR", "1/24*p1(T4)^2", r"\frac{1}{24} p_{1}(T4)^{2}", [8])
+    i8 = ValueRecord("I8", I8_TEXT, I8_LATEX, [8], I8_TREE)
+    kr = ValueRecord("kR", "(N^3 - N)/12", r"\frac{N^{3} - N}{12}", [0], ["div", N3_MINUS_N, ["int", 12]])
+    rem = ValueRecord("kR", "1/24*p1(T4)^2", r"\frac{1}{24} p_{1}(T4)^{2}", [8],
+                      ["mul", ["div", ["int", 1], ["int", 24]], ["pow", ["cls", "p1(T4)"], 2]])
     ns, gs = [2, 3], [2, 3]
     rows = [[str(n), str(g), _frac_latex(a_star(n, g))] for n in ns for g in gs]
     text_rows = [[str(n), str(g), _frac_text(a_star(n, g))] for n in ns for g in gs]
@@ -164,7 +213,7 @@ def make_report(document: str = "derivations/twisted.md") -> Report:
         Step(6, 15, 1, 16, "let! I8 = missing + 1", "let", ["I8"], rebind=True,
              checks=[CheckResult("value exists", "error", "undefined name missing")]),
         Step(7, 17, 1, 17, "table a_star for N = 2..3, g = 2..3", "table", [],
-             table=TableData(["N", "g", r"a_{\star}"], rows, text_rows)),
+             table=TableData(["N", "g", r"a_{\star}"], rows, text_rows, ["N", "g", "a_star"])),
         Step(8, 18, 1, 18, "plot a_star over z in 1/2..3 for N = 4, g = 3", "plot", [],
              summary="one curve, 11 points",
              plot=PlotData("z", "1/2", "3", {"N": "4", "g": "3"}, {"a_star": curve})),
@@ -187,22 +236,25 @@ def make_report(document: str = "derivations/twisted.md") -> Report:
 
 # ---------------------------------------------------------------- bundle tables
 
-def bundle_table(truncate: int = 12):
-    """A bundle table over a ring with no symbols (imported here, so a moved
-    algebra module breaks only the tests that use it)."""
+def bundle_table(truncate: int = 12, **bundles: str):
+    """A bundle table over a ring with no symbols, with ``bundles`` declared in
+    the order given as ``name="kind [rank]"`` (``NW="real 5"``, ``L="line"``).
+    The algebra is imported here, so a moved module breaks only the tests that
+    use it."""
     from compiler.algebra.bundles import BundleTable
     from compiler.algebra.graded import Ring
 
-    return BundleTable(Ring([], truncate))
+    table = BundleTable(Ring([], truncate))
+    for name, spec in bundles.items():
+        kind, *rank = spec.split()
+        table.declare(name, kind, *map(int, rank))
+    return table
 
 
 def whitney_sum(ranks):
     """Real bundles A0, A1, ... of the given ranks and B split as their sum."""
-    t = bundle_table()
     names = [f"A{k}" for k in range(len(ranks))]
-    for name, r in zip(names, ranks):
-        t.declare(name, "real", r)
-    t.declare("B", "real", sum(ranks))
+    t = bundle_table(**{name: f"real {r}" for name, r in zip(names, ranks)}, B=f"real {sum(ranks)}")
     t.split("B", names)
     return t, names
 
@@ -288,3 +340,15 @@ def start_browser(profile: Path):
     options.add_argument(f"--user-data-dir={profile}")
     options.set_capability("goog:loggingPrefs", {"performance": "ALL", "browser": "ALL"})
     return webdriver.Chrome(service=Service(str(CHROMEDRIVER)), options=options)
+
+
+def build_snippet(tmp_path: Path, capsys, body: str, *extra: str, truncate: int = 8):
+    """Build one derive block through the command line: (exit status, stderr, JSON record or None)."""
+    doc = tmp_path / "doc.md"
+    doc.write_text(f"---\ntitle: t\ntruncate: {truncate}\n---\n\n```derive\n{body}\n```\n",
+                   encoding="utf-8")
+    status = cli.main(["build", str(doc), "-o", str(tmp_path / "out"), "--format", "json",
+                       "--no-cache", "--quiet", *extra])
+    err = capsys.readouterr().err
+    record = tmp_path / "out" / "doc.json"
+    return status, err, json.loads(record.read_text()) if record.exists() else None

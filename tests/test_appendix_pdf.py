@@ -1,5 +1,10 @@
-"""Every bundled derivation's LaTeX appendix goes through pdflatex, and the
-text of the PDF still says what the derivation found.
+"""Every bundled derivation's LaTeX, in both styles, goes through pdflatex,
+and the text of the PDF still says what the derivation found.
+
+The appendix style is compiled standalone and ``\\input`` into a plain
+article with only amsmath, amssymb and graphicx; no line may stick out of
+the text block by more than 10pt (an overfull box in the log).  The audit
+style lists every check, so the published results are looked for there.
 
 The LaTeX unit tests check the source; only a real TeX run catches a macro
 that does not exist, an unbalanced display or a plot file that is not where
@@ -10,17 +15,25 @@ comparison is made on text with the whitespace (and ``_``) taken out.
 """
 from __future__ import annotations
 
+import json
 import re
+import subprocess
+import sys
 from dataclasses import dataclass
 from pathlib import Path
 
 import pytest
 
 from compiler.document import ProsePart, read_document
+from compiler.engine import BuildOptions, build
 from compiler.markdown import make_markdown
-from support import DOCUMENTS, needs_tex, pdf_text, pdflatex
+from compiler.render.json import to_record
+from compiler.render.tex import plot_files, to_tex
+from support import DOCUMENTS, ROOT, needs_tex, pdf_text, pdflatex
 
 pytestmark = needs_tex
+
+DERIVATIONS = DOCUMENTS
 
 
 @dataclass(frozen=True)
@@ -39,8 +52,9 @@ KEY = {
         "I8_stack == N*I8_free + (N^3 - N)/24*p2(NW)",
         "I8 == 0 for N = 1",
     ), texts=(
-        # the N^3 coefficient of the interacting anomaly (same source), as displayed
-        "4N3-N-3",
+        # the N^3 coefficient of the interacting anomaly (same source), as displayed:
+        # (4N^3 - N - 3)/96 = (N - 1)(4N^2 + 4N + 3)/96, with (N - 1)/192 in front
+        "2(4N2+4N+3)",
     )),
     "four-manifold-genera": Key(checks=(
         # K3: A-hat 2, signature -16, Euler number 24 (common practice, no source)
@@ -58,7 +72,7 @@ KEY = {
         # Fulton, "Intersection theory" (1984): Segre classes invert c(E)
         "s2 == c1(E)^2 - c2(E)",
         "s4 == c1(E)^4 - 3*c1(E)^2*c2(E) + c2(E)^2",
-    ), texts=("χmn=mn+m+n+1",)),
+    ), texts=("χmn=(m+1)(n+1)",)),
     "six-dimensional-gravity": Key(checks=(
         # Green, Schwarz and West, "Anomaly-free chiral theories in six dimensions" (1985)
         "k_trR4 == -(H - V + 29*T - 273)/5760",
@@ -91,8 +105,8 @@ KEY = {
     ), texts=(
         # table row N = 4, g = 3: n_v = 166, n_h = 160 from the Gaiotto-Maldacena values above
         "166160",
-        # the legend of the a_star plot: the plot PDF was found and embedded
-        "astar",
+        # the legend of the a_star plot, a with a star: the plot PDF was found and embedded
+        "a∗",
     )),
 }
 
@@ -123,30 +137,58 @@ def headings(path: Path) -> list[str]:
     return found
 
 
-@pytest.fixture(scope="module")
-def appendix_text(bundled):
-    """``appendix_text(STEM)``: the text of the PDF of the bundled build's
-    standalone appendix, one TeX run per document."""
-    texts: dict[str, str] = {}
+def anomark_build(path: Path, out: Path, formats: str, standalone: bool) -> None:
+    command = [sys.executable, "-m", "compiler", "build", str(path.relative_to(ROOT)), "-o", str(out),
+               "--format", formats, "--no-cache", "--quiet"] + (["--standalone"] if standalone else [])
+    run = subprocess.run(command, cwd=ROOT, capture_output=True, text=True, timeout=600)
+    assert run.returncode == 0, run.stderr
 
-    def get(stem: str) -> str:
-        if stem not in texts:
-            texts[stem] = pdf_text(pdflatex(bundled(stem).file("tex")))
-        return texts[stem]
 
-    return get
+@dataclass
+class Appendix:
+    record: dict
+    text: str  # the appendix style, standalone
+    audit: str  # the audit style, standalone
+    in_paper: str  # the appendix fragment \\input into a plain article
+    overfull: list[float]  # every overfull box of the three runs, in pt
+
+
+_BUILT: dict[str, Appendix] = {}
+_OVERFULL = re.compile(r"^Overfull \\hbox \(([\d.]+)pt too wide\)", re.M)
+PAPER = ("\\documentclass{article}\n\\usepackage{amsmath}\n\\usepackage{amssymb}\n\\usepackage{graphicx}\n"
+         "\\begin{document}\n\\section{Main text}\nAs derived in appendix~\\ref{app:%s}.\n\\appendix\n"
+         "\\input{%s}\n\\end{document}\n")
+
+
+def appendix(path: Path, factory) -> Appendix:
+    """One build and three TeX runs per document, shared by the tests below."""
+    if path.stem not in _BUILT:
+        out = factory.mktemp(path.stem)
+        report = build(str(path.relative_to(ROOT)), path.read_text(encoding="utf-8"), BuildOptions(use_cache=False))
+        for name, data in plot_files(report).items():
+            (out / name).write_bytes(data)
+        (out / "appendix.tex").write_text(to_tex(report, standalone=True), encoding="utf-8")
+        (out / "audit.tex").write_text(to_tex(report, standalone=True, style="audit"), encoding="utf-8")
+        (out / "fragment.tex").write_text(to_tex(report), encoding="utf-8")
+        (out / "paper.tex").write_text(PAPER % (path.stem, "fragment"), encoding="utf-8")
+        texts, overfull = {}, []
+        for name in ("appendix", "audit", "paper"):
+            texts[name] = pdf_text(pdflatex(out / f"{name}.tex"))
+            log = (out / f"{name}.log").read_text(encoding="utf-8", errors="replace")
+            overfull += [float(x) for x in _OVERFULL.findall(log)]
+        _BUILT[path.stem] = Appendix(to_record(report), texts["appendix"], texts["audit"], texts["paper"],
+                                     overfull)
+    return _BUILT[path.stem]
 
 
 def check_steps(record: dict, expr: str) -> list[dict]:
     return [s for s in record["steps"] if s["kind"] == "check" and s["source"] == f"check {expr}"]
 
 
-@pytest.mark.parametrize("path", DOCUMENTS, ids=lambda p: p.stem)
-def test_appendix_compiles_and_reads_back(path, bundled, appendix_text):
-    built = bundled(path.stem)
-    assert built.returncode == 0, built.stderr
-    text = appendix_text(path.stem)
-    flat_text = flat(text)
+@pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
+def test_audit_compiles_and_reads_back(path, tmp_path_factory):
+    built = appendix(path, tmp_path_factory)
+    text, flat_text = built.audit, flat(built.audit)
     document = read_document(str(path), path.read_text(encoding="utf-8"))
 
     assert document.front.title and words(document.front.title) in words(text)
@@ -154,9 +196,10 @@ def test_appendix_compiles_and_reads_back(path, bundled, appendix_text):
         assert words(heading) in words(text), f"heading {heading!r} missing from the PDF"
 
     steps = built.record["steps"]
+    checks = sum(len(s["checks"]) for s in steps)
     proven = sum(c["status"] == "proven" for s in steps for c in s["checks"])
     assert built.record["passed"]
-    assert f"passed.{len(steps)}steps;checks{proven}proven," in flat_text
+    assert f"passed.{len(steps)}steps,{checks}checks:{proven}proven," in flat_text
 
     key = KEY.get(path.stem, Key(checks=()))
     for expr in key.checks:
@@ -167,32 +210,57 @@ def test_appendix_compiles_and_reads_back(path, bundled, appendix_text):
         assert flat(snippet) in flat_text, f"{snippet!r} missing from the PDF"
 
 
-@pytest.mark.parametrize("path", DOCUMENTS, ids=lambda p: p.stem)
-def test_no_literal_dollar_in_pdf(path, appendix_text):
+@pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
+def test_appendix_reads_like_an_appendix(path, tmp_path_factory):
+    built = appendix(path, tmp_path_factory)
+    document = read_document(str(path), path.read_text(encoding="utf-8"))
+    for text in (built.text, built.in_paper):
+        assert words(document.front.title) in words(text)
+        for heading in headings(path):
+            assert words(heading) in words(text), f"heading {heading!r} missing from the PDF"
+        steps = built.record["steps"]
+        checks = sum(len(s["checks"]) for s in steps)
+        proven = sum(c["status"] == "proven" for s in steps for c in s["checks"])
+        # the closing note on how it was verified, with the file name and never a path
+        assert f"Ofits{checks}checks(" in flat(text) and f"{proven}wereprovenexactly" in flat(text) or \
+            f"{proven}wasprovenexactly" in flat(text)
+        assert f"from{path.name}." in flat(text) and str(ROOT) not in text
+        # the routine checks and the statements' listing stay out
+        assert "homogeneous of degree" not in text
+        declared = [s["source"] for s in built.record["steps"] if s["kind"] in ("symbol", "bundle")]
+        assert not [d for d in declared if flat(d) in flat(text)]
+    assert "Main text" in built.in_paper and "As derived in appendix A" in " ".join(built.in_paper.split())
+
+
+@pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
+def test_nothing_sticks_out_of_the_text_block(path, tmp_path_factory):
+    assert [x for x in appendix(path, tmp_path_factory).overfull if x > 10] == []
+
+
+@pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
+def test_no_literal_dollar_in_pdf(path, tmp_path_factory):
     """No bundled document writes a literal dollar, so any "$" in the PDF is math
     that reached LaTeX as text (as ``$$...$$`` inside a paragraph once did)."""
-    assert "$" not in appendix_text(path.stem)
+    built = appendix(path, tmp_path_factory)
+    assert "$" not in built.text and "$" not in built.audit
 
 
-def test_fragment_compiles_inside_a_minimal_article(tmp_path, bundled, bundled_folder, anomark):
-    """The appendix as users include it: the fragment (plots and all) inside their own article."""
-    path = bundled_folder / "derivations" / "twisted-compactification.md"
-    bundled(path.stem)  # built first, so this build of the fragment runs warm from the cache
-    run = anomark("build", path.relative_to(bundled_folder), "-o", tmp_path, "--format", "tex",
-                  cwd=bundled_folder)
-    assert run.returncode == 0, run.stderr
+def test_fragment_from_the_command_line_inside_a_minimal_article(tmp_path):
+    """The appendix as users include it: the fragment (plots and all) inside their own article,
+    each result numbered and referred to by its name."""
+    path = ROOT / "derivations" / "twisted-compactification.md"
+    anomark_build(path, tmp_path, "tex", standalone=False)
     fragment = (tmp_path / f"{path.stem}.tex").read_text(encoding="utf-8")
     assert "\\documentclass" not in fragment and "\\begin{document}" not in fragment
     assert sorted(p.name for p in tmp_path.glob("*-plot-*.pdf")) == [
         f"{path.stem}-plot-1.pdf", f"{path.stem}-plot-2.pdf"]
+    assert "\\label{eq:a1}" in fragment and "\\label{eq:a_star}" in fragment
+    assert fragment.count("\\begin{figure}") == 2
     paper = tmp_path / "paper.tex"
-    paper.write_text("\\documentclass{article}\n\\usepackage{amsmath,amssymb,graphicx}\n"
-                     "\\begin{document}\n\\section{Main text}\nSee the appendix.\n\\appendix\n"
-                     f"\\input{{{path.stem}}}\n\\end{{document}}\n", encoding="utf-8")
+    paper.write_text(PAPER.replace("\\end{document}", "By \\eqref{eq:a1}, $a$ grows with $g$.\n\\end{document}")
+                     % (path.stem, path.stem), encoding="utf-8")
     text = pdf_text(pdflatex(paper))
     flat_text = flat(text)
     assert words("Central charges of the (2,0) theory on a Riemann surface") in words(text)
-    assert words("Main text") in words(text)
-    # Gaiotto and Maldacena (2009), as in KEY above
-    assert "proven" + flat("a1 == (g - 1)*(8*N^3 - 3*N - 5)/24") in flat_text
-    assert "astar" in flat_text  # legend of the second plot
+    assert "By(" in flat_text and "By(??)" not in flat_text  # the reference resolved to a number
+    assert "a∗" in flat_text  # legend of the second plot

@@ -102,7 +102,6 @@ def test_the_statement_syntax_needs_no_sympy_and_no_algebra():
     assert offending("compiler.statements", forbidden=forbidden) == {}
 
 
-@pytest.mark.xfail(strict=True, reason="notation moving into one step (issue 8)")
 def test_the_renderers_read_only_results_errors_and_markdown():
     allowed = ("compiler.results", "compiler.errors", "compiler.markdown", "compiler.render")
     assert offending("compiler.render", allowed=allowed) == {}
@@ -126,7 +125,6 @@ def test_the_command_line_reaches_the_rest_through_engine_renderers_and_diff():
     assert {m: i for owner in COMMAND_LINE for m, i in offending(owner, allowed=allowed).items()} == {}
 
 
-@pytest.mark.xfail(strict=False, reason="modules being split (issue 8)")
 def test_no_module_is_over_450_lines():
     sizes = {module_name(p): len(p.read_text(encoding="utf-8").splitlines()) for p in PACKAGE.rglob("*.py")}
     assert {m: n for m, n in sizes.items() if n > MAX_LINES} == {}

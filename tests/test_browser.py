@@ -13,7 +13,7 @@ from pathlib import Path
 
 import pytest
 
-from support import SCRIPT, make_report, missing_browser, start_browser
+from support import DOCUMENTS, SCRIPT, make_report, missing_browser, start_browser
 
 if missing_browser():
     pytest.skip(missing_browser(), allow_module_level=True)
@@ -188,3 +188,41 @@ def test_page_runs_no_script(page):
     assert text in seen.layout["text"]
     # Every @{NAME} in the prose became its value.
     assert "@{" not in seen.layout["text"]
+
+
+# ------------------------------------------------------------------ nothing clipped
+
+# Every math element that sticks out of the column it sits in: a display's
+# content wider than its own box (hidden behind a scroll bar) or any formula
+# whose right edge passes the column's.
+_OVERFLOW = """
+const columns = '.work, .prose, .abstract, .results, .margin, .table-wrap, .front';
+return Array.from(document.querySelectorAll('math')).flatMap(m => {
+  const column = m.closest(columns) || document.body;
+  const box = m.getBoundingClientRect(), edge = column.getBoundingClientRect().right;
+  const hidden = m.scrollWidth - m.clientWidth;
+  return (box.right > edge + 1 || hidden > 1)
+    ? [{text: m.textContent.slice(0, 80), over: Math.max(box.right - edge, hidden)}] : [];
+});
+"""
+
+
+@pytest.fixture(scope="module")
+def bundled_pages(bundled):
+    """Every bundled derivation's report, from the session's builds."""
+    return {path.stem: bundled(path.stem).file("html") for path in DOCUMENTS}
+
+
+@pytest.mark.parametrize("width", [1280, 700])
+def test_no_math_wider_than_its_column(browser, bundled_pages, width, tmp_path):
+    browser.set_window_size(width, 2000)
+    try:
+        clipped = {}
+        for stem, page in bundled_pages.items():
+            visit(browser, page, tmp_path / f"{stem}.png")
+            found = browser.execute_script(_OVERFLOW)
+            if found:
+                clipped[stem] = found
+        assert clipped == {}
+    finally:
+        browser.set_window_size(1280, 2000)

@@ -22,7 +22,8 @@ def test_there_are_demo_documents():
     assert {
         "tensor-multiplet.md", "six-dimensional-gravity.md", "ten-dimensional-count.md",
         "four-manifold-genera.md", "brane-inflow.md", "twisted-compactification.md",
-        "general-fiber.md",
+        "general-fiber.md", "green-schwarz.md", "six-dimensional-gauge.md", "seiberg-duality.md",
+        "lines-on-hypersurfaces.md",
     } <= names
 
 
@@ -87,6 +88,61 @@ def test_ten_dimensional_count(bundled):
     assert_proven(record, "check k3 > 0 for n = 0..495")
     assert_proven(record, "check I12 == -1/384*p1(T10)*(3*p1(T10)^2 - 4*p2(T10)) for n = 496")
     assert record["values"]["I12"]["degrees"] == [12]
+
+
+def test_green_schwarz(bundled):
+    record = bundled("green-schwarz").record
+    # Green, Schwarz and Witten, Superstring Theory vol. 2 (1987), section 13.5
+    for claim in ("check tr(G, adjoint, 2) == 30*tr(G, 2)",
+                  "check tr(G, adjoint, 4) == 24*tr(G, 4) + 3*tr(G, 2)^2",
+                  "check tr(G, adjoint, 6) == 15*tr(G, 2)*tr(G, 4)",
+                  "check tr(E1, adjoint, 4) == tr(E1, adjoint, 2)^2/100",
+                  "check tr(E1, adjoint, 6) == tr(E1, adjoint, 2)^3/7200"):
+        assert_proven(record, claim)
+    # Green and Schwarz, Phys. Lett. B149 (1984): I12 = X4 X8 for SO(32) and E8 x E8
+    for step in ("factorize I12 into 4, 8 -> X4, X8", "factorize J12 into 4, 8 -> Y4, Y8",
+                 "factorize K12 into 4, 8 -> Z4, Z8"):
+        assert_proven(record, step)
+    assert_proven(record, "check X4 == a*(tr(G, 2) - trR2)")
+    assert_proven(record, "check X8 == b*(tr(G, 4) - 1/8*tr(G, 2)*trR2 + 1/32*trR2^2 + 1/8*trR4)")
+    assert_proven(record, "check Y4 == y*(tr(E1, 2) + tr(E2, 2) - trR2)")
+    assert record["values"]["X4"]["text"] == "tr(G, 2) - 2*p1(T)"
+    assert_proven(record, "check I12m == I12")
+    # Alvarez-Gaume and Witten, "Gravitational anomalies" (1984): type IIB cancels
+    assert_proven(record, "check IIB == 0")
+
+
+def test_six_dimensional_gauge(bundled):
+    record = bundled("six-dimensional-gauge").record
+    # Ohmori, Shimizu, Tachikawa and Yonekura, "Anomaly polynomial of general 6d SCFTs" (PTEP 2014)
+    assert_proven(record, "check V8 == -1/24*(adj4 + 6*c2R*adj2 + d*c2R^2) - 1/48*(adj2 + d*c2R)*p1(T) - d*grav")
+    assert_proven(record, "check H8 == 1/24*fund4 + 1/48*fund2*p1(T) + N*grav")
+    assert_proven(record, "check T8 == c2R^2/24 + c2R*p1(T)/48 + (23*p1(T)^2 - 116*p2(T))/5760")
+    # the same: SU(N) with 2N flavours has no irreducible tr F^4
+    assert_proven(record, "check k4 == 0")
+    assert record["values"]["k4m"]["text"] == "-1/24"
+    # Green, Schwarz and West, Nucl. Phys. B254 (1985): H - V + 29 T = 273
+    assert_proven(record, "check kp2 == -(H - V + 29*Tn - 273)/1440")
+
+
+def test_seiberg_duality(bundled):
+    record = bundled("seiberg-duality").record
+    # Seiberg, "Electric-magnetic duality in supersymmetric non-Abelian gauge theories" (1994)
+    assert_proven(record, "check Ie == Im2")
+    for claim in ("check 6*kRRR == Nc^2 - 1 - 2*Nc^4/Nf^2", "check -24*kR == -Nc^2 - 1",
+                  "check 6*kLLL == Nc", "check 2*kLLR == -Nc^2/Nf", "check 2*kLLB == Nc",
+                  "check 2*kBBR == -2*Nc^2"):
+        assert_proven(record, claim)
+
+
+def test_lines_on_hypersurfaces(bundled):
+    record = bundled("lines-on-hypersurfaces").record
+    # Cayley and Salmon (1849): 27 lines on a cubic surface; Schubert (1879): 2875 lines on a
+    # quintic threefold (as in Eisenbud and Harris, "3264 and All That", 2016, chapter 6)
+    assert_proven(record, "check lines_cubic == 27")
+    assert_proven(record, "check lines_quintic == 2875")
+    assert_proven(record, "check point4 == 1")
+    assert_proven(record, "check point5 == 1")
 
 
 def test_four_manifold_genera(bundled):
@@ -182,6 +238,14 @@ def test_general_fiber(bundled):
     assert_proven(record, "check s2 == c1(E)^2 - c2(E)")
     assert_proven(record, "check s4 == c1(E)^4 - 3*c1(E)^2*c2(E) + c2(E)^2")
     assert record["values"]["index8"]["degrees"] == [8]
+    # fibers given by their point class; Griffiths and Harris, "Principles of
+    # Algebraic Geometry" (1978): deg G(2,4) = 2 (ch. 1.5), K^2 = 8 and χ = 4
+    # for every Hirzebruch surface (ch. 4.3)
+    assert_proven(record, "check lines == 2")
+    assert_proven(record, "check x2y == 1")
+    assert_proven(record, "check K2 == 8")
+    assert_proven(record, "check chi_Fn == 4")
+    assert_proven(record, "check self_s == -h")
 
 
 def test_spindle_d3(bundled):
@@ -207,6 +271,22 @@ def test_spindle_d3(bundled):
                               "line L: north = -t/(3*n1), south = -t/(3*n2)")
     assert any(c["what"] == "the degree of c1(L) over D is integral up to the orders"
                for c in fiber["checks"])
+
+
+def test_sqcd_duality(bundled):
+    record = bundled("sqcd-duality").record
+    # Seiberg, "Electric-magnetic duality in supersymmetric non-Abelian gauge
+    # theories" (1994); Intriligator and Wecht, "The exact superconformal
+    # R-symmetry maximizes a" (2003): the electric and magnetic anomalies, a and c agree
+    assert_proven(record, "check I_mag == I_el")
+    assert_proven(record, "check a_mag == a_el")
+    assert_proven(record, "check c_mag == c_el")
+    # Anselmi, Freedman, Grisaru and Johansen (1998) with Tr R = -Nc^2 - 1 and
+    # Tr R^3 = Nc^2 - 1 - 2 Nc^4/Nf^2 for R_Q = 1 - Nc/Nf (Seiberg 1994)
+    assert_proven(record, "check a_el == 3/32*(4*Nc^2 - 2 - 6*Nc^4/Nf^2)")
+    # signs decided from the window Nc < Nf < 3*Nc, not from sample points
+    for claim in ("check R_Q > 0", "check Nt >= 1", "check R_q > 0", "check R_M > 0"):
+        assert_proven(record, claim)
 
 
 def test_check_command_passes_all_documents(bundled, bundled_folder, anomark):

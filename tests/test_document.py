@@ -214,7 +214,7 @@ def test_unknown_keys_are_errors_at_their_lines():
     assert errors("---\ntitle: x\ntitel: y\nfoo: 1\n---\ntext\n") == [
         ("doc.md", 3, 1, "unknown front matter key 'titel'; did you mean 'title'?"),
         ("doc.md", 4, 1, "unknown front matter key 'foo' (allowed: title, authors, date, "
-                         "abstract, truncate, conventions)"),
+                         "abstract, truncate, conventions, notation, results)"),
     ]
 
 

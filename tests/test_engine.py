@@ -182,11 +182,19 @@ def test_coefficients_read_monomials_and_report_the_rest(tmp_path):
 
 
 def test_coefficients_of_an_absent_monomial_is_zero_and_the_rest_is_everything(tmp_path):
-    # spec: Precise rules → Operations (coefficients, remainder)
-    report = compile_doc(tmp_path, *COEFF, "bundle L1: line", "coefficients P of c1(L1)^5 -> k")
+    # spec: Precise rules → Operations (coefficients, remainder): P has a part of degree 8
+    report = compile_doc(tmp_path, *COEFF, "bundle L1: line", "coefficients P of c1(L1)^4 -> k")
     step = step_at(report, 7)
     assert report.values["k"].text == "0"
     assert len(step.remainder.text.split(" + ")) == 5
+
+
+def test_coefficients_of_a_degree_the_value_has_not_is_a_failed_check(tmp_path):
+    # issue 12: a monomial whose degree cannot occur is a failed check, not a silent 0
+    report = compile_doc(tmp_path, *COEFF, "bundle L1: line", "coefficients P of c1(L1)^5 -> k")
+    step = step_at(report, 7)
+    assert step.status == "failed" and "k" not in report.values
+    assert "no part of degree 10 (its degrees: 0, 8, 12)" in step.checks[-1].detail
 
 
 def test_coefficients_every_monomial_read_leaves_no_remainder(tmp_path):

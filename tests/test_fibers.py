@@ -4,8 +4,8 @@ from fractions import Fraction
 import pytest
 import sympy
 
-from compiler.algebra.fibers import (FiberError, declare_fiber_classes, general_fiber,
-                                     integrate, sphere_fiber, surface_fiber)
+from compiler.algebra.fibers import FiberError, integrate, sphere_fiber, surface_fiber
+from compiler.algebra.general_fibers import declare_fiber_classes, general_fiber
 from compiler.algebra.graded import Ring
 
 N = sympy.Symbol("N", integer=True, positive=True)

@@ -11,7 +11,8 @@ from html.parser import HTMLParser
 
 from compiler.render.html import to_html
 from compiler.render.mathml import to_mathml
-from compiler.results import Prose, Report, Step, ValueRecord
+from compiler.render.printers import MathMLPrinter
+from compiler.results import CheckResult, Prose, Report, Step, ValueRecord
 from support import make_report
 
 
@@ -52,9 +53,9 @@ def test_math_is_mathml():
 def test_value_reference_shows_the_value():
     html = _html()
     prose = html.split('<div class="prose">')[1].split("</div>")[0]
-    # @{I8} becomes the MathML of I8's LaTeX, not the literal reference
+    # @{I8} becomes the value's MathML, written from its tree, not the literal reference
     assert "@{I8}" not in prose
-    assert str(to_mathml(make_report().values["I8"].latex)) in prose
+    assert MathMLPrinter().doprint(make_report().values["I8"].tree) in prose
 
 
 def test_scripts_escaped_in_prose_and_sources():
@@ -159,14 +160,69 @@ def test_names_and_details_escaped():
     assert "&lt;b&gt;bold&lt;/b&gt;" in html and "&lt;img src=x&gt;" in html
 
 
+def _value_page(v: ValueRecord, notation=None) -> str:
+    return to_html(Report("anomark", "0.1.0", "d.md", "T", [], "", "", {}, 12,
+                          [Step(1, 2, 1, 2, "show I6", "show", [], values=[v])], {v.name: v},
+                          notation=notation or {}))
+
+
 def test_long_values_aligned_over_lines():
-    terms = " + ".join(rf"\frac{{{k}}}{{48}} p_{{1}}(T_{{{k}}})^{{2}} c_{{1}}(L_{{{k}}})" for k in range(1, 7))
-    v = ValueRecord("I6", "...", terms, [6])
-    html = to_html(Report("anomark", "0.1.0", "d.md", "T", [], "", "", {}, 12,
-                          [Step(1, 2, 1, 2, "show I6", "show", [], values=[v])], {"I6": v}))
-    value = html.split('<div class="value">')[1].split("</div>")[0]
+    terms = [["mul", ["div", ["int", k], ["int", 48]], ["pow", ["cls", f"p1(T{k})"], 2], ["cls", f"c1(L{k})"]]
+             for k in range(1, 7)]
+    html = _value_page(ValueRecord("I6", "...", "...", [6], ["add", *terms]))
+    value = html.split('<div class="value"')[1].split("</div>")[0]
     assert value.count("<mtr>") >= 2 and value.count("<mn>48</mn>") == 6
+
+
+def test_computed_values_written_directly_as_mathml():
+    # The converter marks its brackets fence="true"; our printer writes values itself.
+    html = _html()
+    value = html.split('<div class="value" id="value-I8">')[1].split("</div>")[0]
+    assert 'fence="true"' not in value
+    assert "<msub><mi>I</mi><mrow><mn>8</mn><mo>,</mo><mi>free</mi></mrow></msub>" in value
+
+
+def test_notation_override_and_rule():
+    v = ValueRecord("kRRR", "...", "...", [0], ["mul", ["sym", "nv_minus_nh"], ["sym", "eps_star"]])
+    html = _value_page(v)
+    assert "<msub><mi>k</mi><mrow><mi>R</mi><mi>R</mi><mi>R</mi></mrow></msub>" in html
+    assert "<mi>nv</mi><mo>\u2212</mo><mi>nh</mi>" in html and "<msub><mi>\u03f5</mi><mo>\u2217</mo></msub>" in html
+    html = _value_page(v, {"kRRR": r"\kappa_{3}"})
+    assert "<msub><mi>\u03ba</mi><mrow><mn>3</mn></mrow></msub>" in html
+
+
+def test_routine_checks_fold_and_claims_stay_in_view():
+    html = _html()
+    let = html.split('id="step-2"')[1].split("</section>")[0]
+    assert '<details class="routine"><summary>' in let and "1 routine check proven" in let
+    claim = html.split('id="step-4"')[1].split("</section>")[0]
+    assert "<details" not in claim and "claim holds" in claim  # a check statement stays in full view
+    failed = html.split('id="step-5"')[1].split("</section>")[0]
+    assert "<details" not in failed
+
+
+def test_headline_results_open_the_report():
+    report = make_report()
+    report.headline = ["kR"]
+    html = to_html(report)
+    results = html.split('<section class="results"')[1].split("</section>")[0]
+    assert '<a href="#value-kR">' in results and "<main>" not in results
+    assert html.index('class="results"') < html.index("<main>")
+    assert "8</span> steps, <span class=\"n\">5</span> checks" in html
 
 
 def test_same_report_same_page():
     assert _html() == _html()
+
+
+def test_extremization_details_as_math():
+    detail = "critical points r = 2/3; r = 4/3; kept r = 2/3: d²a/dr² = -9/16 < 0"
+    v = ValueRecord("r_star", "2/3", r"\frac{2}{3}", [0], ["div", ["int", 2], ["int", 3]])
+    step = Step(1, 2, 1, 2, "maximize a over r -> r_star, a_star", "maximize", ["r_star"], values=[v],
+                checks=[CheckResult("one admissible critical point", "proven", detail)])
+    html = to_html(Report("anomark", "0.1.0", "d.md", "T", [], "", "", {}, 12, [step], {"r_star": v}))
+    shown = html.split('<ul class="extremum">')[1].split("</ul>")[0]
+    assert [label for label in re.findall(r'<span class="label">([^<]*)</span>', shown)] == [
+        "critical point", "critical point", "kept", "second-order test"]
+    assert "<mi>∂</mi>" in shown or "∂" in shown
+    assert detail not in html  # not repeated as raw text in the margin

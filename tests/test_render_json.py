@@ -6,7 +6,7 @@ import json
 
 from compiler.render.json import to_json
 from compiler.results import STATUSES, CheckResult, PlotData, Report, Step, ValueRecord
-from support import I8_LATEX, I8_TEXT, a_star, make_report
+from support import I8_DISPLAY, I8_LATEX, I8_TEXT, a_star, make_report
 
 
 def _record(report=None) -> dict:
@@ -15,7 +15,8 @@ def _record(report=None) -> dict:
 
 def test_top_level_keys_in_spec_order():
     rec = _record()
-    assert list(rec) == ["tool", "document", "passed", "conventions", "steps", "values", "cached_steps"]
+    assert list(rec) == ["tool", "document", "passed", "conventions", "steps", "values", "cached_steps",
+                         "results", "counts"]
     assert rec["tool"] == {"name": "anomark", "version": "0.1.0"}
     assert rec["document"] == "derivations/twisted.md"
     assert rec["conventions"] == {"angular_integral": "2"}
@@ -36,7 +37,8 @@ def test_step_keys_and_values():
                          "checks", "values", "summary"]
     assert let["source"] == f"let I8 = {I8_TEXT}"
     assert let["checks"] == [{"what": "homogeneous of degree 8", "status": "proven", "detail": ""}]
-    assert let["values"] == [{"name": "I8", "text": I8_TEXT, "latex": I8_LATEX, "degrees": [8]}]
+    assert let["values"] == [{"name": "I8", "text": I8_TEXT, "display": I8_DISPLAY, "latex": I8_LATEX,
+                              "degrees": [8]}]
     assert {c["status"] for s in steps for c in s["checks"]} == set(STATUSES)
 
 
@@ -49,7 +51,8 @@ def test_rebind_only_on_let_bang():
 def test_remainder_table_and_plot_as_plain_data():
     steps = {s["kind"]: s for s in _record()["steps"]}
     assert steps["coefficients"]["remainder"] == {
-        "text": "1/24*p1(T4)^2", "latex": r"\frac{1}{24} p_{1}(T4)^{2}", "degrees": [8]}
+        "text": "1/24*p1(T4)^2", "display": "1/24*p1(T4)^2", "latex": r"\frac{1}{24} p_{1}(T4)^{2}",
+        "degrees": [8]}
     table = steps["table"]["table"]
     assert table["columns"] == ["N", "g", r"a_{\star}"]
     assert [r[2] for r in table["text_rows"]] == [str(a_star(n, g)) for n in (2, 3) for g in (2, 3)]
@@ -68,8 +71,18 @@ def test_undefined_plot_points_become_null():
 
 def test_final_values():
     values = _record()["values"]
-    assert values["I8"] == {"text": I8_TEXT, "latex": I8_LATEX, "degrees": [8]}
+    assert values["I8"] == {"text": I8_TEXT, "display": I8_DISPLAY, "latex": I8_LATEX, "degrees": [8]}
     assert list(values) == ["I8", "kR"]
+
+
+def test_headline_results_and_counts():
+    report = make_report()
+    report.headline = ["kR", "I8"]
+    rec = _record(report)
+    assert list(rec["results"]) == ["kR", "I8"]
+    assert rec["results"]["kR"]["display"] == "(N^3 - N)/12"
+    # steps are counted as steps, checks as checks
+    assert rec["counts"] == {"steps": 8, "checks": 5, "proven": 2, "sampled": 1, "failed": 1, "error": 1}
 
 
 def test_deterministic_text():

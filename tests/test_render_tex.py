@@ -4,8 +4,9 @@ from __future__ import annotations
 
 import re
 
-from compiler.render.tex import (display_value, escape_tex, name_latex, plot_files, prose_tex, to_tex,
-                                 value_lines)
+from compiler.render.printers import LatexPrinter, lines
+from compiler.render.tex import STYLES, display_value, plot_files, to_tex
+from compiler.render.texprose import escape_tex, prose_tex
 from compiler.results import Prose, Report, ValueRecord
 from support import make_report, needs_tex, pdf_text, pdflatex
 
@@ -29,10 +30,12 @@ def _assert_balanced(tex: str) -> None:
 
 
 def test_fragment_balanced_and_not_a_document():
-    tex = to_tex(make_report())
-    _assert_balanced(tex)
-    assert "\\documentclass" not in tex and "\\begin{document}" not in tex
-    assert tex.startswith("\\section*{Anomaly of a twisted compactification}")
+    for style in STYLES:
+        tex = to_tex(make_report(), style=style)
+        _assert_balanced(tex)
+        assert "\\documentclass" not in tex and "\\begin{document}" not in tex
+    assert "\\section{Anomaly of a twisted compactification}" in to_tex(make_report())
+    assert "\\section*{Anomaly of a twisted compactification}" in to_tex(make_report(), style="audit")
 
 
 def test_standalone_article():
@@ -45,7 +48,7 @@ def test_standalone_article():
 
 
 def test_prose_rules():
-    refs = {"kR": ValueRecord("kR", "1/2", r"\frac{1}{2}", [0])}
+    refs = {"kR": ValueRecord("kR", "1/2", r"\frac{1}{2}", [0], ["div", ["int", 1], ["int", 2]])}
     md = ("# Head\n\nSome *em* and **strong** and `c_1^2` and [a link](https://example.org/a_b).\n\n"
           "- one\n- two\n\n1. first\n\n> quoted\n\nvalue @{kR} and $x^2$\n\n$$\na\n\nb\n$$\n")
     tex = prose_tex(md, refs)
@@ -65,67 +68,95 @@ def test_text_specials_escaped():
     assert escape_tex("50% & $x_1$ #{a}~^\\") == (
         r"50\% \& \$x\_1\$ \#\{a\}\textasciitilde{}\textasciicircum{}\textbackslash{}")
     assert escape_tex("α ≤ β") == r"$\alpha$ $\leq$ $\beta$"
-    tex = to_tex(make_report())
+    tex = to_tex(make_report(), style="audit")
     assert "<script>" not in tex
     assert r"Beware \textless{}script\textgreater{}alert(1)" in tex
     assert r"\# \symbol{60}script\symbol{62}alert(1)" in tex  # in a statement's source
 
 
-def test_names_as_math():
-    # written the way the values print their symbols (trailing digits and _parts as subscripts)
-    assert name_latex("I8") == "I_{8}"
-    assert name_latex("a_star") == "a_{*}"
-    assert name_latex("eps_star") == r"\epsilon_{*}"
-    assert name_latex("kRRR") == r"\mathrm{kRRR}"
-    assert name_latex("I8_free") == r"I_{8,\mathrm{free}}"
-    assert name_latex("alpha_1") == r"\alpha_{1}"
-    assert name_latex("") == ""
+def test_typographic_quotes():
+    assert escape_tex('Witten ("Five-brane effective action", 1996)') == \
+        "Witten (``Five-brane effective action'', 1996)"
+    assert escape_tex("the 'trial' charge isn't") == "the `trial' charge isn't"
 
 
 def test_unnamed_value_shows_alone():
-    assert display_value("", "x + 1") == "\\begin{equation*}\nx + 1\n\\end{equation*}\n"
+    assert display_value(LatexPrinter(), "", ["add", ["sym", "x"], ["int", 1]]) == \
+        "\\begin{equation*}\nx + 1\n\\end{equation*}\n"
+
+
+def test_results_numbered_and_labelled_by_name():
+    tex = to_tex(make_report())
+    # the final binding of I8 is the one a paper refers to
+    assert "\\begin{equation}\nI_{8} = " in tex and "\\label{eq:I8}" in tex
+    assert "\\label{eq:kR}" in tex
+    assert tex.count("\\label{eq:") == 2
 
 
 def test_long_values_break_at_top_level_signs_only():
-    short = display_value("x", r"\left(a + b\right)")
-    assert short == "\\begin{equation*}\nx = \\left(a + b\\right)\n\\end{equation*}\n"
-    terms = [rf"\frac{{{k}}}{{48}} p_{{1}}(T_{{{k}}})^{{2}} c_{{1}}(L_{{{k}}})" for k in range(1, 7)]
-    latex = " + ".join(terms) + r" - \left(a - b + c - d\right)"
-    shown = display_value("I", latex)
+    terms = [["mul", ["div", ["int", k], ["int", 48]], ["pow", ["cls", f"p1(T{k})"], 2], ["cls", f"c1(L{k})"]]
+             for k in range(1, 7)]
+    tree = ["add", *terms, ["neg", ["add", ["sym", "a"], ["neg", ["sym", "b"]], ["sym", "c"]]]]
+    shown = display_value(LatexPrinter(), "I", tree, "eq:I")
     _assert_balanced(shown)
-    assert shown.startswith("\\begin{align*}\nI &= ") and "\\\\\n&\\quad + " in shown
-    # auto-sized brackets cannot span lines, so a broken value uses fixed ones
-    lines = value_lines(latex)
-    assert len(lines) > 1 and any(r"\Bigl(a - b + c - d\Bigr)" in line for line in lines)
-    assert " ".join(lines).split() == latex.replace(r"\left", r"\Bigl").replace(r"\right", r"\Bigr").split()
+    assert shown.startswith("\\begin{equation}\n\\begin{split}\nI &= ") and "\\\\\n&\\quad + " in shown
+    assert "- (a - b + c)" in shown  # a short bracket is never cut
+    rows = lines(LatexPrinter(), tree, 30)
+    assert len(rows) > 2
+    assert " ".join(rows).split() == LatexPrinter().doprint(tree).split()  # nothing lost or added
 
 
-def test_long_numerator_opened_into_a_bracket():
-    num = " + ".join(f"{k} N^{{{k}}} g z" for k in range(1, 15))
-    lines = value_lines(rf"-\frac{{{num}}}{{24}} c_{{1}}(R)")
-    assert lines[0].startswith(r"-\frac{1}{24} \Bigl(1 N^{1} g z") and lines[-1].endswith(r"\Bigr) c_{1}(R)")
-    assert " ".join(lines).count("+") == 13  # every term kept
+def test_long_factor_opened_into_a_bracket():
+    sum_ = ["add", *[["mul", ["int", k], ["pow", ["sym", "N"], k], ["sym", "g"], ["sym", "z"]] for k in range(1, 15)]]
+    tree = ["neg", ["mul", ["div", ["mul", ["int", 3], sum_], ["int", 24]], ["cls", "c1(R)"]]]
+    rows = lines(LatexPrinter(), tree, 40)
+    assert rows[0].startswith(r"- \frac{3}{24} \Bigl( 1 N^{1} g z") and rows[-1].endswith(r"\Bigr) c_{1}(R)")
+    assert " ".join(rows).count("+") == 13  # every term kept
 
 
 def test_tables_and_plots():
     report = make_report()
     tex = to_tex(report)
-    assert "\\begin{tabular}{ccc}" in tex and "$N$ & $g$ & $a_{\\star}$ \\\\" in tex
+    assert "\\begin{tabular}{ccc}" in tex and "$N$ & $g$ & $a_{*}$ \\\\" in tex
     assert "$2$ & $2$ & $\\frac{53}{24}$ \\\\" in tex
-    assert "\\includegraphics[width=0.8\\linewidth]{twisted-plot-1.pdf}" in tex
+    assert "\\begin{figure}[htbp]\n\\centering\n\\includegraphics[width=0.8\\linewidth]{twisted-plot-1.pdf}" in tex
+    assert "\\caption{$a_{*}$ against $z$ from $1/2$ to $3$ at $N$~$= 4$, $g$~$= 3$.}" in tex
+    assert "\\label{fig:twisted-plot-1}" in tex
     files = plot_files(report)
     assert list(files) == ["twisted-plot-1.pdf"]
     assert files["twisted-plot-1.pdf"].startswith(b"%PDF")
     assert files == plot_files(make_report())  # reproducible bytes
 
 
-def test_checks_listed_with_status():
-    tex = to_tex(make_report())
+def test_audit_lists_every_check_with_status():
+    tex = to_tex(make_report(), style="audit")
     assert "\\textsc{proven}~homogeneous of degree 8" in tex
     assert "\\textsc{sampled}~claim holds (equal at 24 random points)" in tex
-    assert "\\textbf{FAILED}~claim holds (at N = 2: left 1/2, right 2)" in tex
+    assert "\\textbf{FAILED}~claim holds (at N = 2: left 1/\\allowbreak{}2, right 2)" in tex
     assert "\\textbf{ERROR}~value exists (undefined name missing)" in tex
     assert "\\textsc{not passed}" in tex
+
+
+def test_appendix_shows_claims_as_equations_and_leaves_routine_checks_out():
+    tex = to_tex(make_report())
+    assert "homogeneous of degree 8" not in tex
+    assert "\\begin{equation*}\nk_{R} = ( N ^{3} - N ) / 12\\qquad\\text{(sampled)}\n\\end{equation*}\n" in tex
+    assert "equal at 24 random points" in tex
+    assert "k_{R} = N\\qquad\\text{(FAILED)}" in tex and "at N = 2:" in tex
+    assert "symbol N" not in tex  # declarations are not results
+    # one closing note on how it was verified; the file name, never a path
+    assert "\\paragraph{Verification.}" in tex
+    assert ("Of its 5 checks (2 stated identities, the rest automatic), 2 were proven exactly, "
+            "1 was verified at random rational points (equal at 24 random points) and "
+            "2 failed or could not be evaluated.") in tex
+    assert "from \\texttt{twisted.md}" in tex and "derivations/" not in tex
+
+
+def test_notation_override_reaches_every_view():
+    report = make_report()
+    report.notation = {"I8_free": r"I^{(1)}_{8}", "a_star": r"\hat{a}"}
+    tex = to_tex(report)
+    assert "{I^{(1)}_{8}}" in tex and "${\\hat{a}}$ against $z$" in tex and "& ${\\hat{a}}$ \\\\" in tex
 
 
 def _compile(tmp_path, report) -> str:
@@ -140,9 +171,8 @@ def _compile(tmp_path, report) -> str:
 @needs_tex
 def test_standalone_compiles(tmp_path):
     text = _compile(tmp_path, make_report())
-    for needle in ("Anomaly of a twisted compactification", "let I8 = (N - 1)*I8_free",
-                   "FAILED", "at N = 2: left 1/2, right 2", "angular_integral", "remainder",
-                   "<script>alert(1)</script>", "53"):
+    for needle in ("Anomaly of a twisted compactification", "FAILED", "at N = 2: left 1/2, right 2",
+                   "<script>alert(1)</script>", "53", "Verification."):
         assert needle in text, needle
 
 

@@ -1,4 +1,4 @@
-"""Fibers and fiber integration: surfaces, sphere bundles, general fibers.
+"""Fibers and fiber integration: surfaces, sphere bundles (general fibers: ``general_fibers``).
 
 A fiber owns one group of classes in the graded ring (its own block of the
 monomial order, so fiber classes come first).  Declaring it installs its
@@ -18,7 +18,12 @@ from .graded import AlgebraError, Element, Ring
 
 
 class FiberError(ValueError):
-    """A fiber that cannot be declared or integrated over as written."""
+    """A fiber that cannot be declared or integrated over as written; ``at`` is
+    the index of the integral the problem is about, when there is one."""
+
+    def __init__(self, message: str, at: int | None = None):
+        super().__init__(message)
+        self.at = at
 
 
 @dataclass(frozen=True)
@@ -89,17 +94,6 @@ def integrate(x: Element, fiber: Fiber) -> tuple[Element, list[CrossCheck]]:
 
 def _mono_text(pairs: Pairs) -> str:
     return "*".join(k if e == 1 else f"{k}^{e}" for k, e in pairs) or "1"
-
-
-def _pairs_text(ring: Ring, pairs: Pairs) -> str:
-    return "*".join(ring.generator_info(k).text + ("" if e == 1 else f"^{e}")
-                    for k, e in pairs) or "1"
-
-
-def _generator(ring: Ring, key: str) -> Element:
-    """The registered generator ``key`` as an element."""
-    g = ring.generator_info(key)
-    return ring.generator(key, g.degree, text=g.text, latex=g.latex, group=g.group)
 
 
 def single_generator(element: Element) -> str | None:
@@ -228,135 +222,3 @@ def sphere_fiber(name: str, ring: Ring, group: int, bundle: str, rank: int,
                         bundle=bundle, angular=angular, angular_integral=angular_integral,
                         top_pontryagin=top_pontryagin)
     return fiber.with_planes(planes) if planes else fiber
-
-
-# -- general fibers -------------------------------------------------------------
-
-def declare_fiber_classes(ring: Ring, group: int, classes: Sequence[tuple[str, int]],
-                          dimension: int, name: str) -> dict[str, Element]:
-    """Register a general fiber's classes (before its relations can be parsed)."""
-    if dimension <= 0:
-        raise FiberError(f"the dimension of {name} must be positive, not {dimension}")
-    out = {}
-    for key, degree in classes:
-        if not 0 < degree <= dimension:
-            raise FiberError(f"class {key} of {name} has degree {degree}; it must lie "
-                             f"between 1 and the dimension {dimension}")
-        if degree % 2:
-            raise FiberError(f"class {key} of {name} has odd degree {degree}; odd fiber "
-                             f"classes are not supported")
-        if key in out:
-            raise FiberError(f"class {key} of {name} is declared twice")
-        try:
-            out[key] = ring.generator(key, degree, text=key, latex=key, group=group)
-        except AlgebraError as err:
-            raise FiberError(str(err)) from None
-    if not out:
-        raise FiberError(f"the fiber {name} declares no class")
-    return out
-
-
-def general_fiber(name: str, ring: Ring, group: int, dimension: int,
-                  relations: Sequence[Element],
-                  integrals: Sequence[tuple[Element, Element]]) -> Fiber:
-    """A fiber given by classes (already declared), relations and top integrals.
-
-    The relations become rewrite rules (a Gröbner basis, fiber classes
-    first); monomials of fiber degree above the dimension vanish unless a
-    relation rewrites them.  Every top-degree standard monomial needs exactly
-    one integral; an integral of a non-standard monomial must agree with its
-    normal form's.  ``integrals`` must be built before the relations are
-    installed (they are read as written).
-    """
-    # Read the integrals' monomials as written, before the rules rewrite them.
-    written = []
-    for monomial, value in integrals:
-        terms = monomial.terms()
-        if len(terms) != 1 or terms[0][1] != 1 or not terms[0][0]:
-            raise FiberError(f"an integral over {name} must be of a monomial in its classes, "
-                             f"not of {monomial.to_text()}")
-        pairs = tuple(terms[0][0])
-        foreign = [k for k, _ in pairs if ring.generator_info(k).group != group]
-        if foreign:
-            raise FiberError(f"{', '.join(foreign)} is not a class of the fiber {name}")
-        if not value.is_class_free():
-            raise FiberError(f"the integral of {_pairs_text(ring, pairs)} over {name} must be "
-                             f"a number, not {value.to_text()}")
-        written.append((pairs, value))
-    for relation in relations:
-        if relation.is_zero:
-            continue
-        lead, coefficient = relation.leading_term()
-        if not any(ring.generator_info(k).group == group for k, _ in lead.terms()[0][0]):
-            raise FiberError(f"the relation {relation.to_text()} = 0 of {name} does not "
-                             f"involve the fiber's classes")
-        try:
-            ring.add_rule(lead, lead - relation / coefficient)
-        except AlgebraError as err:
-            raise FiberError(f"relation {relation.to_text()} = 0 of {name}: {err}") from None
-    ring.vanish_above(group, dimension)
-
-    fiber = Fiber(name, ring, group, dimension, {})
-    standard = _top_standard_monomials(ring, group, dimension)
-    table: dict[Pairs, Element] = {}
-    nonstandard = []
-    for pairs, value in written:
-        degree = fiber.fiber_degree(pairs)
-        if degree != dimension:
-            raise FiberError(f"the integral of {_pairs_text(ring, pairs)} over {name} is given, "
-                             f"but it has degree {degree}, not the fiber's dimension {dimension}")
-        if pairs in standard:
-            if pairs in table:
-                raise FiberError(f"the integral of {_pairs_text(ring, pairs)} over {name} is "
-                                 f"given twice")
-            table[pairs] = value
-        else:
-            nonstandard.append((pairs, value))
-    missing = [p for p in standard if p not in table]
-    if missing:
-        raise FiberError(f"the fiber {name} needs the integral of "
-                         + ", ".join(_pairs_text(ring, p) for p in missing))
-    fiber = replace(fiber, integrals=table)
-    for pairs, value in nonstandard:
-        monomial = ring.one()
-        for key, exp in pairs:
-            monomial = monomial * _generator(ring, key) ** exp
-        implied, _ = integrate(monomial, fiber)
-        if implied != value:
-            raise FiberError(
-                f"inconsistent integrals over {name}: {_pairs_text(ring, pairs)} is given "
-                f"{value.to_text()}, but its normal form {monomial.to_text()} integrates to "
-                f"{implied.to_text()}")
-    return fiber
-
-
-def _top_standard_monomials(ring: Ring, group: int, dimension: int) -> list[Pairs]:
-    """Monomials in the group's classes of degree exactly ``dimension`` in normal form."""
-    gens = ring.generators(group)
-    found: list[Pairs] = []
-
-    def walk(i: int, remaining: int, chosen: list):
-        if remaining == 0:
-            pairs = tuple((k, e) for k, e in chosen if e)
-            if ring.is_normal_monomial(pairs):
-                found.append(pairs)
-            return
-        if i == len(gens):
-            return
-        g = gens[i]
-        for e in range(remaining // g.degree, -1, -1):
-            walk(i + 1, remaining - e * g.degree, chosen + [(g.key, e)])
-
-    walk(0, dimension, [])
-    return _in_ring_order(ring, found)
-
-
-def _in_ring_order(ring: Ring, found: list[Pairs]) -> list[Pairs]:
-    """The monomials as the ring prints them (its factor order), deduplicated."""
-    out = []
-    for pairs in found:
-        element = ring.monomial(pairs)
-        canonical = tuple(element.terms()[0][0])
-        if canonical not in out:
-            out.append(canonical)
-    return out

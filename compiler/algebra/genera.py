@@ -16,7 +16,8 @@ construction is complexified.
 
 Spinor convention: for a real bundle of rank 2m or 2m+1,
 ch(S(B)) = prod_{i=1..m} 2 cosh(x_i/2), of rank 2^m; for even rank this is
-S+ + S-, for odd rank the irreducible spinor bundle.
+S+ + S-, for odd rank the irreducible spinor bundle; S+ and S- are its halves
+with ch(S+) - ch(S-) = prod 2 sinh(x_i/2), e = prod x_i fixing the orientation.
 """
 from __future__ import annotations
 
@@ -48,6 +49,8 @@ def _series(name: str, n: int) -> list[Fraction]:
     if name == "L":      # sqrt z / tanh(sqrt z)
         return _series_div([Fraction(1, factorial(2 * k)) for k in range(n + 1)],
                            [Fraction(1, factorial(2 * k + 1)) for k in range(n + 1)])
+    if name == "sinh":   # sinh(sqrt z / 2) / (sqrt z / 2)
+        return [Fraction(1, 4 ** k * factorial(2 * k + 1)) for k in range(n + 1)]
     if name == "spinor":  # 2 cosh(sqrt z / 2)
         return [Fraction(2, 4 ** k * factorial(2 * k)) for k in range(n + 1)]
     if name == "todd":   # x / (1 - exp(-x))
@@ -232,6 +235,17 @@ class BundleValue:
             raise symbolic_rank.refuse(table.get(name).symbolic, f"S({name}), of rank 2^(N/2),")
         sigmas = table.pontryagin_classes(name)
         return cls(2 ** len(sigmas), _genus(table, "spinor", sigmas, 4))
+
+    @classmethod
+    def chiral(cls, table: BundleTable, name: str, sign: int) -> "BundleValue":
+        """S+ (sign 1) or S- (sign -1) of a bundle of even real rank:
+        ch(S+) - ch(S-) = prod 2 sinh(x_i/2) = e(B) prod sinh(x_i/2)/(x_i/2)."""
+        if table.real_rank(name) % 2:
+            raise AlgebraError(f"S+ and S- need a bundle of even rank; {name} has rank "
+                               f"{table.real_rank(name)} (use S({name}))")
+        full = cls.spinor(table, name)
+        odd = table.euler(name) * _genus(table, "sinh", table.pontryagin_classes(name), 4)
+        return cls(full.rank // 2, (full.ch + odd * sign) / 2)
 
     def __add__(self, other: "BundleValue") -> "BundleValue":
         return BundleValue(_known(self.rank, other.rank, int.__add__), self.ch + other.ch)

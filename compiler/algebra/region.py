@@ -139,6 +139,30 @@ class Region:
             return None
         return dataclasses.replace(narrow, symbol=spec.symbol)
 
+    def fixing(self, point: dict) -> "Region":
+        """The region of the symbols ``point`` leaves free: the relations
+        evaluated there, those left with one symbol folded into its bounds
+        (``Nf = 5`` leaves ``Nc < 5 < 3*Nc``).  ValueError if nothing is left."""
+        specs = {s.symbol: s for s in self.specs if s.symbol not in point}
+        relations, bounds = [], {}
+        for rel in self.relations:
+            expr = rel.expr.xreplace(point)
+            if len(expr.free_symbols) > 1:
+                relations.append(dataclasses.replace(rel, expr=expr))
+            elif expr.free_symbols:
+                (symbol,) = expr.free_symbols
+                c = expr.coeff(symbol)
+                op = (">" if c > 0 else "<") + ("" if rel.strict else "=")
+                bounds.setdefault(symbol, []).append((op, Fraction(str(-(expr - c * symbol) / c))))
+        for symbol, extra in bounds.items():
+            spec = specs[symbol]
+            own = [(">" if spec.lower_strict else ">=", spec.lower)] if spec.lower is not None else []
+            own += [("<" if spec.upper_strict else "<=", spec.upper)] if spec.upper is not None else []
+            words = ["integer"] * spec.integer + ["nonzero"] * spec.nonzero
+            narrow = SymbolSpec.declare(spec.name, words, own + extra)
+            specs[symbol] = dataclasses.replace(narrow, symbol=symbol)
+        return Region(tuple(specs.values()), tuple(relations))
+
     # -- sample points ---------------------------------------------------------
 
     def is_enumerated(self, count: int) -> bool:

@@ -12,7 +12,7 @@ import sympy
 
 from ..algebra.graded import Element
 from ..expressions import Missing
-from ..results import STATUSES, CheckResult, PlotData, TableData, ValueRecord
+from ..results import STATUSES, CheckResult, PlotData, TableData, ValueRecord, valid_tree
 
 # ---------------------------------------------------------------- step parts
 
@@ -82,10 +82,19 @@ def _check(c) -> CheckResult:
 
 
 def _record(v) -> ValueRecord:
-    _require(isinstance(v, dict) and set(v) == {"name", "text", "latex", "degrees"}, "value")
+    _require(isinstance(v, dict)
+             and set(v) == {"name", "text", "latex", "degrees", "tree", "unknown_from"}, "value")
     degrees = _list(v["degrees"])
     _require(all(type(d) is int for d in degrees), "degrees")
-    return ValueRecord(_str(v["name"]), _str(v["text"]), _str(v["latex"]), degrees)
+    _require(valid_tree(v["tree"]), "tree")
+    return ValueRecord(_str(v["name"]), _str(v["text"]), _str(v["latex"]), degrees, v["tree"],
+                       precision(v["unknown_from"]))
+
+
+def precision(p):
+    """A stored degree (a known precision): an int or None."""
+    _require(p is None or type(p) is int, "degree")
+    return p
 
 
 def _point(p) -> tuple:

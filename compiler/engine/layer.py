@@ -12,7 +12,7 @@ from typing import Callable
 from .. import names as names_pass
 from ..results import CheckResult, Step
 from .cache import StepCache
-from .entries import restore_step, step_entry, value_from_data, value_to_data
+from .entries import precision, restore_step, step_entry, value_from_data, value_to_data
 
 
 #: The check a step gets when recomputing it disagrees with its cache entry.
@@ -64,6 +64,7 @@ class CacheLayer:
             symbols = {spec.symbol.name: spec.symbol for spec in scope.specs.values()}
             values = {name: value_from_data(scope.ring, name, step.line, data, symbols)
                       for name, data in outputs.items()}
+            exact_to = {name: precision(entry["exact_to"][name]) for name in outputs}
             if (not isinstance(keys, dict) or set(keys) != set(outputs)
                     or not all(isinstance(k, str) for k in keys.values())):
                 return False
@@ -76,7 +77,8 @@ class CacheLayer:
         for name, value in values.items():
             # The key the value had when computed: a rebuilt sympy tree may
             # differ in shape (sympy distributes numbers), never in value.
-            scope.bind(name, "value", value, step.line, shown.get(name), key=keys[name])
+            scope.bind(name, "value", value, step.line, shown.get(name), key=keys[name],
+                       exact_to=exact_to[name])
         return True
 
     def _entry(self, step: Step) -> dict | None:
@@ -87,6 +89,7 @@ class CacheLayer:
             return None
         entry = step_entry(step, outputs)
         entry["keys"] = {name: self.scope.keys[name] for name in outputs}
+        entry["exact_to"] = {name: self.scope.bindings[name].exact_to for name in outputs}
         return entry
 
 
@@ -98,7 +101,8 @@ def _disagreement(fresh: dict, cached: dict) -> str:
             return ", ".join(str(c.get("status")) for c in checks if isinstance(c, dict)) \
                 if isinstance(checks, list) else "?"
         return f"check outcome ({statuses(cached)}; recomputed: {statuses(fresh)})"
-    for part in ("outputs", "values", "remainder", "table", "plot", "summary", "keys"):
+    for part in ("outputs", "exact_to", "values", "remainder", "table", "plot", "summary", "keys"):
         if fresh.get(part) != cached.get(part):
-            return {"outputs": "value", "values": "shown value"}.get(part, part)
+            return {"outputs": "value", "values": "shown value",
+                    "exact_to": "known precision"}.get(part, part)
     return ""

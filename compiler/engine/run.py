@@ -27,6 +27,7 @@ from ..algebra.graded import AlgebraError
 from ..document import Block, ProsePart, read_document
 from ..errors import DocumentError, Location, Problem
 from ..expressions import Missing, MissingValue
+from ..precision import prose_read
 from ..results import CheckResult, Prose, Report, Step, ValueRecord
 from ..statements import nodes as n
 from ..statements.parser import parse_block
@@ -153,8 +154,10 @@ class Run:
         self.counted: set[int] = set()
         #: The line of the step that ran out of build time; later steps do not run.
         self.out_of_time: Optional[int] = None
-        #: Where the running step's own error points (a sub-expression), for its diagnostic.
-        self.error_at: Optional[Location] = None
+        #: Line of an error step → where inside the statement its problem is.
+        self.error_at: dict[int, Location] = {}
+        #: ``@{NAME}`` in prose that show a value beyond its known precision.
+        self.prose_errors = 0
 
     # ------------------------------------------------------------ running
 
@@ -185,12 +188,23 @@ class Run:
             abstract=front.abstract, conventions=scope.report_conventions(),
             truncate=front.truncate, items=items, values=values,
             allow_html=self.options.allow_html, diagnostics=self._diagnostics(),
-            warnings=list(self.document.warnings), cached_steps=self.layer.restored)
+            warnings=list(self.document.warnings), cached_steps=self.layer.restored,
+            prose_errors=self.prose_errors,
+            notation=dict(front.notation), headline=list(front.results))
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
-        """Each @{NAME}: the binding in force at that line, else the first one."""
-        return {ref.name: _at(self.scope.history[ref.name], ref.line)
-                for ref in part.refs if self.scope.history.get(ref.name)}
+        """Each @{NAME}: the binding in force at that line, else the first one.
+        Showing a value that is not known in every degree it reads is an error."""
+        shown = {}
+        for ref in part.refs:
+            if self.scope.history.get(ref.name):
+                rec = shown[ref.name] = _at(self.scope.history[ref.name], ref.line)
+                problem = prose_read(rec, self.scope.ring.truncate, f"@{{{ref.name}}}")
+                if problem:
+                    self.prose_errors += 1
+                    self.problems.append([Problem(Location(self.path, ref.line, ref.column),
+                                                  problem), 0])
+        return shown
 
     def run_statement(self, index: int, s) -> Step:
         """One statement; a ``use`` first runs its document's statements
@@ -264,9 +278,9 @@ class Run:
                     origin: int | None = None) -> None:
         """An error step: everything the statement would have bound has no value."""
         step.checks.append(CheckResult(STEP_RUNS, "error", problem.message))
+        self.error_at[s.line] = problem.location
         self.scope.bind_missing(names_pass.bound_names(s), s.line)
         if not follow_on:
-            self.error_at = problem.location
             return
         root = self.roots.get(origin, origin)
         self.roots[s.line] = root
@@ -279,7 +293,6 @@ class Run:
 
     def _note(self, step: Step, s) -> None:
         """One diagnostic for each failed or errored check a step has (its own, not a follow-on)."""
-        error_at, self.error_at = self.error_at, None
         if s.line in self.counted:
             return
         for check in step.checks:
@@ -287,7 +300,9 @@ class Run:
                 continue
             form = MESSAGES.get((check.status, check.what), MESSAGES[check.status])
             message = form.format(what=check.what, detail=check.detail).removesuffix(": ")
-            where = error_at if check.what == STEP_RUNS and error_at else Location(self.path, s.line, s.column)
+            where = Location(self.path, s.line, s.column)
+            if check.what == STEP_RUNS:
+                where = self.error_at.get(s.line, where)
             self.problems.append([Problem(where, message), 0])
         if s.line == self.out_of_time:  # the steps it keeps from running are counted on its line
             self.follow_ons[s.line] = len(self.problems) - 1

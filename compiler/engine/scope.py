@@ -18,14 +18,18 @@ import sympy
 from .. import names as names_pass, notation
 from ..algebra import bundles as bundles_mod
 from ..algebra.graded import Element, Ring
-from ..algebra.sampling import SymbolSpec
+from ..algebra.sampling import SymbolSpec, describe_point
 from ..checks import Context
 from ..errors import DocumentError, Location
 from ..expressions import Evaluator, Missing, MissingValue, Scope, Value, from_expr, rational_value
+from ..precision import Known, Precision, unknown_above
 from ..results import ValueRecord
+from ..presentation import display_tree
+from ..render.printers import LatexPrinter
 from ..statements import nodes as n
 from .cache import digest
 from .entries import value_to_data
+from .symbols import document_region
 
 #: Most points a ``for`` list may expand to (every combination is computed).
 MAX_POINTS = 10_000
@@ -36,6 +40,7 @@ class Binding:
     kind: str  # symbol, convention, bundle, fiber, class, value, function
     value: object
     line: int
+    exact_to: Precision = None  # a value's known precision (see compiler.precision)
 
 
 class DocScope(Scope):
@@ -49,18 +54,10 @@ class DocScope(Scope):
         self.used: dict[str, list] = {}
         self.reported: set[str] = set()
         self.conventions = _conventions(path, document, statements, overrides)
-        self.specs: dict[sympy.Symbol, SymbolSpec] = {}
-        self.symbols_by_name: dict[str, SymbolSpec] = {}
-        for s in statements:
-            if isinstance(s, n.SymbolDecl):
-                for name in s.names:
-                    bounds = [(b.op, b.value) for b in s.bounds if b.name == name]
-                    try:
-                        spec = SymbolSpec.declare(name, s.assumptions, bounds)
-                    except ValueError as exc:
-                        raise DocumentError(Location(path, s.line, s.column), str(exc)) from None
-                    self.symbols_by_name[name] = spec
-                    self.specs[spec.symbol] = spec
+        #: The declared symbols and the relations between them.
+        self.region = document_region(path, statements)
+        self.specs: dict[sympy.Symbol, SymbolSpec] = {s.symbol: s for s in self.region.specs}
+        self.symbols_by_name: dict[str, SymbolSpec] = {s.name: s for s in self.region.specs}
         self.ring = Ring(list(self.specs), document.front.truncate)
         self.bundles = bundles_mod.BundleTable(self.ring)
         self.groups = 0
@@ -92,6 +89,9 @@ class DocScope(Scope):
             return "symbol", self.ring.symbol(binding.value.symbol)
         return binding.kind, binding.value
 
+    def exact_to(self, name: str) -> Precision:
+        return self.bindings[name].exact_to
+
     def note_class_use(self, bundle: str, line: int) -> None:
         """A value at ``line`` uses the classes of ``bundle`` and of its parts."""
         self.class_uses.setdefault(bundle, line)
@@ -100,13 +100,14 @@ class DocScope(Scope):
                 self.note_class_use(part, line)
 
     def bind(self, name: str, kind: str, value, line: int, shown: ValueRecord | None = None,
-             key: str | None = None) -> None:
+             key: str | None = None, exact_to: Precision = None) -> None:
         """Bind ``name``; ``key`` is its cache key when known (a restored value)."""
-        self.bindings[name] = Binding(kind, value, line)
-        self.keys[name] = key or self.value_key(name, kind, value)
+        self.bindings[name] = Binding(kind, value, line, exact_to)
+        self.keys[name] = key or self.value_key(name, kind, value, exact_to)
         if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
             if shown is None:
-                shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value)
+                shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value,
+                               unknown_above(exact_to, self.ring.truncate))
             self.history.setdefault(name, []).append((line, shown))
 
     def bind_missing(self, names, line: int) -> None:
@@ -115,26 +116,34 @@ class DocScope(Scope):
             binding = self.bindings.get(name)
             self.bind(name, binding.kind if binding is not None else "value", Missing(name, line), line)
 
-    def value_key(self, name: str, kind: str, value) -> str:
+    def value_key(self, name: str, kind: str, value, exact_to: Precision = None) -> str:
         """A value's cache key is its content, so an edit that gives the same
         value again recomputes nothing downstream; anything else is keyed by
         the step that bound it."""
         if kind == "value" and not isinstance(value, Missing):
             try:
-                return digest(self.ring_key, value_to_data(value))
+                return digest(self.ring_key, value_to_data(value), exact_to)
             except ValueError:  # a value the cache cannot keep
                 pass
         return digest(self.step_key, name)
 
-    def output(self, step, name: str, value: Value, line: int) -> None:
-        """Bind an output and show it in the step."""
+    def output(self, step, name: str, value: Value, line: int, exact_to: Precision = None) -> None:
+        """Bind an output (exact up to degree ``exact_to``) and show it in the step."""
         if isinstance(value, sympy.Expr):
             value = from_expr(self.ring, value)
-        self.bind(name, "value", value, line)
+        self.bind(name, "value", value, line, exact_to=exact_to)
         step.values.append(self.history[name][-1][1])
 
     def evaluate(self, expr) -> Value:
         return self.evaluator.evaluate(expr)
+
+    def known(self, expr) -> Known:
+        """A value with the degree up to which it is exact."""
+        return self.evaluator.known(expr)
+
+    def read(self, expr, degree: int | None = None) -> Value:
+        """A value read in ``degree`` (None: whole); an error beyond its precision."""
+        return self.evaluator.read(expr, degree).value
 
     @contextmanager
     def reading(self, path: str):
@@ -164,7 +173,7 @@ class DocScope(Scope):
         return f"{Path(self.path).name}:{line}"
 
     def context(self, line: int) -> Context:
-        return Context(self.ring, self.specs, self.seed(line))
+        return Context(self.ring, self.specs, self.seed(line), self.region.relations)
 
     def points(self, clauses) -> list[dict]:
         """Every combination of a ``for`` list, checked against assumptions."""
@@ -179,7 +188,7 @@ class DocScope(Scope):
                     raise self.fail(c, f"empty range {low}..{high}")
                 values = [Fraction(v) for v in range(low, high + 1)]
             else:
-                value = rational_value(self.evaluate(c.value))
+                value = rational_value(self.read(c.value, 0))
                 if value is None:
                     raise self.fail(c, f"the value given to {c.name} must be an exact number")
                 values = [value]
@@ -192,7 +201,16 @@ class DocScope(Scope):
         if total > MAX_POINTS:
             raise self.fail(clauses[0], f"the for ranges give {total} points; "
                                         f"at most {MAX_POINTS} are checked")
-        return [dict(combo) for combo in itertools.product(*axes)] if axes else []
+        points = [dict(combo) for combo in itertools.product(*axes)] if axes else []
+        for point in points:
+            broken = self.region.violations(point)
+            try:
+                self.region.fixing(point)
+            except ValueError as exc:  # it leaves another symbol no value
+                broken.append(f"at {describe_point(point)}, {exc}")
+            if broken:
+                raise self.fail(clauses[0], f"the point is outside the declared region: {broken[0]}")
+        return points
 
 
 def _conventions(path: str, document, statements, overrides: dict) -> dict[str, Fraction]:
@@ -215,8 +233,14 @@ def fraction_text(value: Fraction) -> str:
     return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
 
 
-def record(name: str, value: Value) -> ValueRecord:
-    """A value as the renderers see it."""
-    if isinstance(value, Element):
-        return ValueRecord(name, value.to_text(), value.to_latex(), value.degrees())
-    return ValueRecord(name, notation.text(value), notation.latex(value), [] if value == 0 else [0])
+def record(name: str, value: Value, unknown_from: int | None = None) -> ValueRecord:
+    """A value as the renderers see it: normal-form text, display tree and its
+    LaTeX; ``unknown_from`` is the degree from which it is not known (shown as
+    an order term, like a series' O(x^n))."""
+    tree = display_tree(value)
+    text = value.to_text() if isinstance(value, Element) else notation.text(value)
+    degrees = value.degrees() if isinstance(value, Element) else [] if value == 0 else [0]
+    if unknown_from is not None:
+        tree = ["add", *(tree[1:] if tree[0] == "add" else [tree]), ["order", unknown_from]]
+        text += f" + O(degree >= {unknown_from})"
+    return ValueRecord(name, text, LatexPrinter().doprint(tree), degrees, tree, unknown_from)

@@ -8,15 +8,21 @@ loads nothing: no scripts, fonts or images from anywhere.
 """
 from __future__ import annotations
 
+import re
 from pathlib import Path
 
 import jinja2
 from markupsafe import Markup, escape
 
 from compiler.markdown import expand_refs, make_markdown
-from compiler.render.mathml import to_mathml
+from compiler.render.claims import extremum_rows
+from compiler.render.mathml import math_element, to_mathml
+from compiler.render.notation import name_tree
+from compiler.render.printers import LatexPrinter, MathMLPrinter, lines
+
+_tex_width = LatexPrinter.measure
 from compiler.render.templates import loader
-from compiler.render.tex import aligned_body, degrees_text, name_latex, value_lines
+from compiler.render.tex import degrees_text
 from compiler.results import STATUSES, PlotData, Report, Step, ValueRecord
 
 GLYPHS = {"proven": "\u2713", "sampled": "\u2248", "failed": "\u2717", "error": "!"}
@@ -28,7 +34,8 @@ GLYPHS = {"proven": "\u2713", "sampled": "\u2248", "failed": "\u2717", "error": 
 
 def _math(token, env) -> str:
     """A math token's LaTeX with its @{NAME} values spliced in."""
-    return expand_refs(token.content.strip(), {k: v.latex for k, v in env["refs"].items()})
+    latex = env["latex"]
+    return expand_refs(token.content.strip(), {k: latex.doprint(v.tree) for k, v in env["refs"].items()})
 
 
 def _math_inline(self, tokens, idx, options, env) -> str:
@@ -39,8 +46,27 @@ def _math_inline_double(self, tokens, idx, options, env) -> str:
     return to_mathml(_math(tokens[idx], env), display=True)
 
 
+_SPACING = re.compile(r"\\q?quad(?![A-Za-z])")
+
+
+def _display_rows(latex: str) -> list[str]:
+    """An author's display cut at its top-level ``\\quad``/``\\qquad`` when it
+    is too wide for the column (browsers do not break MathML lines)."""
+    if _tex_width(latex) <= WIDTH:
+        return [latex]
+    rows, start, depth = [], 0, 0
+    for i, ch in enumerate(latex):
+        depth += {"{": 1, "}": -1}.get(ch, 0) if latex[i - 1:i] != "\\" else 0
+        if depth == 0 and (m := _SPACING.match(latex, i)):
+            rows.append(latex[start:i])
+            start = m.end()
+    rows.append(latex[start:])
+    return [r for r in rows if r.strip()]
+
+
 def _math_block(self, tokens, idx, options, env) -> str:
-    return f'<div class="display">{to_mathml(_math(tokens[idx], env), display=True)}</div>\n'
+    rows = _display_rows(_math(tokens[idx], env))
+    return f'<div class="display">{"".join(to_mathml(r, display=True) for r in rows)}</div>\n'
 
 
 def _math_block_label(self, tokens, idx, options, env) -> str:
@@ -49,8 +75,10 @@ def _math_block_label(self, tokens, idx, options, env) -> str:
     return f'<div class="display">{math}<span class="eqno">({escape(t.info)})</span></div>\n'
 
 
-#: LaTeX length beyond which an @{NAME} value is set as display math.
-LONG_INLINE = 90
+#: Printed characters beyond which an @{NAME} value is set as display math.
+LONG_INLINE = 30
+#: Printed characters per line of a displayed value: what a 36rem column holds.
+WIDTH = 46
 
 
 def _value_ref(self, tokens, idx, options, env) -> str:
@@ -58,8 +86,12 @@ def _value_ref(self, tokens, idx, options, env) -> str:
     ref = env["refs"].get(t.meta["name"])
     if ref is None:
         return f'<span class="unknown-ref" title="no such value">{escape(t.content)}</span>'
+    printer = env["mathml"]
+    inline = printer.doprint(ref.tree)
+    if printer.measure(inline) <= LONG_INLINE:
+        return math_element(inline)
     # A long value cannot wrap inside a line of prose: set it on its own line.
-    return to_mathml(ref.latex, display=len(ref.latex) > LONG_INLINE)
+    return value_math(printer, "", ref.tree)
 
 
 def _image(self, tokens, idx, options, env) -> str:
@@ -88,23 +120,39 @@ def _markdown(allow_html: bool):
 # ---------------------------------------------------------------- filters
 
 
-def _plot_svg(p: PlotData) -> Markup:
+def _plot_svg(p: PlotData, notation: dict[str, str]) -> Markup:
     from compiler.render.plots import plot_svg  # matplotlib loads only for documents with plots
 
-    return Markup(plot_svg(p))
+    return Markup(plot_svg(p, notation))
 
 
-def _value_math(v: ValueRecord) -> Markup:
-    """``name = value`` as display math, aligned over several lines when long
-    (browsers do not break MathML lines); a ``show`` of an expression has no name."""
-    lhs = name_latex(v.name)
-    lines = value_lines(v.latex)
-    if len(lines) == 1:
-        return to_mathml(f"{lhs} = {v.latex}" if lhs else v.latex, display=True)
-    return to_mathml(f"\\begin{{split}}{aligned_body(lhs, lines)}\\end{{split}}", display=True)
+def value_math(printer: MathMLPrinter, name: str, tree: list) -> Markup:
+    """``name = value`` as display math, as an aligned table of lines when
+    long (browsers do not break MathML lines); an empty name shows the value."""
+    lhs = printer.doprint(name_tree(name, printer.notation)) + "<mo>=</mo>" if name else ""
+    rows = lines(printer, tree, WIDTH - printer.measure(lhs))
+    if len(rows) == 1:
+        return math_element(lhs + rows[0], display=True)
+    indent = '<mspace width="1em"></mspace>'
+    cells = "".join(f'<mtr><mtd columnalign="right">{lhs if i == 0 else ""}</mtd>'
+                    f'<mtd columnalign="left">{indent if i else ""}{row}</mtd></mtr>'
+                    for i, row in enumerate(rows))
+    return math_element(f'<mtable displaystyle="true" columnalign="right left" columnspacing="0">{cells}</mtable>',
+                        display=True)
 
 
-def _environment() -> jinja2.Environment:
+def _extremum(check, printer: LatexPrinter) -> Markup:
+    """An extremization's critical points, kept root and second-order test as math."""
+    rows = extremum_rows(check.detail, printer, WIDTH - 10) if check.detail else None
+    if rows is None:
+        return Markup("")
+    items = "".join(f'<li><span class="label">{escape(label)}</span>'
+                    + "".join(to_mathml(line, display=True) for line in lines) + "</li>"
+                    for label, lines in rows)
+    return Markup(f'<ul class="extremum">{items}</ul>')
+
+
+def _environment(report: Report) -> jinja2.Environment:
     env = jinja2.Environment(
         loader=loader(),
         autoescape=True,
@@ -112,11 +160,15 @@ def _environment() -> jinja2.Environment:
         lstrip_blocks=True,
         undefined=jinja2.StrictUndefined,
     )
+    printer = MathMLPrinter(report.notation)
     env.filters.update(
         math=to_mathml,
-        value_math=_value_math,
+        value_math=lambda v: value_math(printer, v.name, v.tree),
+        tree_math=lambda tree: value_math(printer, "", tree),
+        name_math=lambda name: math_element(printer.doprint(name_tree(name, report.notation))),
         degrees=degrees_text,
-        svg=_plot_svg,
+        svg=lambda p: _plot_svg(p, report.notation),
+        extremum=lambda c: _extremum(c, LatexPrinter(report.notation)),
     )
     env.globals.update(glyphs=GLYPHS)
     return env
@@ -125,18 +177,20 @@ def _environment() -> jinja2.Environment:
 def to_html(report: Report) -> str:
     """The report as one HTML page with the stylesheet inlined."""
     md = _markdown(report.allow_html)
+    printers = {"mathml": MathMLPrinter(report.notation), "latex": LatexPrinter(report.notation)}
 
     def prose(markdown: str, refs: dict[str, ValueRecord]) -> Markup:
         # Trusted only because markdown-it escapes all text (raw HTML too unless allowed).
-        return Markup(md.render(markdown, {"refs": refs}))
+        return Markup(md.render(markdown, {"refs": refs, **printers}))
 
     counts = {s: report.count(s) for s in STATUSES}
     flagged = [s for s in report.steps if s.status in ("failed", "error")]
-    return _environment().get_template("report.html.j2").render(
+    return _environment(report).get_template("report.html.j2").render(
         r=report,
         title=report.title or Path(report.document).stem,
         prose=prose,
         counts=counts,
         flagged=flagged,
+        headline=[report.values[n] for n in report.headline if n in report.values],
         is_step=lambda item: isinstance(item, Step),
     )

@@ -9,11 +9,15 @@ from __future__ import annotations
 import json
 import math
 
-from compiler.results import CheckResult, PlotData, Report, Step, TableData, ValueRecord
+from compiler.render.printers import TextPrinter
+from compiler.results import STATUSES, CheckResult, PlotData, Report, Step, TableData, ValueRecord
 
 
 def _value(v: ValueRecord) -> dict:
-    return {"text": v.text, "latex": v.latex, "degrees": list(v.degrees)}
+    """``text`` is the normal form (what diffs compare), ``display`` the form
+    a reader sees, in the same syntax; both read back to the same value."""
+    return {"text": v.text, "display": TextPrinter().doprint(v.tree), "latex": v.latex,
+            "degrees": list(v.degrees)}
 
 
 def _check(c: CheckResult) -> dict:
@@ -75,6 +79,10 @@ def to_record(report: Report) -> dict:
         "steps": [step_record(s) for s in report.steps],
         "values": {name: _value(v) for name, v in report.values.items()},
         "cached_steps": report.cached_steps,
+        # after the keys the format fixes: the headline values, and steps and checks counted apart
+        "results": {name: _value(report.values[name]) for name in report.headline if name in report.values},
+        "counts": {"steps": len(report.steps), "checks": report.check_count,
+                   **{status: report.count(status) for status in STATUSES}},
     }
 
 

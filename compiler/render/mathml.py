@@ -1,4 +1,7 @@
-"""LaTeX → MathML for the HTML report, made safe for a stranger's document.
+"""LaTeX → MathML for the author's own math, made safe for a stranger's document.
+
+Computed values never come this way (``printers.MathMLPrinter`` writes them
+directly); prose math and ``notation`` overrides do.
 
 The converter copies ``\\text{...}`` verbatim and turns ``\\href`` and
 ``\\style`` into attributes, so its serialized string could carry a script or
@@ -58,3 +61,22 @@ def to_mathml(latex: str, display: bool = False) -> Markup:
     out: list[str] = []
     _write(tree, out)
     return Markup("".join(out))
+
+
+def inner_mathml(latex: str) -> Markup:
+    """``latex`` as MathML content for use inside a ``<math>`` we write."""
+    out: list[str] = []
+    try:
+        tree = convert_to_element(latex)
+    except Exception:  # noqa: BLE001 - checked by the front matter reader; never abort a report
+        return Markup(f"<mtext>{escape(latex)}</mtext>")
+    for child in tree:
+        _write(child, out)
+    return Markup("".join(out))
+
+
+def math_element(body: str, display: bool = False) -> Markup:
+    """A ``<math>`` around MathML we generated ourselves; one ``<mrow>``
+    inside, since the stylesheet makes display math a CSS block."""
+    attribute = ' display="block"' if display else ""
+    return Markup(f"<math{attribute}><mrow>{body}</mrow></math>")

@@ -11,6 +11,8 @@ import hashlib
 import io
 import re
 
+from compiler.render.notation import name_tree
+from compiler.render.printers import LatexPrinter
 from compiler.results import PlotData
 
 _PROLOG = re.compile(r"^.*?(?=<svg)", re.S)
@@ -18,11 +20,16 @@ _METADATA = re.compile(r"<metadata>.*?</metadata>\s*", re.S)
 _XMLNS = re.compile(r'\s+xmlns(?::\w+)?="[^"]*"')
 
 
-def _label(plot: PlotData) -> str:
-    return ", ".join(f"{k} = {v}" for k, v in plot.fixed.items())
+def _name(name: str, notation: dict[str, str]) -> str:
+    """A name as matplotlib mathtext, by the same rule as the report's math."""
+    return f"${LatexPrinter(notation).doprint(name_tree(name, notation))}$"
 
 
-def _draw(plot: PlotData, fmt: str, metadata: dict) -> bytes:
+def _label(plot: PlotData, notation: dict[str, str]) -> str:
+    return ", ".join(f"{_name(k, notation)} = {v}" for k, v in plot.fixed.items())
+
+
+def _draw(plot: PlotData, fmt: str, metadata: dict, notation: dict[str, str]) -> bytes:
     """Render ``plot`` in ``fmt``; the id salt is a digest of the plot itself,
     so two plots in one page do not share element ids yet each is reproducible."""
     import matplotlib
@@ -37,9 +44,10 @@ def _draw(plot: PlotData, fmt: str, metadata: dict) -> bytes:
         ax = fig.subplots()
         ax.set_facecolor("none")
         for name, points in plot.curves.items():
-            ax.plot([x for x, _ in points], [y for _, y in points], label=name, linewidth=1.4)
-        ax.set_xlabel(plot.variable)
-        title = _label(plot)
+            label = _name(name, notation) if not name.startswith("curve ") else name
+            ax.plot([x for x, _ in points], [y for _, y in points], label=label, linewidth=1.4)
+        ax.set_xlabel(_name(plot.variable, notation))
+        title = _label(plot, notation)
         if title:
             ax.set_title(title, fontsize=9, loc="left")
         ax.legend(frameon=False)
@@ -50,14 +58,14 @@ def _draw(plot: PlotData, fmt: str, metadata: dict) -> bytes:
     return buf.getvalue()
 
 
-def plot_svg(plot: PlotData) -> str:
+def plot_svg(plot: PlotData, notation: dict[str, str]) -> str:
     """A bare ``<svg>`` element for inlining in HTML (HTML5 supplies the namespace)."""
-    svg = _draw(plot, "svg", {"Date": None}).decode("utf-8")
+    svg = _draw(plot, "svg", {"Date": None}, notation).decode("utf-8")
     svg = _METADATA.sub("", _PROLOG.sub("", svg, count=1))
     svg = svg.replace("xlink:href=", "href=").replace("*{stroke", "svg *{stroke")
     return _XMLNS.sub("", svg, count=0).strip()
 
 
-def plot_pdf(plot: PlotData) -> bytes:
+def plot_pdf(plot: PlotData, notation: dict[str, str]) -> bytes:
     """The plot as a PDF for ``\\includegraphics``."""
-    return _draw(plot, "pdf", {"CreationDate": None, "ModDate": None})
+    return _draw(plot, "pdf", {"CreationDate": None, "ModDate": None}, notation)

@@ -1,297 +1,45 @@
-"""The LaTeX appendix: the same derivation, typeset for a paper.
+"""The ``.tex`` output: an appendix for a paper, or the full audit listing.
 
-Prose arrives as Markdown tokens and is turned into LaTeX by a table of
-render rules, one small function per token type, the way markdown-it renders
-HTML.  Values arrive as LaTeX already (the notation is settled upstream);
-here they are only placed in ``equation*``/``align*``.  The fragment uses
-nothing beyond amsmath, amssymb and graphicx and the default font encoding,
-so it can be pasted into any standard article.
+``appendix`` (the default) is what a paper's appendix holds: the prose, each
+computed result as a numbered equation labelled ``eq:NAME`` (the final
+binding of a name; earlier ones get ``eq:NAME-LINE``), each ``check`` as the
+equation it asserts with its status, plots as figures, and one closing
+paragraph on how it was verified.  Declarations and routine checks are left
+out.  ``audit`` lists every statement with its line, values and checks.
+Both use nothing beyond amsmath, amssymb and graphicx, standalone or
+``\\input`` into an article.
 """
 from __future__ import annotations
 
 import re
-import unicodedata
 from pathlib import Path
-from typing import Callable
 
 import jinja2
 
-from compiler.errors import InternalError
-from compiler.markdown import expand_refs, make_markdown
-from compiler.notation import name_latex
+from compiler.render.claims import claim_latex
+from compiler.render.notation import name_tree
+from compiler.render.printers import LatexPrinter, lines
 from compiler.render.templates import loader
+from compiler.render.texprose import WIDTH, code_lines, escape_code, escape_detail, escape_tex, prose_tex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 
-
-# ------------------------------------------------------------------ escaping
-
-_TEXT_SPECIALS = {
-    "\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#",
-    "_": r"\_", "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}",
-    "^": r"\textasciicircum{}", "<": r"\textless{}", ">": r"\textgreater{}",
-    "|": r"\textbar{}", "\u00a0": "~", "\u2026": r"\dots{}",
-}
-# Characters a physicist types in prose that the default encoding lacks.
-_MATH_CHARS = {
-    "\u2212": "-", "\u00d7": r"\times", "\u00b7": r"\cdot", "\u2264": r"\leq",
-    "\u2265": r"\geq", "\u2260": r"\neq", "\u2192": r"\to", "\u222b": r"\int",
-    "\u221e": r"\infty", "\u2248": r"\approx", "\u00b1": r"\pm", "\u2211": r"\sum",
-    "\u2202": r"\partial", "\u2297": r"\otimes", "\u2295": r"\oplus",
-    "\u03b5": r"\varepsilon", "\u03c6": r"\varphi",
-}
-_GREEK_WORDS = ("alpha beta gamma delta zeta eta theta iota kappa lambda mu nu xi pi rho "
-                "sigma tau upsilon chi psi omega").split()
-for _g in _GREEK_WORDS:
-    _MATH_CHARS.setdefault(unicodedata.lookup(f"GREEK SMALL LETTER {_g.replace('lambda', 'lamda')}"), "\\" + _g)
-for _g in "Gamma Delta Theta Lambda Xi Pi Sigma Upsilon Phi Psi Omega".split():
-    _MATH_CHARS[unicodedata.lookup(f"GREEK CAPITAL LETTER {_g.replace('Lambda', 'Lamda')}")] = "\\" + _g
-_TEXT_MAP = {**_TEXT_SPECIALS, **{c: f"${m}$" for c, m in _MATH_CHARS.items()}}
-# The typewriter font has every ASCII character in its own slot, so code
-# shows the real glyphs (straight quotes, a true backslash) in any encoding.
-_CODE_MAP = {**_TEXT_MAP, **{ch: f"\\symbol{{{ord(ch)}}}" for ch in "\\{}^~_<>|'`\""}}
+STYLES = ("appendix", "audit")
+#: Statements that only declare: the appendix leaves them out.
+DECLARATIONS = frozenset({"symbol", "convention", "bundle", "split", "fiber", "surface", "sphere"})
 
 
-def escape_tex(text: str) -> str:
-    """Plain text safe for LaTeX: specials escaped, common symbols as math."""
-    return "".join(_TEXT_MAP.get(ch, ch) for ch in text)
-
-
-def _escape_code(text: str) -> str:
-    return "".join(_CODE_MAP.get(ch, ch) for ch in text)
-
-
-def code_lines(text: str, number: int | None = None) -> str:
-    """Monospace lines that keep their indentation and may break at spaces;
-    ``number`` (a source line) hangs in the left margin."""
-    lines = []
-    for line in text.rstrip("\n").split("\n"):
-        stripped = line.lstrip(" ")
-        indent = "~" * (len(line) - len(stripped))
-        lines.append(indent + _escape_code(stripped) if line else r"\mbox{}")
-    margin = f"\\noindent\\llap{{\\scriptsize\\rmfamily {number}\\quad}}" if number is not None else ""
-    return "{\\small\\ttfamily\\frenchspacing\\raggedright\n" + margin + "\\\\\n".join(lines) + "\\par}\n"
-
-
-# ------------------------------------------------------- prose: token rules
-
-
-class _TexWriter:
-    """Walks markdown-it tokens; ``RULES`` maps each token type to its LaTeX."""
-
-    def __init__(self, refs: dict[str, ValueRecord]):
-        self.refs = refs
-        self.links: list[tuple[str, bool]] = []  # (href, is autolink) of open links
-
-    def render(self, tokens) -> str:
-        return "".join(RULES.get(t.type, _unknown)(self, t) for t in tokens)
-
-    def math(self, token) -> str:
-        """A math token's LaTeX with its @{NAME} values spliced in."""
-        return expand_refs(token.content, {k: v.latex for k, v in self.refs.items()})
-
-
-def _unknown(w: _TexWriter, t) -> str:
-    raise InternalError(f"no LaTeX rule for Markdown token {t.type!r}")
-
-
-_HEADINGS = {"h1": "subsection*", "h2": "subsection*", "h3": "subsubsection*"}
-
-
-def _heading_open(w, t) -> str:
-    return "\\" + _HEADINGS.get(t.tag, "paragraph*") + "{"
-
-
-def _link_open(w, t) -> str:
-    w.links.append((t.attrs.get("href", ""), t.markup == "autolink"))
-    return ""
-
-
-def _link_close(w, t) -> str:
-    href, auto = w.links.pop()
-    return "" if auto else "\\footnote{\\texttt{" + _escape_code(href) + "}}"
-
-
-def _math_block(content: str, tag: str = "") -> str:
-    # A blank line inside display math is a paragraph break, which LaTeX rejects.
-    body = "\n".join(line for line in content.strip().split("\n") if line.strip())
-    tagged = f" \\tag{{{escape_tex(tag)}}}" if tag else ""
-    return f"\\begin{{equation*}}\n{body}{tagged}\n\\end{{equation*}}\n"
-
-
-def _value_ref(w, t) -> str:
-    name = t.meta["name"]
-    if name not in w.refs:
-        return r"\textbf{??}\," + escape_tex(t.content)
-    latex = w.refs[name].latex
-    lines = value_lines(latex)
-    if len(lines) == 1:
-        return f"${latex}$"
-    # Too long for a line of prose: display it, broken at top-level signs.
-    return "\\begin{multline*}\n" + "\\\\\n".join(lines) + "\n\\end{multline*}\n"
-
-
-Rule = Callable[[_TexWriter, object], str]
-RULES: dict[str, Rule] = {
-    "front_matter": lambda w, t: "",
-    "paragraph_open": lambda w, t: "",
-    "paragraph_close": lambda w, t: "" if t.hidden else "\n\n",  # hidden: tight list item
-    "heading_open": _heading_open,
-    "heading_close": lambda w, t: "}\n\n",
-    "inline": lambda w, t: w.render(t.children or []),
-    "bullet_list_open": lambda w, t: "\\begin{itemize}\n",
-    "bullet_list_close": lambda w, t: "\\end{itemize}\n\n",
-    "ordered_list_open": lambda w, t: "\\begin{enumerate}\n",
-    "ordered_list_close": lambda w, t: "\\end{enumerate}\n\n",
-    "list_item_open": lambda w, t: "\\item ",
-    "list_item_close": lambda w, t: "\n",
-    "blockquote_open": lambda w, t: "\\begin{quote}\n",
-    "blockquote_close": lambda w, t: "\\end{quote}\n\n",
-    "code_block": lambda w, t: code_lines(t.content) + "\n",
-    "fence": lambda w, t: code_lines(t.content) + "\n",
-    "html_block": lambda w, t: code_lines(t.content) + "\n",
-    "hr": lambda w, t: "\\par\\medskip\\noindent\\hrulefill\\par\\medskip\n\n",
-    "math_block": lambda w, t: _math_block(w.math(t)),
-    "math_block_label": lambda w, t: _math_block(w.math(t), t.info),
-    "text": lambda w, t: escape_tex(t.content),
-    "softbreak": lambda w, t: "\n",
-    "hardbreak": lambda w, t: "\\\\\n",
-    "em_open": lambda w, t: "\\emph{",
-    "em_close": lambda w, t: "}",
-    "strong_open": lambda w, t: "\\textbf{",
-    "strong_close": lambda w, t: "}",
-    "code_inline": lambda w, t: "\\texttt{" + _escape_code(t.content) + "}",
-    "link_open": _link_open,
-    "link_close": _link_close,
-    "image": lambda w, t: "[" + escape_tex(t.content or "image") + "]",
-    "html_inline": lambda w, t: escape_tex(t.content),
-    "math_inline": lambda w, t: f"${w.math(t)}$",
-    "math_inline_double": lambda w, t: "\\[" + w.math(t).strip() + "\\]",
-    "value_ref": _value_ref,
-}
-
-
-def prose_tex(markdown: str, refs: dict[str, ValueRecord], allow_html: bool = False) -> str:
-    """Markdown prose as LaTeX; ``@{NAME}`` shows ``refs[NAME]`` as inline math."""
-    tokens = make_markdown(allow_html).parse(markdown)
-    return _TexWriter(refs).render(tokens).strip() + "\n"
-
-
-# ------------------------------------------------------------- steps: values
-
-_BREAK_AT = 46  # visible characters per displayed line (fits a 345pt article text width)
-_INVISIBLE = re.compile(r"\\(?:left|right|mathrm|mathit|operatorname|frac|tfrac|dfrac)(?![A-Za-z])|[{}^_]")
-_COMMAND = re.compile(r"\\[A-Za-z]+")
-
-
-def _width(latex: str) -> int:
-    """Rough printed width: markup costs nothing, a symbol command one character."""
-    return len(_COMMAND.sub("x", _INVISIBLE.sub("", latex)).replace(" ", ""))
-
-
-_DELIMITER = re.compile(r"\\(?:left|right)(?![A-Za-z])\s*(?:\\[A-Za-z]+|\\.|.)")
-_SIZED = re.compile(r"\\Big[lr](?![A-Za-z])\s*(?:\\[A-Za-z]+|\\.|.)")
-_FENCE = re.compile(r"\\(left|right)(?![A-Za-z])\s*(\\[A-Za-z]+|\\.|.)")
-_ENDS_IN_OPERATOR = re.compile(r"\\(?:cdot|times|pm|mp|otimes|oplus|wedge)\s*$")
-
-
-def _top_level_terms(latex: str) -> list[str]:
-    """Split at ``+``/``-`` outside every bracket, keeping each sign with its term.
-
-    A sign right after an operator or an opening bracket (``= -x``,
-    ``\\cdot -x``) is unary and stays inside its term.
-    """
-    terms, start, depth, i = [], 0, 0, 0
-    while i < len(latex):
-        fixed = _SIZED.match(latex, i)
-        if fixed:  # a fixed-size bracket opens no group: the line may break inside it
-            i = fixed.end()
-            continue
-        sized = _DELIMITER.match(latex, i)
-        if sized:
-            depth += 1 if sized.group(0).startswith("\\left") else -1
-            i = sized.end()
-            continue
-        ch = latex[i]
-        if ch == "\\":
-            i += 2  # an escaped character such as \{ is not a bracket
-            continue
-        if ch in "{([":
-            depth += 1
-        elif ch in "})]":
-            depth -= 1
-        elif ch in "+-" and depth == 0:
-            before = latex[start:i].rstrip()
-            if before and before[-1] not in "^_=+-{([" and not _ENDS_IN_OPERATOR.search(before):
-                terms.append(before)
-                start = i
-        i += 1
-    terms.append(latex[start:].strip())
-    return [t for t in terms if t]
-
-
-def _group_end(latex: str, i: int) -> int:
-    """The index just past the brace group opening at ``latex[i] == "{"``."""
-    depth = 0
-    while i < len(latex):
-        if latex[i] == "\\":
-            i += 2
-            continue
-        depth += {"{": 1, "}": -1}.get(latex[i], 0)
-        i += 1
-        if depth == 0:
-            return i
-    return i
-
-
-def _breakable(latex: str) -> str:
-    """The same value written so that a line may end inside it.
-
-    Auto-sized brackets cannot span lines, so they become fixed ``\\Bigl``/
-    ``\\Bigr`` ones, and a fraction whose numerator is itself too long,
-    ``\\frac{A}{B}``, is written ``\\frac{1}{B} \\Bigl(A\\Bigr)``.
-    """
-    latex = _FENCE.sub(lambda m: "" if m.group(2) == "." else f"\\Big{m.group(1)[0]}{m.group(2)}", latex)
-    out, i = [], 0
-    while (j := latex.find("\\frac{", i)) >= 0:
-        num_end = _group_end(latex, j + 5)
-        den_end = _group_end(latex, num_end) if latex[num_end:num_end + 1] == "{" else num_end
-        num, den = latex[j + 6:num_end - 1], latex[num_end:den_end]
-        depth = latex[:j].count("{") - latex[:j].count("}")
-        if depth == 0 and den and _width(num) > _BREAK_AT * 2 // 3:
-            out.append(latex[i:j] + f"\\frac{{1}}{den} \\Bigl({num}\\Bigr)")
-        else:
-            out.append(latex[i:den_end])
-        i = den_end
-    return "".join(out) + latex[i:]
-
-
-def value_lines(latex: str) -> list[str]:
-    """The value cut into display lines at top-level signs; one line when short."""
-    if _width(latex) <= _BREAK_AT:
-        return [latex]
-    lines, current = [], ""
-    for term in _top_level_terms(_breakable(latex)):
-        if current and _width(current) + _width(term) > _BREAK_AT:
-            lines.append(current)
-            current = ""
-        current = f"{current} {term}".strip()
-    return lines + [current]
-
-
-def aligned_body(lhs: str, lines: list[str]) -> str:
-    """Rows for ``align*``/``split``: ``lhs &= first``, then ``&\\quad rest``."""
+def display_value(printer: LatexPrinter, name: str, tree: list, label: str = "") -> str:
+    """``name = value`` as a display, over aligned lines when long; numbered
+    and labelled when ``label`` is given, unnumbered otherwise."""
+    lhs = printer.doprint(name_tree(name, printer.notation)) if name else ""
+    rows = lines(printer, tree, WIDTH - printer.measure(lhs) // 2)
+    env = "equation" if label else "equation*"
+    tag = f"\\label{{{label}}}\n" if label else ""
+    if len(rows) == 1:
+        return f"\\begin{{{env}}}\n{lhs + ' = ' if lhs else ''}{rows[0]}\n{tag}\\end{{{env}}}\n"
     first = f"{lhs} &= " if lhs else "& "
-    return first + lines[0] + "".join(f"\\\\\n&\\quad {line}" for line in lines[1:])
-
-
-def display_value(lhs: str, latex: str) -> str:
-    """``lhs = latex`` displayed, over several aligned lines when long; an
-    empty ``lhs`` (``show`` of an expression) shows the value alone."""
-    lines = value_lines(latex)
-    if len(lines) == 1:
-        eq = f"{lhs} = " if lhs else ""
-        return f"\\begin{{equation*}}\n{eq}{latex}\n\\end{{equation*}}\n"
-    return f"\\begin{{align*}}\n{aligned_body(lhs, lines)}\n\\end{{align*}}\n"
+    body = first + rows[0] + "".join(f"\\\\\n&\\quad {row}" for row in rows[1:])
+    return f"\\begin{{{env}}}\n\\begin{{split}}\n{body}\n\\end{{split}}\n{tag}\\end{{{env}}}\n"
 
 
 def degrees_text(v: ValueRecord) -> str:
@@ -308,25 +56,17 @@ _STATUS_TEX = {
     "failed": r"\textbf{FAILED}",
     "error": r"\textbf{ERROR}",
 }
+_STATUS_WORDS = {"proven": "proven exactly", "sampled": "sampled", "failed": "FAILED", "error": "ERROR"}
 
 
-def _checks(step: Step) -> str:
-    parts = []
-    for c in step.checks:
-        text = f"{_STATUS_TEX[c.status]}~{escape_tex(c.what)}"
-        if c.detail:
-            text += f" ({escape_tex(c.detail)})"
-        parts.append(text)
-    return "; ".join(parts)
-
-
-def _tabular(step: Step) -> str:
+def _tabular(step: Step, printer: LatexPrinter) -> str:
     t = step.table
-    spec = "c" * len(t.columns)
-    head = " & ".join(f"${c}$" for c in t.columns)
+    names = t.names if len(t.names) == len(t.columns) else [""] * len(t.columns)
+    head = " & ".join(f"${printer.doprint(name_tree(n, printer.notation)) if n else c}$"
+                      for n, c in zip(names, t.columns))
     rows = "".join(" & ".join(f"${c}$" for c in row) + " \\\\\n" for row in t.rows)
-    return (f"\\begin{{center}}\\renewcommand{{\\arraystretch}}{{1.4}}\n\\begin{{tabular}}{{{spec}}}\n\\hline\n{head} \\\\\n\\hline\n"
-            f"{rows}\\hline\n\\end{{tabular}}\n\\end{{center}}\n")
+    return (f"\\begin{{center}}\\renewcommand{{\\arraystretch}}{{1.4}}\n\\begin{{tabular}}{{{'c' * len(t.columns)}}}\n"
+            f"\\hline\n{head} \\\\\n\\hline\n{rows}\\hline\n\\end{{tabular}}\n\\end{{center}}\n")
 
 
 def plot_name(report: Report, number: int) -> str:
@@ -343,21 +83,91 @@ def plot_files(report: Report) -> dict[str, bytes]:
     """The PDF of each plot, keyed by the name ``to_tex`` includes it under."""
     from compiler.render.plots import plot_pdf
 
-    return {plot_name(report, n): plot_pdf(p)
+    return {plot_name(report, n): plot_pdf(p, report.notation)
             for n, p in enumerate(_plots(report).values(), start=1)}
 
 
-def _step_view(step: Step, plot_file: str) -> dict:
-    return {
-        "line": step.line,
-        "source": code_lines(step.source, step.line),
-        "shown": [(display_value(name_latex(v.name), v.latex), escape_tex(degrees_text(v))) for v in step.values],
-        "remainder": step.remainder.latex if step.remainder is not None else "",
-        "summary": escape_tex(step.summary),
-        "table": _tabular(step) if step.table is not None else "",
-        "plot": plot_file,
-        "checks": _checks(step),
-    }
+def _caption(plot: PlotData, printer: LatexPrinter) -> str:
+    def name(n: str) -> str:
+        return f"${printer.doprint(name_tree(n, printer.notation))}$" if not n.startswith("curve ") else n
+    curves = ", ".join(name(c) for c in plot.curves)
+    fixed = ", ".join(f"{name(k)}~$= {escape_tex(v)}$" for k, v in plot.fixed.items())
+    at = f" at {fixed}" if fixed else ""
+    return (f"{curves} against {name(plot.variable)} from ${escape_tex(plot.low)}$ "
+            f"to ${escape_tex(plot.high)}${at}.")
+
+
+def _figure(report: Report, plot: PlotData, file: str, printer: LatexPrinter) -> str:
+    label = f"fig:{Path(file).stem}"
+    return (f"\\begin{{figure}}[htbp]\n\\centering\n\\includegraphics[width=0.8\\linewidth]{{{file}}}\n"
+            f"\\caption{{{_caption(plot, printer)}}}\n\\label{{{label}}}\n\\end{{figure}}\n")
+
+
+def _label(report: Report, v: ValueRecord, step: Step) -> str:
+    final = report.values.get(v.name) is v
+    return f"eq:{v.name}" if final else f"eq:{v.name}-{step.line}"
+
+
+def _appendix_step(report: Report, step: Step, plot_file: str, printer: LatexPrinter) -> str:
+    """What the appendix shows of one step: results, claims, tables, figures."""
+    if step.kind in DECLARATIONS:
+        return ""
+    out = []
+    for v in step.values:
+        out.append(display_value(printer, v.name, v.tree, _label(report, v, step) if v.name else ""))
+    if step.kind == "check":
+        out.append(_claim(step, printer))
+    if step.table is not None:
+        out.append(_tabular(step, printer))
+    if plot_file:
+        out.append(_figure(report, step.plot, plot_file, printer))
+    loud = [c for c in step.notable_checks if step.kind != "check"]
+    if loud:
+        out.append(_check_list(loud, "small"))
+    return "".join(out)
+
+
+def _claim(step: Step, printer: LatexPrinter) -> str:
+    """A ``check`` as the equation it asserts, its status beside it; what
+    went wrong (or how it was sampled) below."""
+    rows = claim_latex(step.source, printer, WIDTH - 16)  # room for the status beside it
+    status = ", ".join(_STATUS_WORDS[c.status] for c in step.checks) or "not run"
+    rows[-1] += f"\\qquad\\text{{({status})}}"
+    env = "equation*" if len(rows) == 1 else "multline*"
+    shown = f"\\begin{{{env}}}\n" + "\\\\\n".join(rows) + f"\n\\end{{{env}}}\n"
+    details = [c for c in step.checks if c.detail and c.status != "proven"]
+    return shown + (_check_list(details, "small") if details else "")
+
+
+def _check_list(checks, size: str) -> str:
+    """Checks as a ragged paragraph; long expressions in details may break."""
+    return (f"\\par\\noindent{{\\{size}\\raggedright " + "; ".join(
+        f"{_STATUS_TEX[c.status]}~{escape_detail(c.what)}" + (f" ({escape_detail(c.detail)})" if c.detail else "")
+        for c in checks) + "\\par}\n")
+
+
+def _were(n: int) -> str:
+    return f"{n} {'was' if n == 1 else 'were'}"
+
+
+def _verification(report: Report) -> str:
+    """One closing paragraph: how many identities were proven, sampled, at
+    which points, with which tool."""
+    counts = {s: report.count(s) for s in STATUSES}
+    claims = sum(1 for s in report.steps if s.kind == "check")
+    sampled = sorted({c.detail for s in report.steps for c in s.checks if c.status == "sampled" and c.detail})
+    parts = [f"{_were(counts['proven'])} proven exactly"]
+    if counts["sampled"]:
+        where = f" ({escape_tex('; '.join(sampled))})" if sampled else ""
+        parts.append(f"{_were(counts['sampled'])} verified at random rational points{where}")
+    bad = counts["failed"] + counts["error"]
+    if bad:
+        parts.append(f"{bad} failed or could not be evaluated")
+    listed = ", ".join(parts[:-1]) + (" and " if len(parts) > 1 else "") + parts[-1]
+    return (f"Every value above was computed and checked by {escape_tex(report.tool_name)} "
+            f"{escape_tex(report.tool_version)} from \\texttt{{{escape_code(Path(report.document).name)}}}. "
+            f"Of its {report.check_count} checks ({claims} stated identities, the rest automatic), "
+            f"{listed}.")
 
 
 def _environment() -> jinja2.Environment:
@@ -372,32 +182,53 @@ def _environment() -> jinja2.Environment:
     )
 
 
-def to_tex(report: Report, standalone: bool = False) -> str:
-    """The appendix fragment, or with ``standalone`` a whole article around it."""
+def _audit_step(step: Step, plot_file: str, printer: LatexPrinter) -> dict:
+    return {
+        "source": code_lines(step.source, step.line),
+        "shown": [(display_value(printer, v.name, v.tree), escape_tex(degrees_text(v))) for v in step.values],
+        "remainder": display_value(printer, "", step.remainder.tree) if step.remainder is not None else "",
+        "summary": escape_tex(step.summary),
+        "table": _tabular(step, printer) if step.table is not None else "",
+        "plot": plot_file,
+        "checks": _check_list(step.checks, "footnotesize") if step.checks else "",
+    }
+
+
+def to_tex(report: Report, standalone: bool = False, style: str = "appendix") -> str:
+    """The ``.tex`` fragment in ``style``, or with ``standalone`` a whole article around it."""
+    printer = LatexPrinter(report.notation)
     plot_numbers = {index: n for n, index in enumerate(_plots(report), start=1)}
     items = []
     for item in report.items:
         if isinstance(item, Prose):
-            items.append({"prose": prose_tex(item.markdown, item.refs, report.allow_html)})
-        else:
-            number = plot_numbers.get(item.index)
-            items.append({"step": _step_view(item, plot_name(report, number) if number else "")})
+            items.append({"prose": prose_tex(item.markdown, item.refs, report.allow_html, report.notation)})
+            continue
+        number = plot_numbers.get(item.index)
+        plot_file = plot_name(report, number) if number else ""
+        if style == "audit":
+            items.append({"step": _audit_step(item, plot_file, printer)})
+        elif text := _appendix_step(report, item, plot_file, printer):
+            items.append({"prose": text})
     counts = {s: report.count(s) for s in STATUSES}
     context = {
         "title": escape_tex(report.title or Path(report.document).stem),
+        "label": re.sub(r"[^A-Za-z0-9.-]", "-", Path(report.document).stem),
         "authors": escape_tex(", ".join(report.authors)),
         "date": escape_tex(report.date),
-        "abstract": prose_tex(report.abstract, report.values, report.allow_html) if report.abstract else "",
-        "document": _escape_code(report.document),
+        "abstract": prose_tex(report.abstract, report.values, report.allow_html, report.notation)
+        if report.abstract else "",
+        "document": escape_code(Path(report.document).name),
         "tool": escape_tex(f"{report.tool_name} {report.tool_version}"),
         "steps": len(report.steps),
+        "checks": report.check_count,
         "counts": counts,
         "passed": report.passed,
-        "conventions": [(_escape_code(k), escape_tex(v)) for k, v in report.conventions.items()],
+        "conventions": [(escape_code(k), escape_tex(v)) for k, v in report.conventions.items()],
         "items": items,
+        "verification": _verification(report),
     }
     env = _environment()
-    body = env.get_template("appendix.tex.j2").render(**context)
+    body = env.get_template(f"{style}.tex.j2").render(**context)
     if not standalone:
         return body
     return env.get_template("standalone.tex.j2").render(body=body, title=context["title"])

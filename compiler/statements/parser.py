@@ -50,7 +50,7 @@ def parse_block(text: str, first_line: int, path: str,
                 problems.append(Problem(Location(path, first.line, first.column),
                                         "unexpected indentation: only the body lines of a "
                                         "fiber ('dimension n', 'fixed points' or "
-                                        "'spindle') are indented"))
+                                        "'spindle') or of 'matter' are indented"))
             elif body.header is not None:
                 try:
                     body.add(body_line(cursor, body.header.rules), logical)
@@ -63,7 +63,7 @@ def parse_block(text: str, first_line: int, path: str,
         except DocumentError as exc:
             problems.append(exc.problems[0])
             first = logical.tokens[0]
-            if first.kind == "name" and first.text == "fiber":
+            if first.kind == "name" and first.text in ("fiber", "matter"):
                 body = FiberBody(None)  # its body lines belong to the failed header
             continue
         if isinstance(result, Header):

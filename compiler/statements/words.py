@@ -12,13 +12,20 @@ import re
 STATEMENT_WORDS = frozenset({
     "symbol", "convention", "bundle", "split", "fiber", "let", "substitute",
     "reduce", "integrate", "coefficients", "maximize", "minimize",
-    "extremize", "check", "show", "table", "plot", "define", "use",
+    "extremize", "check", "show", "table", "plot", "define", "use", "factorize", "matter",
 })
 
 #: Built-in functions; a name is a function only in call position.
 BUILTIN_FUNCTIONS = frozenset({
     "p", "c", "e", "Ahat", "L", "td", "ch", "S", "dual", "wedge", "sym",
-    "part", "degree", "sqrt", "trivial", "sum", "prod", "leading", "series",
+    "part", "degree", "sqrt", "trivial", "sum", "prod", "leading", "series", "tr", "pf",
+})
+
+#: Trade names of representations, read as such in ``ch(G, ...)`` and
+#: ``tr(G, ..., k)``; ``spinor`` also as ``spinor+`` and ``spinor-``.
+REPRESENTATION_WORDS = frozenset({
+    "trivial", "fundamental", "antifundamental", "adjoint", "vector", "spinor",
+    "antisymmetric", "symmetric",
 })
 
 _INDEXED_CLASS = re.compile(r"(?:[pc]|ch)[1-9][0-9]*")

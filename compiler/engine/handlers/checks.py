@@ -7,8 +7,8 @@ from ...statements import nodes as n
 
 
 def _check(scope, s: n.Check, step: Step) -> None:
-    lhs = scope.evaluate(s.lhs)
-    rhs = scope.evaluate(s.rhs)
+    lhs = scope.read(s.lhs)
+    rhs = scope.read(s.rhs)
     text = s.source.split(None, 1)[1] if " " in s.source else s.source
     step.checks.append(claim(lhs, s.op, rhs, scope.points(s.clauses), scope.context(s.line), text))
 

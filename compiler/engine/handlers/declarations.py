@@ -6,13 +6,13 @@ from the cache); each is ``(scope, statement, step) -> None``.
 from __future__ import annotations
 
 from ... import names as names_pass, notation
-from ...algebra import bundles as bundles_mod, fibers as fibers_mod, fixed_points
+from ...algebra import bundles as bundles_mod, fibers as fibers_mod, fixed_points, general_fibers
 from ...algebra.localization import FixedPoint
 from ...algebra.graded import Element
 from ...calls import Function
 from ...expressions import Missing, as_expr
 from ...results import CheckResult, Step
-from ...statements import nodes as n
+from ...statements import clause_nodes as cn, nodes as n
 from ..cache import digest
 from ..scope import fraction_text
 from .common import element, relation
@@ -119,14 +119,20 @@ def _planes(scope, bundle: str) -> list:
 
 def _general(scope, s: n.GeneralFiber, step: Step) -> None:
     group = scope.new_group()
-    classes = fibers_mod.declare_fiber_classes(
+    classes = general_fibers.declare_fiber_classes(
         scope.ring, group, [(c.name, c.degree) for c in s.classes], s.dimension, s.name)
     for c in s.classes:
         scope.bind(c.name, "class", classes[c.name], c.line)
     relations = [relation(scope, r) for r in s.relations]
     integrals = [(element(scope, eq.lhs, "an integral"), element(scope, eq.rhs, "an integral"))
                  for eq in s.integrals]
-    fiber = fibers_mod.general_fiber(s.name, scope.ring, group, s.dimension, relations, integrals)
+    try:
+        fiber = general_fibers.general_fiber(s.name, scope.ring, group, s.dimension, relations,
+                                             integrals)
+    except fibers_mod.FiberError as err:
+        if err.at is None:
+            raise
+        raise scope.fail(s.integrals[err.at], str(err)) from None
     _declare_fiber(scope, s, fiber, step)
 
 
@@ -169,7 +175,7 @@ def _fixed_points(scope, s: n.FixedPointFiber, step: Step) -> None:
                     + f"; rotation {rotation}; integrated by localization")
 
 
-def _fixed_point(scope, s: n.FixedPointFiber, p: n.FixedPointDecl) -> FixedPoint:
+def _fixed_point(scope, s: n.FixedPointFiber, p: cn.FixedPointDecl) -> FixedPoint:
     """A point's order, checked first (a weight may divide by it), and its
     weights as linear forms in the rotation parameters."""
     try:
@@ -207,7 +213,8 @@ def _restrictions(scope, name: str, values) -> dict:
 def _define(scope, s: n.Define, step: Step) -> None:
     """The body's other names keep the values they have now (a later
     ``let!`` does not change the function); the report shows the definition."""
-    captured = {name: scope.lookup(name, name.line, name.column) for name in names_pass.references(s)}
+    captured = {name: (*scope.lookup(name, name.line, name.column), scope.exact_to(name))
+                for name in names_pass.references(s)}
     where = f"at line {s.line}" + ("" if scope.path == scope.top_path else f" of {scope.path}")
     scope.bind(s.name, "function", Function(s.name, tuple(map(str, s.params)), s.body, captured, where),
                s.line)

@@ -9,8 +9,9 @@ from ... import notation
 from ...algebra import budget
 from ...checks import free_symbols, show, substitute
 from ...expressions import as_expr, is_class_free
+from ...precision import unknown_above
 from ...results import PlotData, Step, TableData
-from ...statements import nodes as n
+from ...statements import expr_nodes as en, nodes as n
 from ..scope import fraction_text, record
 
 #: Sample points along a plotted interval (both ends included).
@@ -18,20 +19,22 @@ PLOT_SAMPLES = 121
 
 
 def _label(node) -> str:
-    return node.id if isinstance(node, n.Name) else ""
+    return node.id if isinstance(node, en.Name) else ""
 
 
 def _show(scope, s: n.Show, step: Step) -> None:
     for node in s.exprs:
-        step.values.append(record(_label(node), scope.evaluate(node)))
+        known = scope.known(node)
+        step.values.append(record(_label(node), known.value,
+                                  unknown_above(known.exact_to, scope.ring.truncate)))
 
 
 def _table(scope, s: n.Table, step: Step) -> None:
-    values = [scope.evaluate(node) for node in s.exprs]
+    values = [scope.read(node) for node in s.exprs]
     points = scope.points(s.clauses)
     params = [c.name for c in s.clauses]
     columns = [notation.name_latex(p) for p in params]
-    columns += [notation.name_latex(node.id) if isinstance(node, n.Name) else r"\cdots"
+    columns += [notation.name_latex(node.id) if isinstance(node, en.Name) else r"\cdots"
                 for node in s.exprs]
     rows, text_rows = [], []
     for point in points or [{}]:
@@ -45,7 +48,7 @@ def _table(scope, s: n.Table, step: Step) -> None:
 
 
 def _plot(scope, s: n.Plot, step: Step) -> None:
-    values = [scope.evaluate(node) for node in s.exprs]
+    values = [scope.read(node) for node in s.exprs]
     var = scope.symbols_by_name[s.variable]
     points = scope.points(s.clauses)
     if len(points) > 1:

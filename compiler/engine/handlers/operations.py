@@ -14,33 +14,38 @@ from ...algebra.radicals import tidy
 from ...algebra.graded import Element
 from ...checks import free_symbols
 from ...expressions import as_expr, is_class_free
+from ...precision import Known, beyond, degrees, integrated, substituted, unknown_above
 from ...results import CheckResult, Step
-from ...statements import nodes as n
+from ...statements import expr_nodes as en, nodes as n
+from ...statements.tree import Ident, walk
 from ..scope import record
-from .common import degree_check, element, relation
+from .common import degree_check, element, known_element, relation
 
 
 def _let(scope, s: n.Let, step: Step) -> None:
-    value = scope.evaluate(s.expr)
-    step.checks.append(degree_check(value))
-    scope.output(step, s.name, value, s.line)
+    known = scope.known(s.expr)
+    step.checks.append(degree_check(known.value, known.exact_to, scope.ring.truncate))
+    scope.output(step, s.name, known.value, s.line, known.exact_to)
 
 
 def _substitute(scope, s: n.Substitute, step: Step) -> None:
-    target = scope.evaluate(s.target)
+    known = scope.known(s.target)
+    target, exact_to = known.value, known.exact_to
     whole = target if isinstance(target, Element) else None
     present = whole.generator_keys() if whole is not None else set()
     symbols = free_symbols(target)
     mapping = {}
     for pair in s.pairs:
         lhs = element(scope, pair.lhs, "substitute")
-        rhs = scope.evaluate(pair.rhs)
         key = _replaced(scope, pair.lhs, lhs)
         if key in mapping:
             raise scope.fail(pair, f"{lhs.to_text()} is substituted twice")
         if key not in present and key not in symbols:
             raise scope.fail(pair.lhs, f"{lhs.to_text()} does not occur in the expression (a typo?)")
         degree = lhs.degrees()[0]
+        replacement = scope.evaluator.read(pair.rhs, degree)
+        rhs = replacement.value
+        exact_to = substituted(Known(target, exact_to), degree, replacement)
         got = rhs.degrees() if isinstance(rhs, Element) else [0]
         ok = not got or got == [degree]
         replaced = f"degree {', '.join(map(str, got))}" if got else "0"
@@ -62,8 +67,8 @@ def _substitute(scope, s: n.Substitute, step: Step) -> None:
             raise scope.fail(s, f"the substitution makes the value complex: {notation.text(result)}")
     else:
         raise scope.fail(s, "an irrational value can only be substituted into a class-free expression")
-    step.checks.append(degree_check(result))
-    scope.output(step, s.outputs[0], result, s.line)
+    step.checks.append(degree_check(result, exact_to, scope.ring.truncate))
+    scope.output(step, s.outputs[0], result, s.line, exact_to)
 
 
 def _replaced(scope, node, value: Element):
@@ -78,7 +83,8 @@ def _replaced(scope, node, value: Element):
 
 
 def _reduce(scope, s: n.Reduce, step: Step) -> None:
-    target = element(scope, s.target, "reduce")
+    known = known_element(scope, s.target, "reduce")
+    target, exact_to = known.value, known.exact_to
     relations = [relation(scope, r) for r in s.relations]
     for node, rel in zip(s.relations, relations):
         if rel.is_class_free() and not rel.is_zero:
@@ -91,8 +97,8 @@ def _reduce(scope, s: n.Reduce, step: Step) -> None:
     step.checks.append(CheckResult(f"normal form modulo {len(relations)} relation{plural} "
                                    f"(basis of {len(basis)})",
                                    "proven" if again == result else "failed"))
-    step.checks.append(degree_check(result))
-    scope.output(step, s.outputs[0], result, s.line)
+    step.checks.append(degree_check(result, exact_to, scope.ring.truncate))
+    scope.output(step, s.outputs[0], result, s.line, exact_to)
 
 
 #: Fiber types integrated otherwise than through their table of top integrals.
@@ -100,28 +106,70 @@ INTEGRATE = {localization.LocalizedFiber: localization.integrate}
 
 
 def _integrate(scope, s: n.Integrate, step: Step) -> None:
-    target = element(scope, s.target, "integrate")
+    known = known_element(scope, s.target, "integrate")
+    target = known.value
     _, fiber = scope.lookup(s.fiber, s.fiber_line, s.fiber_column)
+    # (A localized fiber checks its integrals itself: ∫ 1 must come out 0 there.)
+    if (type(fiber) not in INTEGRATE and not target.is_zero
+            and not target.generator_keys() & fiber.class_keys()
+            and not _mentions(scope, s.target, fiber)):
+        step.checks.append(CheckResult(
+            f"the integrand has a class of {fiber.name}", "failed",
+            f"{target.to_text()} has no class of {fiber.name}, so its integral is 0: "
+            f"integrate a value that involves {', '.join(sorted(fiber.class_keys()))}"))
+        scope.bind_missing(s.outputs, s.line)
+        return
     result, checks = INTEGRATE.get(type(fiber), fibers_mod.integrate)(target, fiber)
     for c in checks:
         step.checks.append(CheckResult(c.what, "proven" if c.ok else "failed", c.detail))
-    scope.output(step, s.outputs[0], result, s.line)
+    exact_to = integrated(known.exact_to, fiber.dimension)
+    if unknown_above(exact_to, scope.ring.truncate) is not None:
+        step.checks.append(degree_check(result, exact_to, scope.ring.truncate))
+    scope.output(step, s.outputs[0], result, s.line, exact_to)
+
+
+def _mentions(scope, node, fiber) -> bool:
+    """Whether an integrand as written names a class of the fiber (which a
+    relation may then have removed: ∫ e^2 = 0 over a sphere is a result)."""
+    keys = fiber.class_keys()
+    for item, _ in walk(node):
+        binding = scope.bindings.get(item) if isinstance(item, Ident) else None
+        if binding is None:
+            continue
+        if binding.kind == "bundle" and keys & set(scope.bundles.get(item).keys):
+            return True
+        if isinstance(binding.value, Element) and binding.value.generator_keys() & keys:
+            return True
+    return False
 
 
 def _coefficients(scope, s: n.Coefficients, step: Step) -> None:
-    target = element(scope, s.target, "coefficients")
+    known = known_element(scope, s.target, "coefficients")
+    target = known.value
     if len(s.monomials) != len(s.outputs):
         raise scope.fail(s, f"{len(s.monomials)} monomials but {len(s.outputs)} names after ->")
     rest = target
+    present = degrees(target)
     for node, name in zip(s.monomials, s.outputs):
         pairs = _written_monomial(scope, node)
         if not scope.ring.is_normal_monomial(pairs):
             raise scope.fail(node, f"{scope.ring.monomial_text(pairs)} is not a monomial of the normal form")
         monomial = scope.ring.monomial(pairs)
+        degree = monomial.degrees()[0]
+        problem = beyond(known, degree, scope.ring.truncate, f"the coefficient of {monomial.to_text()}")
+        if problem:
+            raise scope.fail(node, problem)
+        if present and degree not in present:  # (an exact 0 has every coefficient 0)
+            shown = ", ".join(map(str, present))
+            step.checks.append(CheckResult(
+                f"{monomial.to_text()} (degree {degree}) can occur in the value", "failed",
+                f"the value has no part of degree {degree} (its degrees: {shown})"))
+            scope.bind_missing(s.outputs, s.line)
+            return
         coefficient = target.coefficient(monomial)
         rest = rest - coefficient * monomial
         scope.output(step, name, coefficient, s.line)
-    step.remainder = record("remainder", rest)
+    step.remainder = record("remainder", rest, unknown_above(known.exact_to, scope.ring.truncate))
     terms = len(rest.terms())
     step.checks.append(CheckResult(
         "every monomial read" if rest.is_zero else
@@ -135,11 +183,11 @@ def _written_monomial(scope, node) -> list:
     Read from the syntax tree rather than from its value, because evaluating
     would already rewrite a non-normal monomial (``e(T4)^2`` into ``p2(T4)``)
     and hide the mistake."""
-    if isinstance(node, n.Num) and node.value == 1:
+    if isinstance(node, en.Num) and node.value == 1:
         return []
-    if isinstance(node, n.Binary) and node.op == "*":
+    if isinstance(node, en.Binary) and node.op == "*":
         return _written_monomial(scope, node.left) + _written_monomial(scope, node.right)
-    if isinstance(node, n.Binary) and node.op == "^":
+    if isinstance(node, en.Binary) and node.op == "^":
         k = scope.evaluator.integer_arg(node.right)
         if k < 1:
             raise scope.fail(node.right, "a monomial has positive exponents")
@@ -153,7 +201,7 @@ def _written_monomial(scope, node) -> list:
 
 
 def _extremize(scope, s: n.Extremize, step: Step) -> None:
-    f = scope.evaluate(s.target)
+    f = scope.read(s.target)
     if not is_class_free(f):
         classes = ", ".join(sorted(f.generator_keys()))
         raise scope.fail(s.target, f"{s.mode} needs a class-free expression; this one still contains "
@@ -163,9 +211,10 @@ def _extremize(scope, s: n.Extremize, step: Step) -> None:
                  for v in s.variables]
     try:
         expr = as_expr(f)
-        involved = [spec for spec in scope.specs.values() if spec.symbol in expr.free_symbols]
-        name = s.target.id if isinstance(s.target, n.Name) else "f"
-        result = extremize(s.mode, expr, variables, involved, scope.seed(s.line), name=name)
+        region = scope.region.restrict(expr.free_symbols)  # with the symbols related to them
+        name = s.target.id if isinstance(s.target, en.Name) else "f"
+        result = extremize(s.mode, expr, variables, list(region.specs), scope.seed(s.line),
+                           relations=region.relations, name=name)
     except ExtremizeError as exc:
         if exc.status != "failed":
             raise scope.fail(s, str(exc)) from None

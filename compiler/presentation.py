@@ -1,0 +1,198 @@
+"""The display form of a computed value, as a presentation tree.
+
+The normal form (``Element.to_text``) is made for comparing; a reader wants
+what a paper prints: class monomials collected, the factor common to every
+coefficient pulled out in front, each coefficient a factored rational
+function, an overall sign pulled out when that saves minus signs, and
+radicals kept whole.  ``(g-1)(8N^3-3N-5)/24`` rather than the expanded sum.
+The tree (plain lists, see ``compiler.results``) is what the printers read;
+its text form is in the document syntax and reads back to the same value.
+"""
+from __future__ import annotations
+
+from functools import reduce
+
+import sympy
+
+from .algebra.graded import Element
+
+#: Coefficients with more operations than this are left as they are:
+#: factoring them costs more than a reader gains from it.
+FACTOR_LIMIT = 400
+#: Class polynomials with more terms than this are shown term by term as
+#: the normal form gives them (nobody reads a thousand factored
+#: coefficients, and factoring them all would dominate the build).
+COLLECT_LIMIT = 60
+
+
+def _negative(expr) -> bool:
+    return expr.could_extract_minus_sign()
+
+
+def _shorter_negated(terms) -> bool:
+    """Whether ``-(...)`` of the opposite terms needs fewer minus signs."""
+    negative = sum(_negative(t) for t in terms)
+    return len(terms) - negative + 1 < negative
+
+
+def _opposite(terms: list) -> list:
+    """The terms of the opposite sum (trees only: no sympy arithmetic, which
+    would cost more than the whole display on a large value)."""
+    return [t[1] if t[0] == "neg" else ["neg", t] for t in terms]
+
+
+def _sum(expr, order) -> list:
+    """An Add as a tree, its terms in a fixed order; a sum is written as the
+    negative of its opposite when that needs fewer minus signs."""
+    terms = [_node(t, order) for t in order(expr)]
+    negative = sum(t[0] == "neg" for t in terms)
+    if len(terms) - negative + 1 < negative:
+        return ["neg", ["add", *_opposite(terms)]]
+    return ["add", *terms]
+
+
+def _power(base, exp, order) -> list:
+    if exp == sympy.Rational(1, 2):
+        return ["sqrt", _node(base, order)]
+    if isinstance(exp, sympy.Rational) and exp.q == 2:
+        return ["pow", ["sqrt", _node(base, order)], int(exp.p)]
+    return ["pow", _node(base, order), int(exp)]
+
+
+def _product(factors: list) -> list:
+    return factors[0] if len(factors) == 1 else ["mul", *factors]
+
+
+def _mul(expr, order) -> list:
+    """num/den with the number first; a negative factor's sign goes out front."""
+    coeff, rest = expr.as_coeff_mul()
+    sign = coeff < 0
+    coeff = abs(coeff)
+    num, den = [], []
+    for f in sorted(rest, key=lambda f: sympy.default_sort_key(f.as_base_exp()[0])):
+        base, exp = f.as_base_exp()
+        target = den if exp.is_negative else num
+        exp = -exp if exp.is_negative else exp
+        if isinstance(base, sympy.Add) and exp.is_integer and _negative(base):
+            tree = _sum(base, order)  # written with its sign outside: (1 - z) is -(z - 1)
+            tree = ["add", *_opposite(tree[1:])] if tree[0] == "add" else tree[1]
+            sign ^= bool(exp % 2)
+            target.append(tree if exp == 1 else ["pow", tree, int(exp)])
+            continue
+        target.append(_node(base, order) if exp == 1 else _power(base, exp, order))
+    if coeff.p != 1 or not num:
+        num.insert(0, ["int", int(coeff.p)])
+    if coeff.q != 1:
+        den.insert(0, ["int", int(coeff.q)])
+    tree = _product(num)
+    if den:
+        tree = ["div", tree, _product(den)]
+    return ["neg", tree] if sign else tree
+
+
+def _node(expr, order) -> list:
+    """A sympy expression as a tree, keeping the shape it already has."""
+    if isinstance(expr, sympy.Integer):
+        return ["neg", ["int", -int(expr)]] if expr < 0 else ["int", int(expr)]
+    if isinstance(expr, sympy.Rational):
+        tree = ["div", ["int", abs(int(expr.p))], ["int", int(expr.q)]]
+        return ["neg", tree] if expr < 0 else tree
+    if isinstance(expr, sympy.Symbol):
+        return ["sym", expr.name]
+    if isinstance(expr, sympy.Add):
+        return _sum(expr, order)
+    if isinstance(expr, sympy.Mul):
+        return _mul(expr, order)
+    if isinstance(expr, sympy.Pow):
+        if expr.exp.is_negative:
+            return _mul(expr, order)
+        return _power(expr.base, expr.exp, order)
+    if isinstance(expr, sympy.Abs):  # |x| has no spelling of its own in the syntax
+        return ["sqrt", ["pow", _node(expr.args[0], order), 2]]
+    raise ValueError(f"no display form for {type(expr).__name__}")
+
+
+def _ordered(expr) -> list:
+    return list(expr.as_ordered_terms())
+
+
+def _factored(expr):
+    if sympy.count_ops(expr) > FACTOR_LIMIT:
+        return expr
+    return _radicals_gathered(sympy.factor(expr))
+
+
+def _radicals_gathered(expr):
+    """Each factor that is a sum with square roots, as A + B sqrt(D) with A, B factored."""
+    roots = sorted({p for p in expr.atoms(sympy.Pow) if p.exp.is_Rational and p.exp.q == 2},
+                   key=sympy.default_sort_key)
+    if not roots:
+        return expr
+    factors = []
+    for f in sympy.Mul.make_args(expr):
+        base, exp = f.as_base_exp()
+        if isinstance(base, sympy.Add) and base.has(*roots):
+            base = sympy.collect(base, roots, func=sympy.factor)
+        factors.append(sympy.Pow(base, exp) if exp != 1 else base)
+    return sympy.Mul(*factors)
+
+
+def scalar_tree(expr) -> list:
+    """A class-free value in display form."""
+    return _node(_factored(expr if isinstance(expr, sympy.Basic) else sympy.Integer(expr)), _ordered)
+
+
+def _common(coefficients: list):
+    """The factor every coefficient shares: gcd of numerators over lcm of
+    denominators, negative when that saves minus signs inside."""
+    pairs = [sympy.cancel(c).as_numer_denom() for c in coefficients]
+    common = reduce(sympy.gcd, [n for n, _ in pairs]) / reduce(sympy.lcm, [d for _, d in pairs])
+    quotients = [sympy.cancel(c / common) for c in coefficients]
+    if _shorter_negated(quotients):
+        common = -common
+    return common
+
+
+def _monomial(ring, pairs) -> list:
+    factors = [["cls", ring.generator_info(key).text] if e == 1 else
+               ["pow", ["cls", ring.generator_info(key).text], e] for key, e in pairs]
+    return _product(factors)
+
+
+def _term(coef_tree: list, mono: list) -> list:
+    """coefficient × monomial, with the coefficient's sign outside."""
+    if coef_tree[0] == "neg":
+        return ["neg", _term(coef_tree[1], mono)]
+    if coef_tree == ["int", 1]:
+        return mono
+    factors = coef_tree[1:] if coef_tree[0] == "mul" else [coef_tree]
+    return ["mul", *factors, mono]
+
+
+def element_tree(value: Element) -> list:
+    """A class polynomial: monomials in normal-form order, common factor out."""
+    terms = value.terms()
+    if not terms:
+        return ["int", 0]
+    ring = value.ring
+    if len(terms) == 1 and not terms[0][0]:
+        return scalar_tree(terms[0][1])
+    if len(terms) > COLLECT_LIMIT:
+        return ["add", *(_term(_node(coef, _ordered), _monomial(ring, pairs)) if pairs else _node(coef, _ordered)
+                         for pairs, coef in terms)]
+    common = _common([c for _, c in terms]) if len(terms) > 1 else sympy.Integer(1)
+    body = []
+    for pairs, coef in terms:
+        coef_tree = scalar_tree(sympy.cancel(coef / common))
+        body.append(_term(coef_tree, _monomial(ring, pairs)) if pairs else coef_tree)
+    tree = body[0] if len(body) == 1 else ["add", *body]
+    if common == 1:
+        return tree
+    return _term(scalar_tree(common), tree)
+
+
+def display_tree(value) -> list:
+    """Any computed value (class polynomial or class-free) in display form."""
+    if isinstance(value, Element):
+        return element_tree(value)
+    return scalar_tree(value)
