@@ -11,6 +11,7 @@ range or says why there is no single answer.
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Sequence
@@ -27,6 +28,10 @@ from .sampling import SymbolSpec, describe_point, evaluate
 from .signs import SignOracle
 
 MODES = ("maximize", "minimize", "extremize")
+#: Most critical points solved for, bounded by the product of the degrees of
+#: the critical-point equations (Bezout), checked before solving: roots of
+#: high degree take minutes.  Anomark's own choice (common practice, no source).
+MAX_CRITICAL_DEGREE = 8
 
 
 class ExtremizeError(ValueError):
@@ -122,6 +127,11 @@ class _Problem:
         """Closed-form critical points (poles dropped) and implicit components."""
         self.numerators = [sympy.numer(sympy.together(sympy.diff(self.g, v))) for v in self.vars]
         self.system = [sympy.Poly(p, *self.vars, *self.param_symbols) for p in self.numerators]
+        bound = math.prod(max(sympy.Poly(p, *self.vars).total_degree(), 1) for p in self.numerators)
+        if bound > MAX_CRITICAL_DEGREE:
+            raise ExtremizeError(f"the critical-point equations of {self.name} have degree {bound} "
+                                 f"in {', '.join(map(str, self.vars))}; at most {MAX_CRITICAL_DEGREE} "
+                                 f"is solved (the extremization degree limit)")
         try:
             found = critical_components(self.numerators, self.vars, self.param_symbols)
         except FamilyError:

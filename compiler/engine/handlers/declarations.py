@@ -96,7 +96,7 @@ def _sphere(scope, s: n.SphereFiber, step: Step) -> None:
     rank = scope.bundles.rank(s.bundle)
     if scope.bundles.kind(s.bundle) != "real":
         raise scope.fail(s, f"the sphere bundle needs a real bundle; {s.bundle} is complex")
-    top = scope.bundles.pontryagin(s.bundle, rank // 2) if rank % 2 else None
+    top = scope.bundles.pontryagin(s.bundle, rank // 2) if rank % 2 and rank >= 3 else None
     scope.note_class_use(s.bundle, s.line)
     fiber = fibers_mod.sphere_fiber(
         s.name, scope.ring, scope.new_group(), s.bundle, rank, top, s.angular,
