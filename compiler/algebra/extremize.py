@@ -150,7 +150,11 @@ class _Problem:
                 continue  # a pole, not a critical point
             closed.append(_Candidate(tuple(self.tidy(c) for c in comp.coords),
                                      [sympy.together(m.xreplace(at)) for m in self.minor_exprs]))
-        return closed, [c for c in found if isinstance(c, Implicit)]
+        # Numbers off the real line are no candidates (the variables are real), unless
+        # nothing else is left: that case is reported as complex critical points.
+        real = [c for c in closed if not all(x.is_number for x in c.coords)
+                or all(is_real(sympy.N(x, 50)) for x in c.coords)]
+        return real or closed, [c for c in found if isinstance(c, Implicit)]
 
     def admissible_pattern(self, minors_signs: list, sign_c: int) -> bool | None:
         """Whether signs of g's minors, scaled by the sign of the content, fit

@@ -249,11 +249,11 @@ def fraction_text(value: Fraction) -> str:
 def record(name: str, value: Value, unknown_from: int | None = None) -> ValueRecord:
     """A value as the renderers see it: normal-form text, display tree and its
     LaTeX; ``unknown_from`` is the degree from which it is not known (shown as
-    an order term, like a series' O(x^n))."""
+    an order term, like a series' O(x^n), in the display; the normal-form
+    text stays what the parser reads back)."""
     tree = display_tree(value)
     text = value.to_text() if isinstance(value, Element) else notation.text(value)
     degrees = value.degrees() if isinstance(value, Element) else [] if value == 0 else [0]
     if unknown_from is not None:
         tree = ["add", *(tree[1:] if tree[0] == "add" else [tree]), ["order", unknown_from]]
-        text += f" + O(degree >= {unknown_from})"
     return ValueRecord(name, text, LatexPrinter().doprint(tree), degrees, tree, unknown_from)
