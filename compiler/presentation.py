@@ -137,9 +137,13 @@ def _radicals_gathered(expr):
     return sympy.Mul(*factors)
 
 
+def _basic(expr):
+    return expr if isinstance(expr, sympy.Basic) else sympy.Integer(expr)
+
+
 def scalar_tree(expr) -> list:
     """A class-free value in display form."""
-    return _node(_factored(expr if isinstance(expr, sympy.Basic) else sympy.Integer(expr)), _ordered)
+    return _node(_factored(_basic(expr)), _ordered)
 
 
 def _common(coefficients: list):
@@ -191,8 +195,63 @@ def element_tree(value: Element) -> list:
     return _term(scalar_tree(common), tree)
 
 
-def display_tree(value) -> list:
-    """Any computed value (class polynomial or class-free) in display form."""
+def _expanded(expr) -> list:
+    """The terms of a multiplied-out class-free value."""
+    return [_node(t, _ordered) for t in _ordered(sympy.expand(_basic(expr)))]
+
+
+def _collected(expr, symbol) -> list:
+    """A class-free value as a sum over the powers of ``symbol``, highest
+    first, each coefficient factored; a denominator free of ``symbol`` goes
+    into the coefficients.  Raises ValueError when the value is not a
+    polynomial in ``symbol`` over such a denominator."""
+    num, den = sympy.cancel(_basic(expr)).as_numer_denom()
+    if not num.is_polynomial(symbol) or not den.is_polynomial(symbol):
+        raise ValueError(f"it is not a rational function of {symbol.name}")
+    inner = den.has(symbol)
+    poly = sympy.Poly(num, symbol)
+    terms = []
+    for (k,), coef in zip(poly.monoms(), poly.coeffs()):
+        tree = scalar_tree(coef if inner else coef / den)
+        power = ["sym", symbol.name] if k == 1 else ["pow", ["sym", symbol.name], k]
+        terms.append(tree if k == 0 else _term(tree, power))
+    tree = terms[0] if len(terms) == 1 else ["add", *terms]
+    return ["div", tree, scalar_tree(den)] if inner else tree
+
+
+def _in_form(value, coefficient, distribute: bool) -> list:
+    """``value`` with each coefficient drawn by ``coefficient`` (a list of
+    terms), the monomials in normal-form order and nothing pulled out; with
+    ``distribute`` each term of a coefficient takes the monomial itself."""
+    if not isinstance(value, Element):
+        terms = coefficient(value)
+    else:
+        terms = []
+        for pairs, coef in value.terms():
+            body = coefficient(coef)
+            if not pairs:
+                terms += body
+            elif len(body) == 1 or distribute:
+                terms += [_term(t, _monomial(value.ring, pairs)) for t in body]
+            else:
+                terms.append(["mul", ["add", *body], _monomial(value.ring, pairs)])
+    if not terms:
+        return ["int", 0]
+    return terms[0] if len(terms) == 1 else ["add", *terms]
+
+
+def display_tree(value, form: str = "factored", symbol=None) -> list:
+    """Any computed value (class polynomial or class-free) in display form,
+    or in the form an author asked for: ``expanded`` (multiplied out), or
+    ``collected`` in the sympy symbol ``symbol``."""
+    if form == "expanded":
+        return _in_form(value, _expanded, True)
+    if form == "collected":
+        return _in_form(value, lambda c: _sum_terms(_collected(c, symbol)), False)
     if isinstance(value, Element):
         return element_tree(value)
     return scalar_tree(value)
+
+
+def _sum_terms(tree: list) -> list:
+    return list(tree[1:]) if tree[0] == "add" else [tree]

@@ -448,6 +448,8 @@ class Check(_Statement):
 @dataclass(frozen=True)
 class Show(_Statement):
     exprs: tuple[Expr, ...]
+    form: str = "factored"  # or "expanded", "collected" (in ``symbol``)
+    symbol: Optional[Ident] = None
     kind = "show"
 
 

@@ -23,10 +23,19 @@ def _label(node) -> str:
 
 
 def _show(scope, s: n.Show, step: Step) -> None:
+    symbol = None
+    if s.symbol is not None:
+        if s.symbol not in scope.symbols_by_name:
+            raise scope.fail(s.symbol, f"'{s.symbol}' is not a declared symbol")
+        symbol = scope.symbols_by_name[s.symbol].symbol
     for node in s.exprs:
         known = scope.known(node)
-        step.values.append(record(_label(node), known.value,
-                                  unknown_above(known.exact_to, scope.ring.truncate)))
+        try:
+            step.values.append(record(_label(node), known.value,
+                                      unknown_above(known.exact_to, scope.ring.truncate),
+                                      s.form, symbol))
+        except ValueError as problem:
+            raise scope.fail(node, f"cannot show it collected in {s.symbol}: {problem}")
 
 
 def _table(scope, s: n.Table, step: Step) -> None:
