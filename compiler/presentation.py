@@ -260,8 +260,8 @@ def _prim_tree(prim, symbols) -> list:
 
 
 def _monomial(ring, pairs) -> list:
-    factors = [["cls", ring.generator_info(key).text] if e == 1 else
-               ["pow", ["cls", ring.generator_info(key).text], e] for key, e in pairs]
+    factors = [["cls", key] if e == 1 else
+               ["pow", ["cls", key], e] for key, e in pairs]
     return _product(factors)
 
 

@@ -70,7 +70,7 @@ def test_k3_surface():
     t = table(4)
     t.declare("T", "real", 4)
     ring = t.ring
-    w = ring.generator("w", 4, text="w", latex="w")
+    w = ring.generator("w", 4)
     sub = {"p1(T)": -48 * w}
     assert ahat(t, "T").substitute(sub).coefficient(w) == 2
     assert hirzebruch_l(t, "T").substitute(sub).coefficient(w) == -16
@@ -81,7 +81,7 @@ def test_cp2_todd_genus_and_signature():
     # Todd genus 1 and signature 1 (p1 = c1^2 - 2c2 = 3h^2); Hirzebruch 1966.
     t = table(4)
     t.declare("T", "complex", 2)
-    h = t.ring.generator("h", 2, text="h", latex="h")
+    h = t.ring.generator("h", 2)
     sub = {"c1(T)": 3 * h, "c2(T)": 3 * h * h}
     assert todd(t, "T").substitute(sub).coefficient(h * h) == 1
     assert hirzebruch_l(t, "T").substitute(sub).coefficient(h * h) == 1

@@ -354,9 +354,6 @@ class Element:
         """Deterministic text in the document's own expression syntax (re-readable)."""
         return printing.to_text(self._ring, self._printed_terms())
 
-    def to_latex(self) -> str:
-        return printing.to_latex(self._ring, self._printed_terms())
-
     def __repr__(self) -> str:
         return f"Element({self.to_text()})"
 

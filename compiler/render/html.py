@@ -166,6 +166,7 @@ def _environment(report: Report) -> jinja2.Environment:
         value_math=lambda v: value_math(printer, v.name, v.tree),
         tree_math=lambda tree: value_math(printer, "", tree),
         name_math=lambda name: math_element(printer.doprint(name_tree(name, report.notation))),
+        cell_math=lambda tree: math_element(printer.doprint(tree)),
         degrees=degrees_text,
         svg=lambda p: _plot_svg(p, report.notation),
         extremum=lambda c: _extremum(c, LatexPrinter(report.notation)),

@@ -10,6 +10,7 @@ from ...algebra import budget
 from ...checks import free_symbols, show, substitute
 from ...expressions import as_expr, is_class_free
 from ...precision import unknown_above
+from ...presentation import display_tree
 from ...results import PlotData, Step, TableData
 from ...statements import nodes as n
 from ..scope import fraction_text, record
@@ -42,18 +43,15 @@ def _table(scope, s: n.Table, step: Step) -> None:
     values = [scope.read(node) for node in s.exprs]
     points = scope.points(s.clauses)
     params = [c.name for c in s.clauses]
-    columns = [notation.name_latex(p) for p in params]
-    columns += [notation.name_latex(node.id) if isinstance(node, n.Name) else r"\cdots"
-                for node in s.exprs]
     rows, text_rows = [], []
     for point in points or [{}]:
         budget.check()
         cells = [substitute(scope.ring, v, point) for v in values]
         coords = [point[scope.symbols_by_name[p].symbol] for p in params]
-        rows.append([notation.latex(c) for c in coords] + [record("", c).latex for c in cells])
+        rows.append([display_tree(c) for c in coords] + [record("", c).tree for c in cells])
         text_rows.append([notation.text(c) for c in coords] + [show(c) for c in cells])
     names = params + [_label(node) for node in s.exprs]
-    step.table = TableData(columns=columns, rows=rows, text_rows=text_rows, names=names)
+    step.table = TableData(names=names, cells=rows, text_rows=text_rows)
 
 
 def _plot(scope, s: n.Plot, step: Step) -> None:
