@@ -56,6 +56,8 @@ def test_value_reference_shows_the_value():
     # @{I8} becomes the value's MathML, written from its tree, not the literal reference
     assert "@{I8}" not in prose
     assert MathMLPrinter().doprint(make_report().values["I8"].tree) in prose
+    # the value is long, so a display; the full stop after it ends the display, not the next line
+    assert "<mo>.</mo></mrow></math></p>" in prose and "</math>.</p>" not in prose
 
 
 def test_scripts_escaped_in_prose_and_sources():
