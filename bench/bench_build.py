@@ -37,7 +37,7 @@ from compiler.engine.handlers import CACHED
 from compiler.engine.run import Run
 from compiler.errors import DocumentError
 from compiler.expressions import as_expr
-from compiler.statements import nodes as n
+from compiler.statements import expr_nodes as en, nodes as n
 
 ROOT = Path(__file__).resolve().parent.parent
 PHASES = ("cold", "warm", "append", "let")
@@ -142,7 +142,7 @@ def maximize_side_by_side(source: Path) -> None:
     document, by_block = parse(str(source), text)
     statements = [s for i in sorted(by_block) for s in by_block[i]]
     target = next((s for s in statements if isinstance(s, n.Extremize) and s.mode == "maximize"
-                   and isinstance(s.target, n.Name) and len(s.variables) == 1), None)
+                   and isinstance(s.target, en.Name) and len(s.variables) == 1), None)
     if target is None:
         return
     run = Run(str(source), document, statements, BuildOptions(use_cache=False))

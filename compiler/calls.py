@@ -22,7 +22,7 @@ import sympy
 
 from . import expressions as ex, notation, precision
 from .errors import DocumentError, InternalError
-from .statements import nodes as n
+from .statements import expr_nodes as en
 
 #: Most terms a sum or product with numeric bounds expands.
 MAX_RANGE_TERMS = 10_000
@@ -42,7 +42,7 @@ class Function:
     origin: str
 
 
-def apply(ev, node: n.Apply):
+def apply(ev, node: en.Apply):
     kind, fn = ev.lookup(node.func, node.line, node.column)
     if kind != "function":
         raise ev.fail(node, f"'{node.func}' is a {kind}, not a function")
@@ -61,7 +61,7 @@ def apply(ev, node: n.Apply):
                             f"{err.problems[0].message}") from None
 
 
-def sum_or_prod(ev, node: n.Sum):
+def sum_or_prod(ev, node: en.Sum):
     low, high = ev.read(node.low, 0).value, ev.read(node.high, 0).value
     for bound, value in ((node.low, low), (node.high, high)):
         if not ex.is_class_free(value):
@@ -80,7 +80,7 @@ def sum_or_prod(ev, node: n.Sum):
     return _faulhaber(ev, node, ex.as_expr(low), ex.as_expr(high))
 
 
-def _expand(ev, node: n.Sum, a: int, b: int):
+def _expand(ev, node: en.Sum, a: int, b: int):
     count = b - a + 1
     if count > MAX_RANGE_TERMS:
         raise ev.fail(node, f"{node.op}() over {node.index} = {a}..{b} has {count} terms; "
@@ -97,7 +97,7 @@ def _expand(ev, node: n.Sum, a: int, b: int):
     return total
 
 
-def _faulhaber(ev, node: n.Sum, low, high):
+def _faulhaber(ev, node: en.Sum, low, high):
     k = sympy.Dummy(str(node.index), integer=True)
     try:
         with ev.frame(ev.with_local(node.index, k)):

@@ -22,7 +22,7 @@ from pathlib import Path
 from . import __version__, usage
 from .diff import diff_records, diff_to_json, format_diff, load_record
 from .engine import BuildOptions, build
-from .errors import DocumentError, Location
+from .errors import DocumentError, Location, shown
 from .render.html import to_html
 from .render.json import to_json
 from .render.tex import STYLES, plot_files, to_tex
@@ -38,6 +38,8 @@ def rational(text: str) -> Fraction:
     text = text.strip()
     if not _RATIONAL.fullmatch(text):
         raise ValueError(f"'{text}' is not an exact rational (write 1/2, not 0.5)")
+    if any(len(part.lstrip("+-")) > sys.get_int_max_str_digits() for part in text.split("/")):
+        raise ValueError(f"the number has more than {sys.get_int_max_str_digits()} digits")
     return Fraction(text)
 
 
@@ -122,7 +124,7 @@ def main(argv=None) -> int:
         if getattr(args, "debug", False):
             traceback.print_exc()
         print(f"anomark: internal error (a bug in anomark, not in your document): "
-              f"{type(exc).__name__}: {exc}" + ("" if getattr(args, "debug", False)
+              f"{type(exc).__name__}: {shown(str(exc))}" + ("" if getattr(args, "debug", False)
                                                 else "; rerun with --debug for details"),
               file=sys.stderr)
         return EXIT_INTERNAL
@@ -155,7 +157,7 @@ def print_warnings(source) -> None:
     """
     for warning in getattr(source, "warnings", ()) or ():
         location, message = getattr(warning, "location", None), getattr(warning, "message", None)
-        text = f"{location}: warning: {message}" if location is not None else str(warning)
+        text = f"{location}: warning: {shown(message)}" if location is not None else shown(str(warning))
         print(text, file=sys.stderr)
 
 
@@ -177,9 +179,9 @@ def summary(path: str, report, written=()) -> str:
     total = sum(len(s.checks) for s in report.steps)
     counts = ", ".join(plural(report.count(s), s) if s == "error" else f"{report.count(s)} {s}"
                        for s in STATUSES if report.count(s))
-    line = (f"{path}: {VERDICTS[status_of(report)]} \u2014 {plural(total, 'check')}"
+    line = (f"{shown(path)}: {VERDICTS[status_of(report)]} \u2014 {plural(total, 'check')}"
             f"{': ' + counts if counts else ''} ({plural(len(report.steps), 'step')})")
-    return line + (f"; wrote {', '.join(str(p) for p in written)}" if written else "")
+    return line + (f"; wrote {', '.join(shown(str(p)) for p in written)}" if written else "")
 
 
 def options(args, path: str) -> BuildOptions:
@@ -277,19 +279,19 @@ def build_once(args, formats) -> int:
     """Compile ``args.file``, write its reports whole, and say what happened."""
     out, source = output_folder(args), Path(args.file)
     if out.exists() and not out.is_dir():
-        print(f"anomark: {out}: not a folder (-o names the output folder)", file=sys.stderr)
+        print(f"anomark: {shown(str(out))}: not a folder (-o names the output folder)", file=sys.stderr)
         return 2
     report = compile_file(args, args.file)
     files = report_files(args, report, formats)
     clash = [target for target in files if target.resolve() == source.resolve()]
     if clash:
-        print(f"anomark: {clash[0]}: the output would overwrite the document itself; "
+        print(f"anomark: {shown(str(clash[0]))}: the output would overwrite the document itself; "
               "choose another folder with -o", file=sys.stderr)
         return 2
     try:
         write_whole(files)
     except OSError as exc:
-        print(f"anomark: cannot write into {out}: {exc.strerror or exc}", file=sys.stderr)
+        print(f"anomark: cannot write into {shown(str(out))}: {exc.strerror or exc}", file=sys.stderr)
         return 2
     say(args, summary(args.file, report, files))
     return status_of(report)
@@ -350,7 +352,7 @@ def cmd_watch(args) -> int:
     except OSError as exc:
         print(f"anomark: cannot serve on 127.0.0.1:{args.port}: {exc.strerror or exc}", file=sys.stderr)
         return 2
-    print(f"anomark: serving {url} (rebuilds when {args.file} is saved; Ctrl-C stops)",
+    print(f"anomark: serving {url} (rebuilds when {shown(args.file)} is saved; Ctrl-C stops)",
           file=sys.stderr, flush=True)
     try:
         watch.run()

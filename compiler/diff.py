@@ -8,12 +8,13 @@ author can find them.  Identical statements are paired in document order.
 from __future__ import annotations
 
 import json
+import sys
 from collections import defaultdict
 from dataclasses import asdict, dataclass, field
 from pathlib import Path
 from typing import Optional
 
-from compiler.errors import DocumentError, Location
+from compiler.errors import DocumentError, Location, shown
 from compiler.results import STATUSES
 
 
@@ -103,6 +104,11 @@ def load_record(path) -> dict:
         record = json.loads(text)
     except json.JSONDecodeError as e:
         raise DocumentError(Location(str(path), e.lineno, e.colno), f"not valid JSON: {e.msg}") from None
+    except RecursionError:
+        raise DocumentError(where, "not an anomark JSON record: nested too deeply") from None
+    except ValueError:  # an integer past the interpreter's digit limit
+        raise DocumentError(where, "not an anomark JSON record: a number has more than "
+                                   f"{sys.get_int_max_str_digits()} digits") from None
     problems = _problems(record)
     if problems:
         raise DocumentError(where, "not an anomark JSON record: " + "; ".join(problems))
@@ -158,7 +164,10 @@ def _at(line: Optional[int]) -> str:
 
 
 def format_diff(diff: Diff) -> str:
-    """A human account, one change per line (no final newline); ``no differences`` when empty."""
+    """A human account, one change per line (no final newline); ``no differences`` when empty.
+
+    Names and texts come from the records, which anyone may have written, so
+    their control characters are shown escaped, never sent to the terminal."""
     if diff.empty:
         return "no differences"
     out = []
@@ -179,9 +188,11 @@ def format_diff(diff: Diff) -> str:
         else:
             change = f"{c.old_status} -> {c.new_status}"
         out.append(f"check {lines}: {c.source!r} [{c.what}]: {change}")
-    return "\n".join(out)
+    return "\n".join(shown(line) for line in out)
 
 
 def diff_to_json(diff: Diff) -> str:
-    """The diff as a JSON object (stable keys, indent 2)."""
-    return json.dumps(diff.as_dict(), indent=2, ensure_ascii=False)
+    """The diff as a JSON object (stable keys, indent 2); unprintable characters
+    (which can only sit inside strings) as ``\\u`` escapes, safe on a terminal."""
+    text = json.dumps(diff.as_dict(), indent=2, ensure_ascii=False)
+    return "".join(ch if ch.isprintable() or ch == "\n" else json.dumps(ch)[1:-1] for ch in text)

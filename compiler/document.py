@@ -12,9 +12,10 @@ import re
 from dataclasses import dataclass
 from typing import Union
 
-from compiler.errors import DocumentError, Location, Problem
-from compiler.front_matter import FrontMatter, read_front_matter, shown
+from compiler.errors import DocumentError, Location, Problem, shown
+from compiler.front_matter import FrontMatter, read_front_matter
 from compiler.markdown import MATH_TOKENS, make_markdown, math_refs
+from compiler.texsafe import character_problem, math_problem, text_character
 
 _FRONT_MATTER_OPEN = re.compile(r"-{3,}[ \t]*")
 #: Longer lines are refused before any parsing (a formula or a paragraph
@@ -26,6 +27,8 @@ MAX_DOCUMENT_SIZE = 1_000_000
 #: Lines in derive blocks, counted before parsing: every statement takes at
 #: least one, so this bounds the statements of a document too.
 MAX_STATEMENT_LINES = 10_000
+#: Untypesettable characters reported at once (the rest are like them).
+MAX_CHARACTER_PROBLEMS = 20
 
 
 @dataclass(frozen=True)
@@ -83,14 +86,17 @@ def read_document(path: str, text: str) -> Document:
     text = text.replace("\r\n", "\n").replace("\r", "\n").removeprefix("\ufeff")
     lines = text.split("\n")
     _check_sizes(path, lines)
+    _check_characters(path, lines)
     tokens = make_markdown().enable("front_matter").parse(text)
     md = make_markdown()  # as the renderers will parse each prose run
 
     front = FrontMatter()
+    problems: list[Problem] = []  # math that may not reach TeX, reported together
     body_start = 0  # 0-based index of the first line after the front matter
     if tokens and tokens[0].type == "front_matter":
         front = read_front_matter(path, tokens[0].content, 2)
         body_start = tokens[0].map[1]
+        problems = _math_problems(path, md.parse(front.abstract), lines[:body_start], 1)
     elif lines and _FRONT_MATTER_OPEN.fullmatch(lines[0]):
         raise DocumentError(Location(path, 1, 1),
                             "front matter opened here is never closed with '---'")
@@ -107,10 +113,12 @@ def read_document(path: str, text: str) -> Document:
             continue
         start, end = token.map
         statement_lines = _count_statement_lines(path, token, statement_lines)
-        _add_prose(parts, md, lines, prose_start, start)
+        problems += _add_prose(path, parts, md, lines, prose_start, start)
         parts.append(Block(token.content, start + 2, _offsets(token.content, lines[start + 1:end])))
         prose_start = end
-    _add_prose(parts, md, lines, prose_start, len(lines))
+    problems += _add_prose(path, parts, md, lines, prose_start, len(lines))
+    if problems:
+        raise DocumentError.of(problems)
     return Document(path, front, tuple(parts), tuple(warnings))
 
 
@@ -160,16 +168,48 @@ def _near_miss(path: str, fence, lines: list[str]) -> list[Problem]:
                     "did you mean 'derive'?")]
 
 
-def _add_prose(parts, md, lines: list[str], start: int, end: int) -> None:
-    """Append lines ``start:end`` (0-based) as a prose part unless all blank."""
+def _add_prose(path: str, parts, md, lines: list[str], start: int, end: int) -> list[Problem]:
+    """Append lines ``start:end`` (0-based) as a prose part unless all blank;
+    the problems of its math."""
     chunk = lines[start:end]
     if not any(line.strip() for line in chunk):
-        return
+        return []
     markdown = "\n".join(chunk)
-    parts.append(ProsePart(markdown, start + 1, _find_refs(md, chunk, start + 1)))
+    tokens = md.parse(markdown)
+    parts.append(ProsePart(markdown, start + 1, _find_refs(tokens, chunk, start + 1)))
+    return _math_problems(path, tokens, chunk, start + 1)
 
 
-def _find_refs(md, chunk: list[str], first_line: int) -> tuple[Ref, ...]:
+def _check_characters(path: str, lines: list[str]) -> None:
+    """Refuse characters the LaTeX appendix cannot typeset (an emoji, a control
+    character), wherever they stand, so that every report can be written."""
+    problems = [Problem(Location(path, number, column), character_problem(ch))
+                for number, line in enumerate(lines, 1)
+                if not (line.isascii() and line.isprintable())
+                for column, ch in enumerate(line, 1) if text_character(ch) is None]
+    if problems:
+        raise DocumentError.of(problems[:MAX_CHARACTER_PROBLEMS])
+
+
+def _math_problems(path: str, tokens, source: list[str], first_line: int) -> list[Problem]:
+    """Math that may not reach TeX (``texsafe.math_problem``), located at the
+    first source line holding the offending piece (``source`` starts at file
+    line ``first_line`` and holds the parsed text, perhaps indented or quoted)."""
+    problems = []
+    for token in tokens:
+        for piece in [token] + list(token.children or ()):
+            found = math_problem(piece.content) if piece.type in MATH_TOKENS else None
+            if found is None:
+                continue
+            offset, message = found
+            snippet = piece.content[offset:offset + 12].split("\n")[0] or piece.content[-12:]
+            where = next(((n, line.find(snippet)) for n, line in enumerate(source)
+                          if snippet and snippet in line), (0, 0))
+            problems.append(Problem(Location(path, first_line + where[0], where[1] + 1), message))
+    return problems
+
+
+def _find_refs(tokens, chunk: list[str], first_line: int) -> tuple[Ref, ...]:
     """Every ``value_ref`` the shared parser finds, at its file position.
 
     An inline token's content is its source lines with container markers and
@@ -178,7 +218,7 @@ def _find_refs(md, chunk: list[str], first_line: int) -> tuple[Ref, ...]:
     """
     refs = []
     claimed: set[tuple[int, int]] = set()
-    for token in md.parse("\n".join(chunk)):
+    for token in tokens:
         if token.map is None:
             continue
         math = [token] if token.type in MATH_TOKENS else [

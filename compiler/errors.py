@@ -10,6 +10,14 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 
+def shown(text: str) -> str:
+    """``text`` with control and other unprintable characters escaped, so that
+    a file name or a quoted piece of a document cannot drive the reader's
+    terminal (retitle it, clear it, move the cursor)."""
+    return "".join(ch if ch.isprintable() else ch.encode("unicode_escape").decode("ascii")
+                   for ch in text)
+
+
 @dataclass(frozen=True)
 class Location:
     """A 1-based position in a Markdown file."""
@@ -19,7 +27,7 @@ class Location:
     column: int = 1
 
     def __str__(self) -> str:
-        return f"{self.path}:{self.line}:{self.column}"
+        return f"{shown(self.path)}:{self.line}:{self.column}"
 
 
 @dataclass(frozen=True)
@@ -28,7 +36,7 @@ class Problem:
     message: str
 
     def __str__(self) -> str:
-        return f"{self.location}: {self.message}"
+        return f"{self.location}: {shown(self.message)}"
 
 
 class DocumentError(Exception):

@@ -15,10 +15,10 @@ import sympy
 from . import expressions as ex, notation
 from .algebra.radicals import tidy
 from .precision import Known
-from .statements import nodes as n
+from .statements import expr_nodes as en
 
 
-def expand(ev, node: n.Expansion):
+def expand(ev, node: en.Expansion):
     known = ev.read(node.target, 0)
     value = known.value
     if not ex.is_class_free(value):

@@ -15,18 +15,17 @@ from __future__ import annotations
 
 from contextlib import contextmanager
 from fractions import Fraction
-from typing import Callable, Union
+from typing import Union
 
 import sympy
 
-from . import calls, constructions, expansions, notation, representations
-from .algebra import budget, genera
-from .algebra.radicals import tidy
+from . import calls, expansions, functions, notation
+from .algebra import budget
 from .algebra.errors import AlgebraError, NotRational
 from .algebra.graded import Element
 from .errors import DocumentError, Location
 from .precision import Known, beyond, power, product, quotient, smallest, whole
-from .statements import nodes as n
+from .statements import expr_nodes as en
 
 Value = Union[Element, sympy.Expr]
 
@@ -130,34 +129,34 @@ class Evaluator:
         error if that degree is beyond what is exact."""
         k = self.known(node)
         truncate = self.scope.ring.truncate
-        what = f"this use of {node.id}" if isinstance(node, n.Name) else "this expression"
+        what = f"this use of {node.id}" if isinstance(node, en.Name) else "this expression"
         problem = (whole(k, truncate, what) if degree is None
                    else beyond(k, degree, truncate, what))
         if problem:
             raise self.fail(node, problem)
         return k
 
-    def _eval_Num(self, node: n.Num) -> Known:
+    def _eval_Num(self, node: en.Num) -> Known:
         return Known(self.scope.ring.scalar(node.value))
 
-    def _eval_Name(self, node: n.Name) -> Known:
+    def _eval_Name(self, node: en.Name) -> Known:
         kind, value = self.lookup(node.id, node.line, node.column)
         if kind in _NOT_VALUES:
             raise self.fail(node, _NOT_VALUES[kind].format(node.id))
         return Known(value, self.exact_to(node.id))
 
-    def _eval_Unary(self, node: n.Unary) -> Known:
+    def _eval_Unary(self, node: en.Unary) -> Known:
         k = self.known(node.operand)
         return Known(-k.value, k.exact_to) if node.op == "-" else k
 
-    def _eval_Binary(self, node: n.Binary) -> Known:
+    def _eval_Binary(self, node: en.Binary) -> Known:
         if node.op == "^":
             return self._power(node)
         # Walk a left-associative chain (a + b - c + ...) without recursing
         # on its left spine, so long sums stay shallow.
         family = ("+", "-") if node.op in ("+", "-") else ("*", "/")
         chain = []
-        while isinstance(node, n.Binary) and node.op in family:
+        while isinstance(node, en.Binary) and node.op in family:
             chain.append(node)
             node = node.left
         value = self.known(node)
@@ -165,7 +164,7 @@ class Evaluator:
             value = self._apply(link, value, self.known(link.right))
         return value
 
-    def _apply(self, node: n.Binary, a: Known, b: Known) -> Known:
+    def _apply(self, node: en.Binary, a: Known, b: Known) -> Known:
         if node.op == "/":
             return Known(self._divide(node, a.value, b.value), quotient(a, b))
         left, right = unify(self.scope.ring, a.value, b.value)
@@ -175,7 +174,7 @@ class Evaluator:
             return Known(left - right, smallest(a.exact_to, b.exact_to))
         return Known(left * right, product(a, b, self.scope.ring.truncate))
 
-    def _power(self, node: n.Binary) -> Known:
+    def _power(self, node: en.Binary) -> Known:
         known = self.known(node.left)
         base = known.value
         exponent = self.read(node.right, 0).value
@@ -199,41 +198,41 @@ class Evaluator:
         left, right = unify(self.scope.ring, left, right)
         return left / right
 
-    def _eval_Call(self, node: n.Call) -> Known:
-        rule = FUNCTIONS.get(node.func)
+    def _eval_Call(self, node: en.Call) -> Known:
+        rule = functions.FUNCTIONS.get(node.func)
         if rule is None:
             prefix = node.func.rstrip("0123456789")
-            if prefix in CLASS_RULES and prefix != node.func:
+            if prefix in functions.CLASS_RULES and prefix != node.func:
                 i = int(node.func[len(prefix):])
-                value = CLASS_RULES[prefix](self, node, i)
+                value = functions.CLASS_RULES[prefix](self, node, i)
                 truncate = self.scope.ring.truncate
-                return Known(value, truncate if CLASS_DEGREE[prefix] * i > truncate else None)
+                return Known(value, truncate if functions.CLASS_DEGREE[prefix] * i > truncate else None)
             raise self.fail(node, f"'{node.func}' cannot be called here")
         value = rule(self, node)
         if isinstance(value, Known):
             return value
-        return Known(value, self.scope.ring.truncate if node.func in TRUNCATED else None)
+        return Known(value, self.scope.ring.truncate if node.func in functions.TRUNCATED else None)
 
-    def _eval_Apply(self, node: n.Apply) -> Known:
+    def _eval_Apply(self, node: en.Apply) -> Known:
         return calls.apply(self, node)
 
-    def _eval_Sum(self, node: n.Sum) -> Known:
+    def _eval_Sum(self, node: en.Sum) -> Known:
         return calls.sum_or_prod(self, node)
 
-    def _eval_Expansion(self, node: n.Expansion) -> Known:
+    def _eval_Expansion(self, node: en.Expansion) -> Known:
         return expansions.expand(self, node)
 
     # ------------------------------------------------------------ helpers
 
-    def arity(self, node: n.Call, count: int) -> None:
+    def arity(self, node: en.Call, count: int) -> None:
         if len(node.args) != count:
             raise self.fail(node, f"{node.func}() takes {count} argument{'s' if count != 1 else ''}")
 
-    def bundle_arg(self, node: n.Call) -> str:
+    def bundle_arg(self, node: en.Call) -> str:
         """The bundle a class function is applied to, e.g. ``NW`` in ``p2(NW)``."""
         self.arity(node, 1)
         arg = node.args[0]
-        if not isinstance(arg, n.Name):
+        if not isinstance(arg, en.Name):
             raise self.fail(arg, f"{node.func}() takes a bundle name")
         kind, _ = self.lookup(arg.id, arg.line, arg.column)
         if kind != "bundle":
@@ -246,114 +245,6 @@ class Evaluator:
         if k is None:
             raise self.fail(node, "an integer is needed here")
         return k
-
-# ---------------------------------------------------------------- functions
-# One small function per built-in; the table below chooses.
-
-def _pontryagin(ev: Evaluator, node: n.Call, i: int) -> Value:
-    return ev.scope.bundles.pontryagin(ev.bundle_arg(node), i)
-
-
-def _chern(ev: Evaluator, node: n.Call, i: int) -> Value:
-    return ev.scope.bundles.chern(ev.bundle_arg(node), i)
-
-
-def _ch_component(ev: Evaluator, node: n.Call, k: int) -> Value:
-    """ch_k(X) = part(ch(X), 2k): a generator for a bundle of symbolic rank."""
-    ev.arity(node, 1)
-    return constructions.construction(ev, node.args[0]).ch.part(2 * k)
-
-
-CLASS_RULES = {"p": representations.or_built(_pontryagin, representations.pontryagin_of),
-               "c": representations.or_built(_chern, representations.chern_of),
-               "ch": _ch_component}
-#: The form degree of the class ``prefix + i`` is ``CLASS_DEGREE[prefix] * i``.
-CLASS_DEGREE = {"p": 4, "c": 2, "ch": 2}
-
-
-def _euler(ev, node):
-    return ev.scope.bundles.euler(ev.bundle_arg(node))
-
-
-def _total_p(ev, node):
-    return ev.scope.bundles.total_pontryagin(ev.bundle_arg(node))
-
-
-def _total_c(ev, node):
-    return ev.scope.bundles.total_chern(ev.bundle_arg(node))
-
-
-def _ahat(ev, node):
-    return genera.ahat(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _hirzebruch_l(ev, node):
-    return genera.hirzebruch_l(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _todd(ev, node):
-    return genera.todd(ev.scope.bundles, ev.bundle_arg(node))
-
-
-def _ch(ev, node):
-    if len(node.args) == 2:
-        return representations.character(ev, node)
-    return constructions.construction(ev, node.args[0]).ch
-
-
-def _part(ev, node):
-    ev.arity(node, 2)
-    k = ev.integer_arg(node.args[1])
-    value = ev.read(node.args[0], k).value
-    if isinstance(value, Element):
-        return value.part(k)
-    return value if k == 0 else ev.scope.ring.zero()
-
-
-def _degree(ev, node):
-    ev.arity(node, 1)
-    value = ev.read(node.args[0]).value
-    if not isinstance(value, Element):
-        return ev.scope.ring.zero()
-    degrees = value.degrees()
-    if len(degrees) > 1:
-        raise ev.fail(node, "degree() of a value with several degrees: "
-                            + ", ".join(map(str, degrees)))
-    return ev.scope.ring.scalar(degrees[0] if degrees else 0)
-
-
-def _sqrt(ev, node):
-    ev.arity(node, 1)
-    known = ev.read(node.args[0], 0)
-    value, exact_to = known.value, known.exact_to
-    if not is_class_free(value):
-        raise ev.fail(node, "sqrt() of a value with classes")
-    if as_expr(value).is_negative:
-        raise ev.fail(node, f"sqrt() of a negative value: {notation.text(as_expr(value))}")
-    root = tidy(sympy.sqrt(as_expr(value)), list(ev.scope.specs.values()))
-    return Known(from_expr(ev.scope.ring, root), exact_to)
-
-
-def _not_here(ev, node):
-    raise ev.fail(node, f"{node.func}() is a bundle construction: use it inside ch(...)"
-                  if node.func in constructions.CONSTRUCTIONS else f"{node.func}() belongs in a split statement")
-
-
-FUNCTIONS: dict[str, Callable] = {
-    "e": representations.or_built(_euler, representations.euler_of),
-    "p": representations.or_built(_total_p, representations.pontryagin_of),
-    "c": representations.or_built(_total_c, representations.chern_of),
-    "Ahat": _ahat, "L": _hirzebruch_l,
-    "td": _todd, "ch": _ch, "part": _part, "degree": _degree, "sqrt": _sqrt,
-    "S": _not_here, "dual": _not_here, "wedge": _not_here, "sym": _not_here,
-    "trivial": _not_here, "S+": _not_here, "S-": _not_here,
-    "tr": representations.trace, "pf": representations.pfaffian,
-}
-
-
-#: Built-ins whose value is a series cut at ``truncate``: exact only up to it.
-TRUNCATED = frozenset({"p", "c", "Ahat", "L", "td", "ch"})
-
 
 # ---------------------------------------------------------------- value helpers
 
@@ -389,23 +280,22 @@ def unify(ring, left: Value, right: Value):
     return as_expr(left), as_expr(right)
 
 
+def _scalar(value: Value):
+    """The sympy number of a class-free value; None for a value with classes."""
+    if isinstance(value, Element):
+        return value.to_scalar() if value.is_class_free() else None
+    return value
+
+
 def integer_value(value: Value):
     """The Python int a value stands for, or None."""
-    if isinstance(value, Element):
-        if not value.is_class_free():
-            return None
-        value = value.to_scalar()
-    if isinstance(value, sympy.Integer):
-        return int(value)
-    return None
+    value = _scalar(value)
+    return int(value) if isinstance(value, sympy.Integer) else None
 
 
 def rational_value(value: Value):
     """The Fraction a value stands for, or None."""
-    if isinstance(value, Element):
-        if not value.is_class_free():
-            return None
-        value = value.to_scalar()
+    value = _scalar(value)
     if isinstance(value, sympy.Rational):
         return Fraction(int(value.p), int(value.q))
     return None

@@ -17,7 +17,7 @@ from typing import Callable, Iterator, Optional
 
 import yaml
 
-from compiler.errors import DocumentError, Location, Problem
+from compiler.errors import DocumentError, Location, Problem, shown
 from compiler.render.notation import check_tex
 from compiler.statements.words import STATEMENT_WORDS
 
@@ -58,12 +58,6 @@ class FrontMatter:
     notation: tuple[tuple[str, str], ...] = ()  # name -> LaTeX, within the notation subset
     results: tuple[str, ...] = ()  # headline values, shown first
     line: int = 0
-
-
-def shown(text: str) -> str:
-    """``text`` with control and other unprintable characters escaped."""
-    return "".join(ch if ch.isprintable() else ch.encode("unicode_escape").decode("ascii")
-                   for ch in text)
 
 
 class _Loader(yaml.SafeLoader):

@@ -9,13 +9,13 @@ all at once and reported together, before the first computation.
 from __future__ import annotations
 
 import difflib
-from dataclasses import dataclass, is_dataclass
+from dataclasses import dataclass
 from typing import Iterator, Optional
 
 from .errors import DocumentError, Location, Problem
-from .statements import nodes as n, words
+from .statements import expr_nodes as en, nodes as n, words
 from .statements.core import did_you_mean
-from .statements.tree import Ident, iter_child_nodes
+from .statements.tree import Ident, children_of, iter_child_nodes
 
 #: "Did you mean" is searched for this many problems, then no more.
 MAX_SUGGESTIONS = 20
@@ -136,7 +136,7 @@ def _idents(statement, field: str, local: Optional[str] = None) -> Iterator[tupl
 
 
 def _binds(item: Ident, parent) -> bool:
-    return isinstance(parent, n.Sum) and item is parent.index
+    return isinstance(parent, en.Sum) and item is parent.index
 
 
 def _scoped(statement, field: str, local: Optional[str] = None):
@@ -144,25 +144,16 @@ def _scoped(statement, field: str, local: Optional[str] = None):
     parent and the local names in force (a sum's index in its body only).
     Iterative, like ``walk``, for deep left-leaning sums."""
     bound = frozenset(getattr(statement, local)) if local else frozenset()
-    stack = [(item, None, bound) for item in reversed(list(_top(getattr(statement, field))))]
+    stack = [(item, None, bound) for item in reversed(list(children_of(getattr(statement, field))))]
     while stack:
         item, parent, bound = stack.pop()
         yield item, parent, bound
         if isinstance(item, Ident):
             continue
-        inner = bound | {item.index} if isinstance(item, n.Sum) else bound
+        inner = bound | {item.index} if isinstance(item, en.Sum) else bound
         for child in reversed(list(iter_child_nodes(item))):
-            stack.append((child, item, inner if isinstance(item, n.Sum) and child is item.body
+            stack.append((child, item, inner if isinstance(item, en.Sum) and child is item.body
                           else bound))
-
-
-def _top(root) -> Iterator:
-    """The nodes and Idents of a field (tuples flattened), as ``walk`` reads them."""
-    if isinstance(root, tuple):
-        for item in root:
-            yield from _top(item)
-    elif isinstance(root, Ident) or is_dataclass(root):
-        yield root
 
 
 @dataclass(frozen=True)
@@ -200,13 +191,13 @@ def _role(name: Ident, parent, bound: frozenset) -> str:
     """What a name does where it stands: binds an index, calls, is expanded in, is read."""
     if _binds(name, parent):
         return "index"
-    if isinstance(parent, n.Apply) and name is parent.func:
+    if isinstance(parent, en.Apply) and name is parent.func:
         return "local call" if name in bound else "call"
     if name in bound:
         return "local"
-    if isinstance(parent, n.Expansion) and name is parent.variable:
+    if isinstance(parent, en.Expansion) and name is parent.variable:
         return "expansion variable"
-    return "expression" if isinstance(parent, n.Name) else "standalone"
+    return "expression" if isinstance(parent, en.Name) else "standalone"
 
 
 _ROLES = {

@@ -65,6 +65,9 @@ def _power(base, exp, order) -> list:
         return ["sqrt", _node(base, order)]
     if isinstance(exp, sympy.Rational) and exp.q == 2:
         return ["pow", ["sqrt", _node(base, order)], int(exp.p)]
+    if isinstance(exp, sympy.Rational) and exp.q > 2:  # a Cardano root: base^(p/q) = root(base, q)^p
+        root = ["root", _node(base, order), int(exp.q)]
+        return root if exp.p == 1 else ["pow", root, int(exp.p)]
     return ["pow", _node(base, order), int(exp)]
 
 

@@ -49,7 +49,7 @@ class ValueRecord:
     unknown_from: Optional[int] = None
 
 
-_ARITY = {"order": 1, "int": 1, "sym": 1, "cls": 1, "neg": 1, "sqrt": 1, "div": 2, "pow": 2}
+_ARITY = {"order": 1, "int": 1, "sym": 1, "cls": 1, "neg": 1, "sqrt": 1, "div": 2, "pow": 2, "root": 2}
 
 
 def valid_tree(tree, depth: int = 0) -> bool:
@@ -57,11 +57,11 @@ def valid_tree(tree, depth: int = 0) -> bool:
     if depth > 200 or not isinstance(tree, list) or not tree or tree[0] not in (*_ARITY, "add", "mul"):
         return False
     kind, args = tree[0], tree[1:]
-    if kind in ("int", "pow", "order"):
+    if kind in ("int", "pow", "order", "root"):
         number = args[-1] if args else None
         if type(number) is not int or number < 0 or len(args) != _ARITY[kind]:
             return False
-        return kind != "pow" or valid_tree(args[0], depth + 1)
+        return kind in ("int", "order") or valid_tree(args[0], depth + 1)
     if kind in ("sym", "cls"):
         return len(args) == 1 and isinstance(args[0], str)
     if kind in _ARITY and len(args) != _ARITY[kind]:

@@ -1,7 +1,7 @@
-"""Helpers shared by the test files: the command run in-process, small
-documents built through the engine, lookups in a JSON record, a hand-built
-Report for the renderer tests, bundle tables for the algebra tests,
-pdflatex, and the headless browser.  Fixtures built on these live in
+"""Helpers shared by the test files: the command run in-process, derive
+blocks parsed and their problems, small documents built through the engine,
+lookups in a JSON record, a hand-built Report for the renderer tests, bundle
+tables for the algebra tests, pdflatex, and the headless browser.  Fixtures built on these live in
 conftest.py.
 """
 from __future__ import annotations
@@ -12,6 +12,7 @@ import os
 import re
 import shutil
 import subprocess
+import textwrap
 from contextlib import redirect_stderr, redirect_stdout
 from dataclasses import dataclass
 from fractions import Fraction
@@ -21,7 +22,9 @@ import pytest
 
 from compiler import cli
 from compiler.engine import BuildOptions, build
+from compiler.errors import DocumentError
 from compiler.results import CheckResult, PlotData, Prose, Report, Step, TableData, ValueRecord
+from compiler.statements.parser import parse_block
 
 ROOT = Path(__file__).resolve().parent.parent
 DERIVATIONS = ROOT / "derivations"
@@ -68,6 +71,46 @@ def anomark(*args, cwd: Path = ROOT) -> Outcome:
 def visible(folder: Path) -> list[str]:
     """Names in ``folder``, leaving out hidden ones (the cache, temporaries)."""
     return sorted(p.name for p in folder.iterdir() if not p.name.startswith("."))
+
+
+# ---------------------------------------------------------------- derive blocks, parsed
+
+#: The format spec's declaration examples, verbatim, in an order that compiles
+#: (the surface fiber declares TS before the split that uses it).
+SPEC_DECLARATIONS = """\
+symbol N, k: integer, positive      # assumptions: integer, positive, nonnegative, real, nonzero
+symbol g: integer, g >= 2           # bounds: g >= 2, z > 0, 0 < x < 1
+symbol z: real, z > 0
+symbol eps: real
+convention angular_integral = 2     # default value; front matter or --set overrides it
+bundle T4: real, rank 4
+bundle T6: real, rank 6             # oriented real bundle: p1(T6) .. p3(T6), e(T6)
+bundle NW: real, rank 5             # p1(NW), p2(NW); odd rank, so no e(NW)
+bundle L1, L2: line                 # complex line bundles: c1(L1), c1(L2)
+bundle V: complex, rank 3           # c1(V) .. c3(V)
+fiber Sigma: surface, genus g, tangent TS
+split T6 = T4 + TS                  # Whitney sum (TS declared earlier, e.g. by a surface fiber)
+split NW = L1 + L2 + trivial(1)     # real rank 5 = two oriented planes + a trivial line
+"""
+
+
+def parse(text: str, first_line: int = 1):
+    """The statements of a derive block (dedented) that starts at ``first_line`` of doc.md."""
+    return parse_block(textwrap.dedent(text).strip("\n"), first_line, "doc.md")
+
+
+def parse_problems(text: str, first_line: int = 1) -> list[tuple[str, int, int, str]]:
+    """(path, line, column, message) of each problem of a block that does not parse."""
+    with pytest.raises(DocumentError) as info:
+        parse(text, first_line)
+    return [(p.location.path, p.location.line, p.location.column, p.message)
+            for p in info.value.problems]
+
+
+def parse_problem(text: str, first_line: int = 1) -> tuple[int, int, str]:
+    """(line, column, message) of the one problem of a block that does not parse."""
+    (found,) = parse_problems(text, first_line)
+    return found[1:]
 
 
 # ---------------------------------------------------------------- documents through the engine
@@ -193,22 +236,25 @@ def make_report(document: str = "derivations/twisted.md") -> Report:
 
 # ---------------------------------------------------------------- bundle tables
 
-def bundle_table(truncate: int = 12):
-    """A bundle table over a ring with no symbols (imported here, so a moved
-    algebra module breaks only the tests that use it)."""
+def bundle_table(truncate: int = 12, **bundles: str):
+    """A bundle table over a ring with no symbols, with ``bundles`` declared in
+    the order given as ``name="kind [rank]"`` (``NW="real 5"``, ``L="line"``).
+    The algebra is imported here, so a moved module breaks only the tests that
+    use it."""
     from compiler.algebra.bundles import BundleTable
     from compiler.algebra.graded import Ring
 
-    return BundleTable(Ring([], truncate))
+    table = BundleTable(Ring([], truncate))
+    for name, spec in bundles.items():
+        kind, *rank = spec.split()
+        table.declare(name, kind, *map(int, rank))
+    return table
 
 
 def whitney_sum(ranks):
     """Real bundles A0, A1, ... of the given ranks and B split as their sum."""
-    t = bundle_table()
     names = [f"A{k}" for k in range(len(ranks))]
-    for name, r in zip(names, ranks):
-        t.declare(name, "real", r)
-    t.declare("B", "real", sum(ranks))
+    t = bundle_table(**{name: f"real {r}" for name, r in zip(names, ranks)}, B=f"real {sum(ranks)}")
     t.split("B", names)
     return t, names
 

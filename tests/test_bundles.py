@@ -10,12 +10,7 @@ from compiler.algebra.graded import AlgebraError
 
 
 def test_generators_follow_rank_conventions():
-    t = table()
-    t.declare("T6", "real", 6)
-    t.declare("NW", "real", 5)
-    t.declare("TS", "real", 2)
-    t.declare("V", "complex", 3)
-    t.declare("L", "line")
+    t = table(T6="real 6", NW="real 5", TS="real 2", V="complex 3", L="line")
     assert t.get("T6").keys == ("p1(T6)", "p2(T6)", "p3(T6)", "e(T6)")
     assert t.get("NW").keys == ("p1(NW)", "p2(NW)")
     assert t.get("TS").keys == ("e(TS)",)
@@ -27,8 +22,7 @@ def test_generators_follow_rank_conventions():
 
 def test_euler_squared_is_top_pontryagin():
     # spec: for a real bundle of even rank 2n, e^2 is rewritten as p_n
-    t = table()
-    t.declare("T4", "real", 4)
+    t = table(T4="real 4")
     e, p2 = t.euler("T4"), t.pontryagin("T4", 2)
     assert e * e == p2
     assert e ** 3 == e * p2          # degree 12 survives truncation
@@ -37,16 +31,12 @@ def test_euler_squared_is_top_pontryagin():
 
 def test_plane_p1_is_e_squared():
     # spec: for an oriented plane p1 = e^2
-    t = table()
-    t.declare("TS", "real", 2)
+    t = table(TS="real 2")
     assert t.pontryagin("TS", 1) == t.euler("TS") ** 2
 
 
 def test_classes_beyond_rank_and_wrong_kind_are_errors():
-    t = table()
-    t.declare("NW", "real", 5)
-    t.declare("V", "complex", 3)
-    t.declare("R1", "real", 1)
+    t = table(NW="real 5", V="complex 3", R1="real 1")
     for bad in (lambda: t.pontryagin("NW", 3), lambda: t.euler("NW"), lambda: t.chern("NW", 1),
                 lambda: t.total_chern("NW"), lambda: t.chern("V", 4), lambda: t.pontryagin("V", 4),
                 lambda: t.pontryagin("R1", 1), lambda: t.pontryagin("NW", 0)):
@@ -64,8 +54,7 @@ def test_complex_bundle_pontryagin_and_euler():
     # Milnor–Stasheff, "Characteristic Classes", 1974, Cor. 15.5: sum (-1)^k p_k = c(V) c(dual V)
     # hence p1 = c1^2 - 2 c2, p2 = c2^2 - 2 c1 c3 + 2 c4; and e(V_R) = c_n (ibid. §14, where the
     # top Chern class is defined as the Euler class; from memory)
-    t = table(16)
-    t.declare("V", "complex", 4)
+    t = table(16, V="complex 4")
     c = [None] + [t.chern("V", k) for k in range(1, 5)]
     assert t.pontryagin("V", 1) == c[1] ** 2 - 2 * c[2]
     assert t.pontryagin("V", 2) == c[2] ** 2 - 2 * c[1] * c[3] + 2 * c[4]
@@ -76,10 +65,7 @@ def test_complex_bundle_pontryagin_and_euler():
 
 def test_split_rewrites_classes_in_the_parts():
     # spec example: split NW = L1 + L2 + trivial(1) gives p(NW) = (1 + c1(L1)^2)(1 + c1(L2)^2)
-    t = table()
-    t.declare("NW", "real", 5)
-    t.declare("L1", "line")
-    t.declare("L2", "line")
+    t = table(NW="real 5", L1="line", L2="line")
     t.split("NW", ["L1", "L2", Trivial(1)])
     x1, x2 = t.chern("L1", 1), t.chern("L2", 1)
     assert t.total_pontryagin("NW") == (1 + x1 ** 2) * (1 + x2 ** 2)
@@ -106,8 +92,7 @@ def test_split_euler_class():
 
 def test_split_complex_into_lines():
     # Milnor–Stasheff 1974, Whitney product formula (§14): c(V + W) = c(V) c(W)
-    t = table()
-    t.declare("V", "complex", 3)
+    t = table(V="complex 3")
     for k in (1, 2, 3):
         t.declare(f"L{k}", "line")
     t.split("V", ["L1", "L2", "L3"])
@@ -117,11 +102,7 @@ def test_split_complex_into_lines():
 
 
 def test_split_errors():
-    t = table()
-    t.declare("T6", "real", 6)
-    t.declare("T4", "real", 4)
-    t.declare("V", "complex", 2)
-    t.declare("L", "line")
+    t = table(T6="real 6", T4="real 4", V="complex 2", L="line")
     with pytest.raises(AlgebraError, match="do not add up"):
         t.split("T6", ["T4", Trivial(1)])
     with pytest.raises(AlgebraError, match="complex"):
@@ -142,12 +123,7 @@ def test_split_errors():
 
 
 def test_nested_split_uses_the_deepest_parts():
-    t = table()
-    t.declare("T6", "real", 6)
-    t.declare("T4", "real", 4)
-    t.declare("TS", "real", 2)
-    t.declare("L1", "line")
-    t.declare("L2", "line")
+    t = table(T6="real 6", T4="real 4", TS="real 2", L1="line", L2="line")
     t.split("T6", ["T4", "TS"])
     t.split("T4", ["L1", "L2"])
     assert t.euler("T6") == t.chern("L1", 1) * t.chern("L2", 1) * t.euler("TS")

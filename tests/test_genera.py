@@ -19,8 +19,7 @@ def pont(t, name):
 def test_ahat_through_degree_12():
     # Hirzebruch, "Topological Methods in Algebraic Geometry", 1966, §1.6 / Milnor–Stasheff 1974:
     # Â1 = -p1/24, Â2 = (7p1^2 - 4p2)/5760, Â3 = (-31p1^3 + 44p1p2 - 16p3)/967680
-    t = table()
-    t.declare("T", "real", 7)
+    t = table(T="real 7")
     p = pont(t, "T")
     a = ahat(t, "T")
     assert a.part(0) == 1
@@ -33,8 +32,7 @@ def test_ahat_through_degree_12():
 def test_l_through_degree_12():
     # Hirzebruch 1966, §1.5; Milnor–Stasheff 1974, §19:
     # L1 = p1/3, L2 = (7p2 - p1^2)/45, L3 = (62p3 - 13p1p2 + 2p1^3)/945
-    t = table()
-    t.declare("T", "real", 6)
+    t = table(T="real 6")
     p = pont(t, "T")
     L = hirzebruch_l(t, "T")
     assert L.part(4) == p[1] / 3
@@ -67,8 +65,7 @@ def test_sequences_match_the_one_root_series():
 def test_k3_surface():
     # common knowledge: the K3 surface has p1 = -48 (times the orientation class),
     # Â-genus 2 and signature -16 (Hirzebruch signature theorem, Hirzebruch 1966).
-    t = table(4)
-    t.declare("T", "real", 4)
+    t = table(4, T="real 4")
     ring = t.ring
     w = ring.generator("w", 4)
     sub = {"p1(T)": -48 * w}
@@ -79,8 +76,7 @@ def test_k3_surface():
 def test_cp2_todd_genus_and_signature():
     # common knowledge: CP^2 with c1 = 3h, c2 = 3h^2, h^3 = 0, integral of h^2 = 1 has
     # Todd genus 1 and signature 1 (p1 = c1^2 - 2c2 = 3h^2); Hirzebruch 1966.
-    t = table(4)
-    t.declare("T", "complex", 2)
+    t = table(4, T="complex 2")
     h = t.ring.generator("h", 2)
     sub = {"c1(T)": 3 * h, "c2(T)": 3 * h * h}
     assert todd(t, "T").substitute(sub).coefficient(h * h) == 1
@@ -90,8 +86,7 @@ def test_cp2_todd_genus_and_signature():
 
 def test_todd_of_line_bundle():
     # Hirzebruch 1966, §1.7: td = x/(1 - e^-x) = 1 + x/2 + x^2/12 - x^4/720 + x^6/30240
-    t = table()
-    t.declare("L", "line")
+    t = table(L="line")
     x = t.chern("L", 1)
     assert todd(t, "L") == 1 + x / 2 + x ** 2 / 12 - x ** 4 / 720 + x ** 6 / 30240
 
@@ -99,8 +94,7 @@ def test_todd_of_line_bundle():
 def test_spinor_times_ahat_is_rescaled_l():
     # common practice, no source: per root (x/2)/sinh(x/2) * 2cosh(x/2) = 2 (x/2)/tanh(x/2),
     # so [ch(S(B)) Â(B)]_{4k} = 2^m L_k(B) / 4^k for m = rank // 2.
-    t = table()
-    t.declare("T", "real", 6)
+    t = table(T="real 6")
     prod = BundleValue.spinor(t, "T").ch * ahat(t, "T")
     L = hirzebruch_l(t, "T")
     assert BundleValue.spinor(t, "T").rank == 8
@@ -110,18 +104,14 @@ def test_spinor_times_ahat_is_rescaled_l():
 
 def test_spinor_of_plane():
     # common practice, no source: ch(S) of an oriented plane is 2cosh(e/2)
-    t = table()
-    t.declare("P", "real", 2)
+    t = table(P="real 2")
     e = t.euler("P")
     assert BundleValue.spinor(t, "P").ch == 2 + e ** 2 / 4 + e ** 4 / 192 + e ** 6 / 23040
 
 
 def test_real_chern_character_is_of_the_complexification():
     # common practice, no source: a plane split as L has complexification L + dual(L)
-    t = table()
-    t.declare("B", "real", 5)
-    t.declare("L1", "line")
-    t.declare("L2", "line")
+    t = table(B="real 5", L1="line", L2="line")
     t.split("B", ["L1", "L2", Trivial(1)])
     ring = t.ring
     expected = ring.one()
@@ -140,8 +130,7 @@ def exp_series(ring, x):
 def test_constructions_on_split_bundles():
     # common practice, no source: splitting principle, roots of V = L1 + L2 + L3 are x_i;
     # wedge^2 has roots x_i + x_j (i < j), sym^2 has x_i + x_j (i <= j), V x dual V has x_i - x_j.
-    t = table()
-    t.declare("V", "complex", 3)
+    t = table(V="complex 3")
     for k in (1, 2, 3):
         t.declare(f"L{k}", "line")
     t.split("V", ["L1", "L2", "L3"])
@@ -161,9 +150,7 @@ def test_constructions_on_split_bundles():
 
 def test_nested_construction_wedge_of_sum():
     # common practice, no source: wedge^2(V + L) = wedge^2 V + V*L
-    t = table()
-    t.declare("V", "complex", 2)
-    t.declare("L", "line")
+    t = table(V="complex 2", L="line")
     v, l = BundleValue.of(t, "V"), BundleValue.of(t, "L")
     assert (v + l).wedge(2).ch == (v.wedge(2) + v * l).ch
     assert (v + l).sym(3).ch == (v.sym(3) + v.sym(2) * l + v * l.sym(2) + l.sym(3)).ch
@@ -203,6 +190,5 @@ def test_chern_character_additive_and_multiplicative(r1, r2):
 
 
 def test_truncation_of_genera():
-    t = table(8)
-    t.declare("T", "real", 8)
+    t = table(8, T="real 8")
     assert ahat(t, "T").degrees() == [0, 4, 8]

@@ -17,9 +17,9 @@ import pytest
 from compiler import calls, preambles
 from compiler.engine import BuildOptions, build
 from compiler.errors import DocumentError
-from compiler.statements import nodes as n
+from compiler.statements import expr_nodes as en, nodes as n
 from compiler.statements.parser import parse_block
-from support import ROOT, anomark, check_statuses, find_step
+from support import ROOT, anomark, check_statuses, find_step, parse_problem
 
 SETTLED = {"proven", "sampled"}
 
@@ -67,10 +67,10 @@ def test_define_parses_name_parameters_and_body():
 def test_calls_sums_and_expansions_parse_to_their_nodes():
     s = one("let y = f(x, 2) + sum(k^3, k = 1..N) + prod(k, k = 2..5)")
     kinds = [type(s.expr.left.left), type(s.expr.left.right), type(s.expr.right)]
-    assert kinds == [n.Apply, n.Sum, n.Sum]
+    assert kinds == [en.Apply, en.Sum, en.Sum]
     total = s.expr.left.right
-    assert (total.op, total.index, total.low, total.high) == ("sum", "k", n.Num(Fraction(1), 1, 32),
-                                                              n.Name("N", 1, 35))
+    assert (total.op, total.index, total.low, total.high) == ("sum", "k", en.Num(Fraction(1), 1, 32),
+                                                              en.Name("N", 1, 35))
     e = one("let y = series(a, N, 3) + leading(a, x = 1/2)").expr
     assert (e.left.op, e.left.variable, e.left.point, e.left.terms) == ("series", "N", None, 3)
     assert (e.right.op, e.right.point, e.right.terms) == ("leading", Fraction(1, 2), 1)
@@ -94,11 +94,9 @@ def test_use_parses_a_path_or_a_library_name():
     ("let y = series(a, N)", 20, "expected ','"),
 ])
 def test_malformed_forms_are_located(text, column, message):
-    with pytest.raises(DocumentError) as info:
-        parse_block(text, 1, "doc.md")
-    problem = info.value.problems[0]
-    assert (problem.location.line, problem.location.column) == (1, column)
-    assert problem.message.startswith(message), problem.message
+    line, col, found = parse_problem(text)
+    assert (line, col) == (1, column)
+    assert found.startswith(message), found
 
 
 # ---------------------------------------------------------------- functions

@@ -127,17 +127,24 @@ def test_projective_plane(lam, params):
         assert_checks_pass(checks)
 
 
-def test_projective_plane_cubic_against_the_equivariant_relation():
-    # H_T(CP^2) = Q[H, eps1, eps2] / (H (H - eps1)(H - eps2)) with H|_{p_i} = -λ_i, so
-    # H^3 = (eps1 + eps2) H^2 - eps1 eps2 H and ∫ H^3 = eps1 + eps2 (Atiyah and Bott
-    # 1984, the equivariant cohomology of projective space): a polynomial, reached
-    # only after dividing by the weights eps2 - eps1.
+def cp2_hyperplane(h_at_p2: int):
+    """CP^2 with the equivariant hyperplane class H: H|_{p0} = 0, H|_{p1} = -eps1 and
+    H|_{p2} = h_at_p2 * eps2 (-1 is the consistent value).  Returns (ring, eps1, eps2, fiber)."""
     points = cp2_points(TORUS_LAMBDA)
     ring = Ring([], 12)
     e1, e2 = gen(ring, "eps1"), gen(ring, "eps2")
     gen(ring, "H", 2, FIBER)
     fiber = localized_fiber("CP2", ring, FIBER, 4, ("eps1", "eps2"), points,
-                            {"H": {"p0": ring.zero(), "p1": -e1, "p2": -e2}})
+                            {"H": {"p0": ring.zero(), "p1": -e1, "p2": h_at_p2 * e2}})
+    return ring, e1, e2, fiber
+
+
+def test_projective_plane_cubic_against_the_equivariant_relation():
+    # H_T(CP^2) = Q[H, eps1, eps2] / (H (H - eps1)(H - eps2)) with H|_{p_i} = -λ_i, so
+    # H^3 = (eps1 + eps2) H^2 - eps1 eps2 H and ∫ H^3 = eps1 + eps2 (Atiyah and Bott
+    # 1984, the equivariant cohomology of projective space): a polynomial, reached
+    # only after dividing by the weights eps2 - eps1.
+    ring, e1, e2, fiber = cp2_hyperplane(h_at_p2=-1)
     result, checks = integrate(ring.gen("H") ** 3, fiber)
     assert result == -(e1 + e2)
     assert_checks_pass(checks)
@@ -146,12 +153,7 @@ def test_projective_plane_cubic_against_the_equivariant_relation():
 def test_projective_plane_with_inconsistent_moment_values():
     # A line bundle's restrictions must make ∫ H below the top degree vanish; H|_{p2}
     # with the wrong sign leaves the pole 2/(eps2 - eps1) (Atiyah and Bott 1984).
-    points = cp2_points(TORUS_LAMBDA)
-    ring = Ring([], 12)
-    e1, e2 = gen(ring, "eps1"), gen(ring, "eps2")
-    gen(ring, "H", 2, FIBER)
-    fiber = localized_fiber("CP2", ring, FIBER, 4, ("eps1", "eps2"), points,
-                            {"H": {"p0": ring.zero(), "p1": -e1, "p2": e2}})
+    ring, e1, e2, fiber = cp2_hyperplane(h_at_p2=1)
     failed = [c for c in consistency_checks(fiber) if not c.ok]
     assert [c.what for c in failed] == ["∫ H over CP2 vanishes (below its dimension)"]
     assert "p2: (eps2)" in failed[0].detail

@@ -53,24 +53,25 @@ def test_two_dimensional_chiral_and_fermi_multiplets(tmp_path, capsys):
 
 
 BAD = [
-    ("matter I: dimension 6, tangent T\n  hyper in (T, adjoint)", 7, "'T' is not a gauge bundle"),
-    ("matter I: dimension 4, tangent T\n  tensor", 7, "no field 'tensor' in 4 dimensions"),
-    ("matter I: dimension 6, tangent T, R_symmetry L\n  hyper", 7,
+    ("matter I: dimension 6, tangent T\n  hyper in (T, adjoint)", 11, "'T' is not a gauge bundle"),
+    ("matter I: dimension 4, tangent T\n  tensor", 11, "no field 'tensor' in 4 dimensions"),
+    ("matter I: dimension 6, tangent T, R_symmetry L\n  hyper", 10,
      "the R-symmetry of 6-dimensional multiplets is a gauge bundle of SU(2)"),
-    ("matter I: dimension 6, tangent T\n  selfdual+ in V", 7, "a self-dual form sits in no representation"),
-    ("matter I: dimension 6, tangent T\n  weyl+ charges V: 1", 7, "charges are under line bundles"),
-    ("matter I: dimension 6, tangent T\n  weyl+ p1(T)", 7, "a multiplicity is a number"),
-    ("bundle G: gauge SU(3)\nmatter I: dimension 6, tangent T\n  hyper in (G, spinor)", 8,
+    ("matter I: dimension 6, tangent T\n  selfdual+ in V", 11, "a self-dual form sits in no representation"),
+    ("matter I: dimension 6, tangent T\n  weyl+ charges V: 1", 11, "charges are under line bundles"),
+    ("matter I: dimension 6, tangent T\n  weyl+ p1(T)", 11, "a multiplicity is a number"),
+    ("bundle G: gauge SU(3)\nmatter I: dimension 6, tangent T\n  hyper in (G, spinor)", 12,
      "SU(3) has no spinor representation"),
 ]
 
 
 @pytest.mark.parametrize("body, line, message", BAD, ids=[b[2] for b in BAD])
-def test_bad_field_content_is_an_error_at_its_statement(tmp_path, capsys, body, line, message):
+def test_bad_field_content_is_an_error_at_its_field_line(tmp_path, capsys, body, line, message):
     head = "bundle T: real, rank 6\nbundle L: line\nbundle V: complex, rank 2\n"
     status, err, _ = build_snippet(tmp_path, capsys, head + body)
     assert status == 2, err
-    assert f"doc.md:{line + 3}:" in err and message in err, err
+    # line: where the problem is in the file (the header 10, its first field 11)
+    assert f"doc.md:{line}:" in err and message in err, err
 
 
 @pytest.mark.parametrize("body, message", [

@@ -3,19 +3,15 @@ docs/spec: "Statements" and "Precise rules → Lexing and grammar"; syntax
 rules of the format itself, so common practice, no source)."""
 from __future__ import annotations
 
-import textwrap
 from fractions import Fraction
 
 import pytest
 from hypothesis import given, settings, strategies as st
 
 from compiler.errors import DocumentError
-from compiler.statements import nodes as n, words
+from compiler.statements import clause_nodes as cn, expr_nodes as en, nodes as n, words
 from compiler.statements.parser import parse_block
-
-
-def parse(text: str, first_line: int = 1):
-    return parse_block(textwrap.dedent(text).strip("\n"), first_line, "doc.md")
+from support import SPEC_DECLARATIONS, parse, parse_problem, parse_problems
 
 
 def one(text: str, first_line: int = 1):
@@ -23,27 +19,15 @@ def one(text: str, first_line: int = 1):
     return statement
 
 
-def problems(text: str, first_line: int = 1):
-    with pytest.raises(DocumentError) as info:
-        parse(text, first_line)
-    return [(p.location.path, p.location.line, p.location.column, p.message)
-            for p in info.value.problems]
-
-
-def problem(text: str, first_line: int = 1):
-    (found,) = problems(text, first_line)
-    return found[1:]
-
-
 def show(e) -> str:
     """Fully parenthesised form, so the tree's shape is visible in one string."""
-    if isinstance(e, n.Num):
+    if isinstance(e, en.Num):
         return str(e.value)
-    if isinstance(e, n.Name):
+    if isinstance(e, en.Name):
         return e.id
-    if isinstance(e, n.Call):
+    if isinstance(e, en.Call):
         return f"{e.func}({', '.join(show(a) for a in e.args)})"
-    if isinstance(e, n.Unary):
+    if isinstance(e, en.Unary):
         return f"({e.op}{show(e.operand)})"
     return f"({show(e.left)} {e.op} {show(e.right)})"
 
@@ -87,18 +71,18 @@ def test_precedence_and_associativity(source, tree):
                                   "p1", "degree", "trivial", "over", "of", "modulo", "for", "in"])
 def test_bare_identifiers_are_always_names(word):
     e = one(f"let v = {word} + 1").expr
-    assert e.left == n.Name(word, 1, 9)
+    assert e.left == en.Name(word, 1, 9)
 
 
 def test_builtin_in_call_position_is_a_call():
     e = one("let v = L(T) + S(NW) + p(B) + c12(V) + Ahat(T)").expr
     calls = []
-    while isinstance(e, n.Binary):
+    while isinstance(e, en.Binary):
         calls.append(e.right)
         e = e.left
     calls.append(e)
     assert sorted(c.func for c in calls) == ["Ahat", "L", "S", "c12", "p"]
-    assert all(isinstance(c, n.Call) for c in calls)
+    assert all(isinstance(c, en.Call) for c in calls)
 
 
 def test_integers_are_exact_fractions():
@@ -113,9 +97,9 @@ def test_expression_positions():
     assert (e.left.left.line, e.left.left.column) == (7, 9)
     minus = e.right
     assert (minus.op, minus.column) == ("-", 22)
-    assert minus.left == n.Call("p2", (n.Name("NW", 7, 18),), 7, 15)
+    assert minus.left == en.Call("p2", (en.Name("NW", 7, 18),), 7, 15)
     power = minus.right
-    assert power.right == n.Num(Fraction(2), 7, 26)
+    assert power.right == en.Num(Fraction(2), 7, 26)
 
 
 # ---------------------------------------------------------------- lines
@@ -154,7 +138,7 @@ def test_open_bracket_continuation():
 
 
 def test_unclosed_bracket_stops_at_the_next_statement_word():
-    found = problems("""
+    found = parse_problems("""
         let a = (1 + 2
         let b = 3 3
     """)
@@ -167,12 +151,12 @@ def test_unclosed_bracket_stops_at_the_next_statement_word():
 def test_backslash_before_blank_line_ends_the_statement():
     a, b = parse("let a = 1 \\\n\nlet b = 2")
     assert (a.source, a.end_line, b.line) == ("let a = 1", 1, 3)
-    assert problem("let a = 1 + \\\n\nlet b = 2") == (
+    assert parse_problem("let a = 1 + \\\n\nlet b = 2") == (
         1, 12, "expected an expression, found end of line")
 
 
 def test_indented_line_outside_fiber_body_is_an_error():
-    assert problem("let a = 1\n  let b = 2") == (
+    assert parse_problem("let a = 1\n  let b = 2") == (
         2, 3, "unexpected indentation: only the body lines of a fiber ('dimension n', "
               "'fixed points' or 'spindle') or of 'matter' are indented")
 
@@ -191,8 +175,8 @@ def test_general_fiber_body():
     """, first_line=10)
     assert isinstance(f, n.GeneralFiber)
     assert (f.name, f.dimension, f.line, f.end_line) == ("F", 4, 10, 15)
-    assert f.classes == (n.FiberClass("x", 2, 11, 9), n.FiberClass("y", 2, 13, 9),
-                         n.FiberClass("z", 2, 13, 12))
+    assert f.classes == (cn.FiberClass("x", 2, 11, 9), cn.FiberClass("y", 2, 13, 9),
+                         cn.FiberClass("z", 2, 13, 12))
     assert [(show(r.lhs), r.rhs and show(r.rhs)) for r in f.relations] == [
         ("(x ^ 2)", "0"), ("(x * y)", None)]
     assert [(show(i.lhs), show(i.rhs)) for i in f.integrals] == [("(x * y)", "1"),
@@ -202,7 +186,7 @@ def test_general_fiber_body():
 
 
 def test_blank_line_ends_fiber_body():
-    assert problem("""
+    assert parse_problem("""
         fiber F: dimension 2
           class x: 2
 
@@ -223,11 +207,11 @@ def test_fiber_body_is_followed_by_statements():
 
 
 def test_body_after_surface_fiber_is_an_error():
-    assert problem("fiber S: surface, genus 2, tangent T\n  class x: 2")[:2] == (2, 3)
+    assert parse_problem("fiber S: surface, genus 2, tangent T\n  class x: 2")[:2] == (2, 3)
 
 
 def test_failed_fiber_header_hides_its_body():
-    assert problems("fiber F: dimension 0\n  class x: 2\n  bogus\nlet a = 1") == [
+    assert parse_problems("fiber F: dimension 0\n  class x: 2\n  bogus\nlet a = 1") == [
         ("doc.md", 1, 20, "the fiber dimension must be positive, not 0")]
 
 
@@ -238,17 +222,17 @@ def test_failed_fiber_header_hides_its_body():
     ("fiber F: dimension 2\n  integral x", (2, 13)),
 ])
 def test_fiber_body_errors(text, where):
-    assert problem(text)[:2] == where
+    assert parse_problem(text)[:2] == where
 
 
 def test_each_bad_body_line_is_reported():
-    found = problems("fiber F: dimension 2\n  clas x: 2\n  class y: -2")
+    found = parse_problems("fiber F: dimension 2\n  clas x: 2\n  class y: -2")
     assert [f[1:3] for f in found] == [(2, 3), (3, 12)]
     assert "did you mean 'class'" in found[0][3]
 
 
 def test_class_at_top_level_explains_itself():
-    assert problem("class x: 2")[2] == "'class' belongs in the indented body of a fiber"
+    assert parse_problem("class x: 2")[2] == "'class' belongs in the indented body of a fiber"
 
 
 # ---------------------------------------------------------------- statement forms
@@ -258,14 +242,14 @@ def test_symbol_forms():
     s = one("symbol N, k: integer, positive")
     assert (s.names, s.assumptions, s.bounds) == (("N", "k"), ("integer", "positive"), ())
     s = one("symbol g: integer, g >= 2")
-    assert s.bounds == (n.Bound("g", ">=", Fraction(2), 1, 20),)
+    assert s.bounds == (cn.Bound("g", ">=", Fraction(2), 1, 20),)
     s = one("symbol x: 0 < x < 1")
-    assert s.bounds == (n.Bound("x", ">", Fraction(0), 1, 11),
-                        n.Bound("x", "<", Fraction(1), 1, 11))
+    assert s.bounds == (cn.Bound("x", ">", Fraction(0), 1, 11),
+                        cn.Bound("x", "<", Fraction(1), 1, 11))
     s = one("symbol x: 1 >= x > -1/2")
     assert [(b.op, b.value) for b in s.bounds] == [("<=", 1), (">", Fraction(-1, 2))]
     s = one("symbol z: real, 2 <= z")
-    assert s.bounds == (n.Bound("z", ">=", Fraction(2), 1, 17),)
+    assert s.bounds == (cn.Bound("z", ">=", Fraction(2), 1, 17),)
     s = one("symbol eps")
     assert (s.names, s.assumptions, s.bounds, s.kind) == (("eps",), (), (), "symbol")
     s = one("symbol p, S, L, N")
@@ -291,16 +275,16 @@ def test_bundle_forms():
 def test_split():
     s = one("split NW = L1 + L2 + trivial(1)")
     assert s.bundle == "NW"
-    assert s.parts == (n.SplitPart("L1", None, 1, 12), n.SplitPart("L2", None, 1, 17),
-                       n.SplitPart(None, 1, 1, 22))
+    assert s.parts == (cn.SplitPart("L1", None, 1, 12), cn.SplitPart("L2", None, 1, 17),
+                       cn.SplitPart(None, 1, 1, 22))
     assert one("split T6 = T4 + TS").parts[1].name == "TS"
 
 
 def test_surface_and_sphere_fibers():
     f = one("fiber Sigma: surface, genus g, tangent TS")
-    assert (f.name, f.genus, f.tangent, f.kind) == ("Sigma", n.Name("g", 1, 29), "TS", "fiber")
+    assert (f.name, f.genus, f.tangent, f.kind) == ("Sigma", en.Name("g", 1, 29), "TS", "fiber")
     f = one("fiber C: surface, tangent TC, genus 0")
-    assert (f.genus, f.tangent) == (n.Num(Fraction(0), 1, 37), "TC")
+    assert (f.genus, f.tangent) == (en.Num(Fraction(0), 1, 37), "TC")
     f = one("fiber S4: sphere of NW, angular e4")
     assert (f.name, f.bundle, f.angular) == ("S4", "NW", "e4")
 
@@ -334,9 +318,9 @@ def test_extremize_forms():
     m = one("maximize a over eps -> eps_star, a_star")
     assert (m.mode, m.kind, m.point, m.value) == ("maximize", "maximize", ("eps_star",), "a_star")
     assert m.outputs == ("eps_star", "a_star")
-    assert m.variables == (n.Variable("eps", None, 1, 17),)
+    assert m.variables == (cn.Variable("eps", None, 1, 17),)
     m = one("minimize f over x in (-1, 1/2) -> x0, f0")
-    assert m.variables[0].interval == n.Interval(Fraction(-1), Fraction(1, 2), False, 1, 22)
+    assert m.variables[0].interval == cn.Interval(Fraction(-1), Fraction(1, 2), False, 1, 22)
     m = one("extremize f over x, y in (0, 1) -> (x0, y0), f0")
     assert [v.name for v in m.variables] == ["x", "y"]
     assert (m.variables[0].interval, m.variables[1].interval.high) == (None, 1)
@@ -350,10 +334,10 @@ def test_check_forms():
         assert one(f"check k {op} 0").op == op
     c = one("check k > 0 for N = 2..8, z = 1/2, g = -3..-1")
     assert c.clauses == (
-        n.ForClause("N", None, (2, 8), 1, 17),
-        n.ForClause("z", n.Binary("/", n.Num(Fraction(1), 1, 31), n.Num(Fraction(2), 1, 33),
+        cn.ForClause("N", None, (2, 8), 1, 17),
+        cn.ForClause("z", en.Binary("/", en.Num(Fraction(1), 1, 31), en.Num(Fraction(2), 1, 33),
                                   1, 32), None, 1, 27),
-        n.ForClause("g", None, (-3, -1), 1, 36),
+        cn.ForClause("g", None, (-3, -1), 1, 36),
     )
 
 
@@ -364,7 +348,7 @@ def test_show_table_plot():
     assert [c.name for c in t.clauses] == ["N", "g", "z"] and t.clauses[0].range == (2, 5)
     assert one("table a").clauses == ()
     p = one("plot a, b over z in 1/2..3 for N = 4, g = 3")
-    assert (p.variable, p.interval) == ("z", n.Interval(Fraction(1, 2), Fraction(3), True, 1, 21))
+    assert (p.variable, p.interval) == ("z", cn.Interval(Fraction(1, 2), Fraction(3), True, 1, 21))
     assert [c.name for c in p.clauses] == ["N", "g"]
     assert one("plot a over z in -1..1").clauses == ()
 
@@ -461,7 +445,7 @@ def test_every_statement_word_has_a_form():
                               "tangent T', 'sphere of B, angular e', 'dimension n', 'fixed "
                               "points, dimension n, rotation t', 'spindle a, b, rotation t')"),
     ("fiber S: surface, genus g", 1, 26, "expected ', tangent ...', found end of line"),
-    ("fiber S: surface, genus g, genus h, tangent T", 1, 28, "'genus' given twice"),
+    ("fiber S: surface, genus g, genus h, tangent T", 1, 28, "'genus' is given twice"),
     ("fiber S: sphere NW, angular e", 1, 17, "expected 'of', found 'NW'"),
     ("coefficients X of a, b -> k", 1, 24,
      "coefficients of 2 monomials needs 2 output names, found 1"),
@@ -494,7 +478,7 @@ def test_every_statement_word_has_a_form():
     ("let y = [1]", 1, 9, "square brackets are not used in expressions; use parentheses"),
 ])
 def test_errors_at_the_offending_token(text, line, column, message):
-    assert problem(text) == (line, column, message)
+    assert parse_problem(text) == (line, column, message)
 
 
 @pytest.mark.parametrize("text, column, start", [
@@ -511,16 +495,16 @@ def test_errors_at_the_offending_token(text, line, column, message):
     ("let y = sqrt(x) if x else y", 17, "unexpected 'if'"),
 ])
 def test_injection_attempts_are_clean_document_errors(text, column, start):
-    line, col, message = problem(text)
+    line, col, message = parse_problem(text)
     assert (line, col) == (1, column) and message.startswith(start)
 
 
 def test_inner_underscores_make_an_ordinary_name():
-    assert one("let y = a__b__").expr == n.Name("a__b__", 1, 9)
+    assert one("let y = a__b__").expr == en.Name("a__b__", 1, 9)
 
 
 def test_one_problem_per_bad_statement_and_parsing_goes_on():
-    found = problems("""
+    found = parse_problems("""
         let a = 0.5 + 0.25
         let b = 1
         lett c = 2
@@ -581,20 +565,7 @@ def test_pathological_nesting_and_length_are_document_errors(text):
 def test_the_spec_examples_parse():
     # Verbatim from the format spec's Declarations, Definitions, Operations,
     # Fibers, Checks and Display examples.
-    block = r"""
-symbol N, k: integer, positive      # assumptions: integer, positive, nonnegative, real, nonzero
-symbol g: integer, g >= 2           # bounds: g >= 2, z > 0, 0 < x < 1
-symbol z: real, z > 0
-symbol eps: real
-convention angular_integral = 2     # default value; front matter or --set overrides it
-bundle T4: real, rank 4
-bundle T6: real, rank 6             # oriented real bundle: p1(T6) .. p3(T6), e(T6)
-bundle NW: real, rank 5             # p1(NW), p2(NW); odd rank, so no e(NW)
-bundle L1, L2: line                 # complex line bundles: c1(L1), c1(L2)
-bundle V: complex, rank 3           # c1(V) .. c3(V)
-split T6 = T4 + TS                  # Whitney sum (TS declared earlier, e.g. by a surface fiber)
-split NW = L1 + L2 + trivial(1)     # real rank 5 = two oriented planes + a trivial line
-let I8_free = 1/48*(p2(NW) - p2(T6) + 1/4*(p1(T6) - p1(NW))^2)
+    block = SPEC_DECLARATIONS + r"""let I8_free = 1/48*(p2(NW) - p2(T6) + 1/4*(p1(T6) - p1(NW))^2)
 let I8 = (N - 1)*I8_free + (N^3 - N)/24*p2(NW)
 substitute I8: c1(L1) = (1 + eps)*c1(R) - p/(2*g - 2)*e(TS), \
                c1(L2) = (1 - eps)*c1(R) - q/(2*g - 2)*e(TS)  -> I8tw
@@ -604,7 +575,6 @@ coefficients I6 of c1(R)^3, c1(R)*p1(T4) -> kRRR, kR
 maximize a over eps -> eps_star, a_star
 minimize f over x -> x0, f0
 extremize f over x, y -> (x0, y0), f0
-fiber Sigma: surface, genus g, tangent TS
 fiber S4: sphere of NW, angular e4
 fiber F: dimension 2
   class x: 2
@@ -622,6 +592,6 @@ integrate e4^3 over S4 -> m
 """
     statements = parse_block(block.strip("\n"), 1, "doc.md")
     assert len(statements) == 33
-    assert [s.line for s in statements][:15] == list(range(1, 16))
-    assert statements[14].end_line == 16
+    assert [s.line for s in statements][:16] == list(range(1, 17))
+    assert statements[15].end_line == 17
     assert isinstance(statements[23], n.GeneralFiber) and statements[23].end_line == 28

@@ -13,6 +13,8 @@ import json
 import re
 from pathlib import Path
 
+import pytest
+
 from support import anomark
 
 
@@ -98,27 +100,22 @@ check L4 == p1(T4)/6
     assert check["detail"], check
 
 
-def test_wrong_degree_substitution_fails(tmp_path):
-    body = """
+@pytest.mark.parametrize("body, marker", [
+    # a degree-2 class replaced by a degree-4 one: the substitution's check fails
+    ("""
 bundle L1, R: line
 let X = c1(L1)^2
 substitute X: c1(L1) = c1(R)^2 -> Y
-"""
-    proc, text, path, record = build(tmp_path, body)
-    line = line_of(text, "substitute X")
-    assert proc.returncode == 1, proc.stderr
-    assert_located(proc, path, line)
-    assert failed_checks(step_at(record, line))
-
-
-def test_maximization_without_maximum_fails(tmp_path):
+""", "substitute X"),
     # x^2 has one critical point, a minimum: nothing to maximize
-    body = """
+    ("""
 symbol x: real
 maximize x^2 over x -> x0, f0
-"""
+""", "maximize"),
+])
+def test_failed_step_is_located(tmp_path, body, marker):
     proc, text, path, record = build(tmp_path, body)
-    line = line_of(text, "maximize")
+    line = line_of(text, marker)
     assert proc.returncode == 1, proc.stderr
     assert_located(proc, path, line)
     assert failed_checks(step_at(record, line))
@@ -158,24 +155,52 @@ check f0 == 2/3*b
 # ------------------------------------------------ documents that cannot compile (exit 2)
 
 
-def test_class_beyond_the_rank(tmp_path):
-    body = """
+@pytest.mark.parametrize("body, marker", [
+    # class beyond the rank
+    ("""
 bundle NW: real, rank 5
 let X = p3(NW)
-"""
-    proc, text, path, record = build(tmp_path, body)
-    assert proc.returncode == 2, proc.stderr
-    assert_located(proc, path, line_of(text, "p3(NW)"))
-
-
-def test_exponent_beyond_the_limit(tmp_path):
-    body = """
+""", "p3(NW)"),
+    # exponent beyond the limit
+    ("""
 bundle T: real, rank 4
 let X = (p1(T) + 1)^100000
-"""
+""", "100000"),
+    # integrating over an undeclared fiber
+    ("""
+bundle NW: real, rank 5
+integrate p2(NW) over S4 -> m
+""", "over S4"),
+    # sphere of an even rank bundle
+    ("""
+bundle T4: real, rank 4
+fiber S3: sphere of T4, angular e3
+""", "sphere of T4"),
+    # split whose ranks do not add up:
+    # a real rank-5 bundle is not two planes (rank 4); spec, Declarations:
+    # "a rank that does not add up is an error"
+    ("""
+bundle NW: real, rank 5
+bundle L1, L2: line
+split NW = L1 + L2
+""", "split NW"),
+    # fiber class left in a maximization:
+    # the author forgot to integrate over the surface: e(TS) is still there; spec,
+    # Operations: extremization acts on class-free expressions ("a polynomial with
+    # classes left in it is an error")
+    ("""
+symbol g: integer, g >= 2
+symbol eps: real
+bundle R: line
+fiber Sigma: surface, genus g, tangent TS
+let a = (1 - eps^2)*e(TS)*c1(R)^2
+maximize a over eps -> eps0, a0
+""", "maximize"),
+])
+def test_uncompilable_document_is_located(tmp_path, body, marker):
     proc, text, path, record = build(tmp_path, body)
     assert proc.returncode == 2, proc.stderr
-    assert_located(proc, path, line_of(text, "100000"))
+    assert_located(proc, path, line_of(text, marker))
 
 
 def test_decimal_is_a_parse_error_and_writes_nothing(tmp_path):
@@ -188,26 +213,6 @@ let y = 0.5*x
     assert_located(proc, path, line_of(text, "0.5"))
     assert record is None
     assert not (tmp_path / "out" / "bad.html").exists()
-
-
-def test_integrating_over_an_undeclared_fiber(tmp_path):
-    body = """
-bundle NW: real, rank 5
-integrate p2(NW) over S4 -> m
-"""
-    proc, text, path, record = build(tmp_path, body)
-    assert proc.returncode == 2, proc.stderr
-    assert_located(proc, path, line_of(text, "over S4"))
-
-
-def test_sphere_of_an_even_rank_bundle(tmp_path):
-    body = """
-bundle T4: real, rank 4
-fiber S3: sphere of T4, angular e3
-"""
-    proc, text, path, record = build(tmp_path, body)
-    assert proc.returncode == 2, proc.stderr
-    assert_located(proc, path, line_of(text, "sphere of T4"))
 
 
 def test_general_fiber_missing_an_integral(tmp_path):
@@ -223,36 +228,6 @@ fiber Q: dimension 4
     assert proc.returncode == 2, proc.stderr
     first = line_of(text, "fiber Q")
     assert_located(proc, path, *range(first, first + 5))
-
-
-def test_split_whose_ranks_do_not_add_up(tmp_path):
-    # a real rank-5 bundle is not two planes (rank 4); spec, Declarations:
-    # "a rank that does not add up is an error"
-    body = """
-bundle NW: real, rank 5
-bundle L1, L2: line
-split NW = L1 + L2
-"""
-    proc, text, path, record = build(tmp_path, body)
-    assert proc.returncode == 2, proc.stderr
-    assert_located(proc, path, line_of(text, "split NW"))
-
-
-def test_fiber_class_left_in_a_maximization(tmp_path):
-    # the author forgot to integrate over the surface: e(TS) is still there; spec,
-    # Operations: extremization acts on class-free expressions ("a polynomial with
-    # classes left in it is an error")
-    body = """
-symbol g: integer, g >= 2
-symbol eps: real
-bundle R: line
-fiber Sigma: surface, genus g, tangent TS
-let a = (1 - eps^2)*e(TS)*c1(R)^2
-maximize a over eps -> eps0, a0
-"""
-    proc, text, path, record = build(tmp_path, body)
-    assert proc.returncode == 2, proc.stderr
-    assert_located(proc, path, line_of(text, "maximize"))
 
 
 def test_later_uses_of_a_failed_value_are_reported_once(tmp_path):

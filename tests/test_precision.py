@@ -53,7 +53,7 @@ def test_msw_with_truncate_8_stops_at_the_unknown_six_form(tmp_path):
     report = msw(tmp_path, 8)
     assert "c_R" not in report.values  # never a silent c_R = 0
     shown = step(report, "integrate").values[0]
-    assert shown.text == "0 + O(degree >= 5)" and shown.unknown_from == 5
+    assert shown.text == "0" and shown.unknown_from == 5  # text reads back; the order term is display only
     read = step(report, "coefficients")
     assert read.status == "error"
     assert ("the coefficient of p1(R)*c1(L) reads degree 6 of a value that is exact only up to "
@@ -151,3 +151,13 @@ def test_coefficients_of_an_exact_zero_are_zero(tmp_path):
     report = derive(tmp_path, *DECLS, "let I = c1(L)^3 - c1(L)^3", "coefficients I of c1(L)^3 -> k",
                     "check k == 0")
     assert report.passed
+
+
+def test_the_json_record_says_where_a_value_stops_being_known(tmp_path):
+    from compiler.render.json import to_json
+    import json
+    record = json.loads(to_json(msw(tmp_path, 8)))
+    shown = record["steps"][[s["kind"] for s in record["steps"]].index("integrate")]
+    value = record["values"][shown["outputs"][0]]
+    assert value["text"] == "0" and value["unknown_from"] == 5
+    assert value["display"].endswith("O(degree >= 5)")

@@ -78,7 +78,7 @@ def test_punctuation_after_a_displayed_value_stays_with_it():
 def test_text_specials_escaped():
     assert escape_tex("50% & $x_1$ #{a}~^\\") == (
         r"50\% \& \$x\_1\$ \#\{a\}\textasciitilde{}\textasciicircum{}\textbackslash{}")
-    assert escape_tex("α ≤ β") == r"$\alpha$ $\leq$ $\beta$"
+    assert escape_tex("α ≤ β") == r"\ensuremath{\alpha} \ensuremath{\leq} \ensuremath{\beta}"
     tex = to_tex(make_report(), style="audit")
     assert "<script>" not in tex
     assert r"Beware \textless{}script\textgreater{}alert(1)" in tex

@@ -16,7 +16,7 @@ from pathlib import Path
 
 import pytest
 
-from support import LOCATION
+from support import LOCATION, SPEC_DECLARATIONS
 
 
 class Built:
@@ -60,22 +60,6 @@ def doc(body: str, front: str = "") -> str:
 
 
 # ------------------------------------------------------------ spec examples
-
-SPEC_DECLARATIONS = """\
-symbol N, k: integer, positive      # assumptions: integer, positive, nonnegative, real, nonzero
-symbol g: integer, g >= 2           # bounds: g >= 2, z > 0, 0 < x < 1
-symbol z: real, z > 0
-symbol eps: real
-convention angular_integral = 2     # default value; front matter or --set overrides it
-bundle T4: real, rank 4
-bundle T6: real, rank 6             # oriented real bundle: p1(T6) .. p3(T6), e(T6)
-bundle NW: real, rank 5             # p1(NW), p2(NW); odd rank, so no e(NW)
-bundle L1, L2: line                 # complex line bundles: c1(L1), c1(L2)
-bundle V: complex, rank 3           # c1(V) .. c3(V)
-fiber Sigma: surface, genus g, tangent TS
-split T6 = T4 + TS                  # Whitney sum (TS declared earlier, e.g. by a surface fiber)
-split NW = L1 + L2 + trivial(1)     # real rank 5 = two oriented planes + a trivial line
-"""
 
 
 def test_spec_declarations_definitions_and_operations_verbatim(run):

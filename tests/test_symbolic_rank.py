@@ -72,22 +72,17 @@ REAL_CASES = {
 }
 
 
+CASES = {"complex": COMPLEX_CASES, "real": REAL_CASES}
+
+
 @pytest.mark.parametrize("n", [1, 2, 3, 4])
-@pytest.mark.parametrize("case", sorted(COMPLEX_CASES))
-def test_complex_symbolic_rank_agrees_with_numeric_rank(n, case):
+@pytest.mark.parametrize("kind, case", [(kind, case) for kind in CASES for case in sorted(CASES[kind])])
+def test_symbolic_rank_agrees_with_numeric_rank(n, kind, case):
     # common practice, no source: one formula for every rank must agree with the
-    # numeric-rank computation (Chern roots, Newton's identities) at each rank.
-    t = pair(n, "complex")
-    f = COMPLEX_CASES[case]
-    assert at_rank(t, f(t, "V"), n) == f(t, "W")
-
-
-@pytest.mark.parametrize("n", [1, 2, 3, 4])
-@pytest.mark.parametrize("case", sorted(REAL_CASES))
-def test_real_symbolic_rank_agrees_with_numeric_rank(n, case):
-    # common practice, no source: as above for real bundles (complexified in ch).
-    t = pair(n, "real")
-    f = REAL_CASES[case]
+    # numeric-rank computation (Chern roots, Newton's identities) at each rank;
+    # real bundles are complexified in ch.
+    t = pair(n, kind)
+    f = CASES[kind][case]
     assert at_rank(t, f(t, "V"), n) == f(t, "W")
 
 

@@ -8,6 +8,7 @@ by class monomial unpack once and keep the result (``_t``, ``_den``).
 """
 from __future__ import annotations
 
+import math
 from fractions import Fraction
 from typing import Mapping
 
@@ -16,9 +17,14 @@ from .errors import AlgebraError, LimitError
 from .monomials import Mono
 
 #: Most terms (over classes and symbols together) a product may have.
-MAX_TERMS = 200_000
+MAX_TERMS = 20_000
 #: Most term pairs multiplied in one product (after skipping truncated components).
 MAX_PRODUCT = 20_000_000
+#: Digits of the numerator or denominator of any number in a value, as for the
+#: lexer's number literals: a power is refused before it is computed if its
+#: numbers would grow past this, and a value past it cannot be shown.
+MAX_DIGITS = 4000
+_BITS_PER_DIGIT = math.log2(10)
 
 
 class Element:
@@ -139,7 +145,10 @@ class Element:
                 return R.one() if n == 0 else a
             for poly in (a._p, a._d):
                 R.coeffs.check_power_size(poly, n, MAX_TERMS)
+                _check_digits([poly], n)
             return Element(R, *L.cancel(a._p ** n, a._d ** n))
+        if () in a._t:  # a^n keeps the n-th power of the constant term, whatever the truncation
+            _check_digits([a._t[()], a._den], n)
         low = min(k for k, _ in L.degree_parts(a._p))
         if n * low > R.truncate:
             return R.zero()
@@ -347,6 +356,7 @@ class Element:
     # ------------------------------------------------------------ printing
     def _printed_terms(self):
         a = self._fresh()
+        _check_digits([a._p, a._d])
         C = a._ring.coeffs
         return [(m, printing.scalar_parts(C, c, a._den)) for m, c in a._sorted()]
 
@@ -363,10 +373,27 @@ class Element:
         return serial.to_data(a._ring, a._sorted(), a._den)
 
 
+def _bits(c) -> int:
+    """Bits of the larger of a rational's numerator and denominator."""
+    return max(int(c.p).bit_length(), int(c.q).bit_length())
+
+
+def _check_digits(polys, n: int = 1) -> None:
+    """Refuse numbers past MAX_DIGITS: those of ``polys``, or (with ``n``) the
+    ones their n-th powers certainly hold, the n-th powers of the leading
+    coefficients (a number of b bits is at least 2^(b-1))."""
+    coefficients = [c for p in polys for c in (p.coeffs() if n == 1 else p.coeffs()[:1])]
+    bits = n * max((_bits(c) - 1 for c in coefficients), default=0)
+    if bits >= MAX_DIGITS * _BITS_PER_DIGIT:
+        what = "a number in the value is" if n == 1 else f"the power to the {n} would hold a number"
+        raise LimitError(f"{what} about {int(bits / _BITS_PER_DIGIT)} digits long "
+                         f"(the limit is {MAX_DIGITS} digits)")
+
+
 def _capped(p):
     if len(p) > MAX_TERMS:
-        raise LimitError(f"a product grew beyond {MAX_TERMS} terms; simplify the input "
-                         f"or lower truncate")
+        raise LimitError(f"a product grew beyond {MAX_TERMS} terms (the term limit); "
+                         f"simplify the input or lower truncate")
     return p
 
 

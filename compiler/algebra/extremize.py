@@ -11,6 +11,7 @@ range or says why there is no single answer.
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from fractions import Fraction
 from typing import Sequence
@@ -27,6 +28,10 @@ from .sampling import SymbolSpec, describe_point, evaluate
 from .signs import SignOracle
 
 MODES = ("maximize", "minimize", "extremize")
+#: Most critical points solved for, bounded by the product of the degrees of
+#: the critical-point equations (Bezout), checked before solving: roots of
+#: high degree take minutes.  Anomark's own choice (common practice, no source).
+MAX_CRITICAL_DEGREE = 8
 
 
 class ExtremizeError(ValueError):
@@ -122,6 +127,11 @@ class _Problem:
         """Closed-form critical points (poles dropped) and implicit components."""
         self.numerators = [sympy.numer(sympy.together(sympy.diff(self.g, v))) for v in self.vars]
         self.system = [sympy.Poly(p, *self.vars, *self.param_symbols) for p in self.numerators]
+        bound = math.prod(max(sympy.Poly(p, *self.vars).total_degree(), 1) for p in self.numerators)
+        if bound > MAX_CRITICAL_DEGREE:
+            raise ExtremizeError(f"the critical-point equations of {self.name} have degree {bound} "
+                                 f"in {', '.join(map(str, self.vars))}; at most {MAX_CRITICAL_DEGREE} "
+                                 f"is solved (the extremization degree limit)")
         try:
             found = critical_components(self.numerators, self.vars, self.param_symbols)
         except FamilyError:
@@ -140,7 +150,11 @@ class _Problem:
                 continue  # a pole, not a critical point
             closed.append(_Candidate(tuple(self.tidy(c) for c in comp.coords),
                                      [sympy.together(m.xreplace(at)) for m in self.minor_exprs]))
-        return closed, [c for c in found if isinstance(c, Implicit)]
+        # Numbers off the real line are no candidates (the variables are real), unless
+        # nothing else is left: that case is reported as complex critical points.
+        real = [c for c in closed if not all(x.is_number for x in c.coords)
+                or all(is_real(sympy.N(x, 50)) for x in c.coords)]
+        return real or closed, [c for c in found if isinstance(c, Implicit)]
 
     def admissible_pattern(self, minors_signs: list, sign_c: int) -> bool | None:
         """Whether signs of g's minors, scaled by the sign of the content, fit

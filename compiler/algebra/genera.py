@@ -26,11 +26,14 @@ from fractions import Fraction
 from functools import lru_cache
 from math import comb, factorial
 
-from . import symbolic_rank
+from . import budget, symbolic_rank
 from .bundles import COMPLEX, BundleTable
 from .graded import AlgebraError, Element
 
 MAX_POWER = 100  # largest k in sym(V, k): Newton's recursion costs O(k^2) products
+#: Term pairs those k^2/2 products may multiply, estimated before they start
+#: (about two seconds of work): a large k on a large Chern character is refused.
+MAX_POWER_PAIRS = 200_000_000
 
 
 # ------------------------------------------------------------ power series
@@ -115,16 +118,19 @@ def multiplicative_sequence(series: str, n: int) -> tuple[Fraction, tuple[dict, 
     """(q_0, [K_0, ..., K_n]): prod_i Q(z_i) = q_0^m * sum_j K_j(sigma) for m roots."""
     q0, log = log_coefficients(series, n)
     s = _power_sums(n)
-    y: dict = {}
-    for k in range(1, n + 1):
-        y = _padd(y, s[k], log[k])
-    one = {tuple([0] * n): Fraction(1)}
-    total, term = dict(one), dict(one)
-    for j in range(1, n + 1):
-        term = {e: c / j for e, c in _pmul(term, y, n).items()}
-        total = _padd(total, term)
-    parts = tuple({e: c for e, c in total.items() if _weight(e) == w} for w in range(n + 1))
-    return q0, parts
+    # exp of y = sum_k log_k s_k, one weight at a time: with y_k = log_k s_k of
+    # weight k, the weight-w part of exp(y) is (1/w) sum_k k y_k K_{w-k}, which
+    # multiplies homogeneous parts only (far cheaper than the powers of y).
+    parts = [{tuple([0] * n): Fraction(1)}]
+    for w in range(1, n + 1):
+        budget.check()
+        part: dict = {}
+        for k in range(1, w + 1):
+            scale = log[k] * Fraction(k, w)
+            for e, c in _pmul(s[k], parts[w - k], n).items():
+                part[e] = part.get(e, 0) + scale * c
+        parts.append({e: c for e, c in part.items() if c})
+    return q0, tuple(parts)
 
 
 def _evaluate(poly_parts, sigmas: list[Element], one: Element) -> Element:
@@ -138,6 +144,7 @@ def _evaluate(poly_parts, sigmas: list[Element], one: Element) -> Element:
 
     total = one.ring.zero()
     for part in poly_parts:
+        budget.check()
         for exps, c in part.items():
             if any(e and k >= len(sigmas) for k, e in enumerate(exps)):
                 continue
@@ -285,6 +292,10 @@ class BundleValue:
             return BundleValue(0, one.ring.zero())
         if k > MAX_POWER:
             raise AlgebraError(f"{what}(V, {k}): k is limited to {MAX_POWER}")
+        pairs = k * (k + 1) // 2 * len(self.ch.terms()) ** 2
+        if pairs > MAX_POWER_PAIRS:
+            raise AlgebraError(f"{what}(V, {k}) would multiply about {pairs} term pairs (the limit "
+                               f"is {MAX_POWER_PAIRS}); lower k or truncate")
         psi = [None] + [self.adams(j) for j in range(1, k + 1)]
         powers = [one]
         for m in range(1, k + 1):

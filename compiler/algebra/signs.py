@@ -71,14 +71,8 @@ class SignOracle:
         expr = sympy.together(expr)
         if expr.is_zero or sympy.expand(expr) == 0:
             return 0
-        for form in self._forms(expr):
-            if form.is_positive:
-                return 1
-            if form.is_negative:
-                return -1
-            if form.is_zero:
-                return 0
-        return self._radical_sign(expr)
+        decided = self._form_sign(expr)
+        return decided if decided is not None else self._radical_sign(expr)
 
     def is_real(self, expr: sympy.Expr) -> bool | None:
         """True/False when every even root has a decided sign; None otherwise
@@ -159,6 +153,10 @@ class SignOracle:
             return None
         if expr == 0:
             return 0
+        return self._form_sign(expr)
+
+    def _form_sign(self, expr):
+        """The sign sympy decides on the first of the forms that tells, or None."""
         for form in self._forms(expr):
             if form.is_positive:
                 return 1

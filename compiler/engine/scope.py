@@ -17,6 +17,7 @@ import sympy
 
 from .. import names as names_pass, notation
 from ..algebra import bundles as bundles_mod
+from ..algebra.errors import AlgebraError
 from ..algebra.graded import Element, Ring
 from ..algebra.sampling import SymbolSpec, describe_point
 from ..checks import Context
@@ -33,6 +34,9 @@ from .symbols import document_region
 
 #: Most points a ``for`` list may expand to (every combination is computed).
 MAX_POINTS = 10_000
+#: Characters of value text a report may show in all (each value is printed
+#: as text, LaTeX and MathML; the largest bundled document shows about 5 000).
+MAX_SHOWN = 100_000
 
 
 @dataclass
@@ -66,13 +70,17 @@ class DocScope(Scope):
         self.class_uses: dict[str, int] = {}
         self.evaluator = Evaluator(self, path)
         self.keys: dict[str, str] = {}
+        self.shown = 0  # characters of value text shown so far (MAX_SHOWN)
         # The declarations so far (symbols, bundles, splits, fibers), the
         # conventions and the truncation: the ring every value lives in.
         self.ring_key = digest("ring", self.ring.truncate, sorted(self.report_conventions().items()),
                                [d.source for d in statements if isinstance(d, n.SymbolDecl)])
         self.step_key = self.ring_key
         for name, value in self.conventions.items():  # final values, in force from the start
-            self.bind(name, "convention", self.ring.scalar(value), 0)
+            try:
+                self.bind(name, "convention", self.ring.scalar(value), 0)
+            except AlgebraError as exc:  # a --set value past the digit limit
+                raise DocumentError(Location(path, 1, 1), f"convention {name}: {exc}") from None
 
     def report_conventions(self) -> dict[str, str]:
         return {k: fraction_text(v) for k, v in sorted(self.conventions.items())}
@@ -105,9 +113,14 @@ class DocScope(Scope):
         self.bindings[name] = Binding(kind, value, line, exact_to)
         self.keys[name] = key or self.value_key(name, kind, value, exact_to)
         if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
-            if shown is None:
+            computed = shown is None
+            if computed:
                 shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value,
                                unknown_above(exact_to, self.ring.truncate))
+            self.shown += len(shown.text)
+            if computed and self.shown > MAX_SHOWN:
+                raise AlgebraError(f"the values shown would pass {MAX_SHOWN} characters of text "
+                                   f"(the limit on report size; '{name}' alone has {len(shown.text)})")
             self.history.setdefault(name, []).append((line, shown))
 
     def bind_missing(self, names, line: int) -> None:
@@ -238,11 +251,11 @@ def record(name: str, value: Value, unknown_from: int | None = None,
     """A value as the renderers see it: normal-form text, display tree (in
     ``form``, see ``display_tree``) and its LaTeX; ``unknown_from`` is the
     degree from which it is not known (shown as an order term, like a
-    series' O(x^n))."""
+    series' O(x^n), in the display; the normal-form text stays what the
+    parser reads back)."""
     tree = display_tree(value, form, symbol)
     text = value.to_text() if isinstance(value, Element) else notation.text(value)
     degrees = value.degrees() if isinstance(value, Element) else [] if value == 0 else [0]
     if unknown_from is not None:
         tree = ["add", *(tree[1:] if tree[0] == "add" else [tree]), ["order", unknown_from]]
-        text += f" + O(degree >= {unknown_from})"
     return ValueRecord(name, text, LatexPrinter().doprint(tree), degrees, tree, unknown_from)

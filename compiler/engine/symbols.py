@@ -15,27 +15,27 @@ import sympy
 
 from ..algebra.region import Region, build_region
 from ..errors import DocumentError, Location
-from ..statements import nodes as n
+from ..statements import clause_nodes as cn, expr_nodes as en, nodes as n
 
 _LINEAR = {"+": operator.add, "-": operator.sub, "*": operator.mul, "/": operator.truediv}
 
 
 def linear_form(node) -> sympy.Expr:
     """One side of a relation as a sympy expression (its symbols plain, by name)."""
-    if isinstance(node, n.Num):
+    if isinstance(node, en.Num):
         return sympy.Rational(node.value.numerator, node.value.denominator)
-    if isinstance(node, n.Name):
+    if isinstance(node, en.Name):
         return sympy.Symbol(str(node.id))
-    if isinstance(node, n.Unary):
+    if isinstance(node, en.Unary):
         side = linear_form(node.operand)
         return -side if node.op == "-" else side
-    if isinstance(node, n.Binary) and node.op in _LINEAR:
+    if isinstance(node, en.Binary) and node.op in _LINEAR:
         return _LINEAR[node.op](linear_form(node.left), linear_form(node.right))
     raise DocumentError(Location("", node.line, node.column),
                         "a relation between symbols is linear in them")
 
 
-def _latest(names, relation: n.Relation) -> str:
+def _latest(names, relation: cn.Relation) -> str:
     """The name of the declaration a relation belongs to: the last one of
     the statement's names that it mentions."""
     mentioned = linear_form(relation.lhs).free_symbols | linear_form(relation.rhs).free_symbols

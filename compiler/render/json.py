@@ -15,9 +15,14 @@ from compiler.results import STATUSES, CheckResult, PlotData, Report, Step, Tabl
 
 def _value(v: ValueRecord) -> dict:
     """``text`` is the normal form (what diffs compare), ``display`` the form
-    a reader sees, in the same syntax; both read back to the same value."""
-    return {"text": v.text, "display": TextPrinter().doprint(v.tree), "latex": v.latex,
-            "degrees": list(v.degrees)}
+    a reader sees, in the same syntax; ``text`` always reads back to the
+    value.  A value known only below some form degree (a truncation dropped
+    the rest) says so in ``unknown_from``; its display ends in an order term."""
+    out = {"text": v.text, "display": TextPrinter().doprint(v.tree), "latex": v.latex,
+           "degrees": list(v.degrees)}
+    if v.unknown_from is not None:
+        out["unknown_from"] = v.unknown_from
+    return out
 
 
 def _check(c: CheckResult) -> dict:

@@ -28,6 +28,8 @@ from __future__ import annotations
 
 import re
 
+from compiler.texsafe import math_problem
+
 GREEK = {
     "alpha": "α", "beta": "β", "gamma": "γ", "delta": "δ", "epsilon": "ϵ", "varepsilon": "ε",
     "zeta": "ζ", "eta": "η", "theta": "θ", "iota": "ι", "kappa": "κ", "lambda": "λ", "mu": "μ",
@@ -126,7 +128,9 @@ _TEX_TOKEN = re.compile(r"\\([A-Za-z]+)|\\(.)|([A-Za-z0-9_^{}()\[\],.+\-*/'= |:;
 def check_tex(latex: str) -> str | None:
     """Why ``latex`` is outside the subset, or None when it is inside.
 
-    Braces must balance, so an override cannot close a group it did not open.
+    Braces must balance, so an override cannot close a group it did not open;
+    what passes goes through the one math whitelist too (``texsafe``), of
+    which the subset is a part, so it also typesets.
     """
     depth = 0
     for m in _TEX_TOKEN.finditer(latex):
@@ -140,4 +144,7 @@ def check_tex(latex: str) -> str | None:
         depth += {"{": 1, "}": -1}.get(plain, 0)
         if depth < 0:
             return "unbalanced braces in notation"
-    return "unbalanced braces in notation" if depth else None
+    if depth:
+        return "unbalanced braces in notation"
+    found = math_problem(latex)
+    return None if found is None else found[1]

@@ -7,9 +7,14 @@ unchanged document gives the same files; the SVG is cut down to a bare
 """
 from __future__ import annotations
 
+import atexit
 import hashlib
 import io
+import os
 import re
+import shutil
+import sys
+import tempfile
 
 from compiler.render.notation import name_tree
 from compiler.render.printers import LatexPrinter
@@ -29,10 +34,22 @@ def _label(plot: PlotData, notation: dict[str, str]) -> str:
     return ", ".join(f"{_name(k, notation)} = {v}" for k, v in plot.fixed.items())
 
 
+def _matplotlib():
+    """matplotlib, imported on first use with its config folder (font cache, rc
+    file) in a temporary folder removed at exit: it writes nothing under $HOME
+    and no user rc file changes the plots."""
+    if "matplotlib" not in sys.modules:
+        folder = tempfile.mkdtemp(prefix="anomark-matplotlib-")
+        atexit.register(shutil.rmtree, folder, ignore_errors=True)
+        os.environ["MPLCONFIGDIR"] = folder
+    import matplotlib
+    return matplotlib
+
+
 def _draw(plot: PlotData, fmt: str, metadata: dict, notation: dict[str, str]) -> bytes:
     """Render ``plot`` in ``fmt``; the id salt is a digest of the plot itself,
     so two plots in one page do not share element ids yet each is reproducible."""
-    import matplotlib
+    matplotlib = _matplotlib()
     from matplotlib.figure import Figure
 
     salt = hashlib.sha256(repr((plot.variable, plot.fixed, plot.curves)).encode()).hexdigest()[:12]

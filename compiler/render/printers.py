@@ -17,7 +17,7 @@ from compiler.render.notation import GREEK, name_tree
 
 #: Binding strength of each kind: a child binding more loosely than its
 #: parent needs brackets.
-_PRECEDENCE = {"add": 1, "neg": 1, "mul": 2, "div": 2, "pow": 3}
+_PRECEDENCE = {"add": 1, "neg": 1, "mul": 2, "div": 2, "pow": 3, "root": 3}
 _ATOM = 4
 
 
@@ -99,6 +99,9 @@ class TextPrinter(Printer):
     def _print_sqrt(self, arg) -> str:
         return f"sqrt({self.doprint(arg)})"
 
+    def _print_root(self, base, n: int) -> str:
+        return f"{self.wrap(base, _ATOM)}^(1/{n})"
+
     def _print_order(self, degree: int) -> str:
         return f"O(degree >= {degree})"
 
@@ -135,6 +138,9 @@ class LatexPrinter(Printer):
 
     def _print_sqrt(self, arg) -> str:
         return rf"\sqrt{{{self.doprint(arg)}}}"
+
+    def _print_root(self, base, n: int) -> str:
+        return rf"\sqrt[{n}]{{{self.doprint(base)}}}"
 
     def _print_order(self, degree: int) -> str:
         return rf"\mathcal{{O}}(\deg \geq {degree})"
@@ -219,6 +225,9 @@ class MathMLPrinter(Printer):
 
     def _print_sqrt(self, arg) -> str:
         return f"<msqrt>{self.doprint(arg)}</msqrt>"
+
+    def _print_root(self, base, n: int) -> str:
+        return f"<mroot><mrow>{self.doprint(base)}</mrow><mn>{n}</mn></mroot>"
 
     def _print_order(self, degree: int) -> str:
         return (f'<mrow><mi>\U0001d4aa</mi><mo stretchy="false">(</mo><mi>deg</mi><mo>\u2265</mo>'

@@ -20,8 +20,9 @@ from compiler.render.claims import claim_latex
 from compiler.render.notation import name_tree
 from compiler.render.printers import LatexPrinter, lines
 from compiler.render.templates import loader
-from compiler.render.texprose import WIDTH, code_lines, escape_code, escape_detail, escape_tex, prose_tex
+from compiler.render.texprose import WIDTH, code_lines, escape_detail, escape_tex, prose_tex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
+from compiler.texsafe import escape_code, file_name
 
 STYLES = ("appendix", "audit")
 #: Statements that only declare: the appendix leaves them out.
@@ -70,7 +71,7 @@ def _tabular(step: Step, printer: LatexPrinter) -> str:
 
 def plot_name(report: Report, number: int) -> str:
     """The file name of the ``number``-th plot, beside the ``.tex`` file."""
-    return f"{Path(report.document).stem}-plot-{number}.pdf"
+    return file_name(f"{Path(report.document).stem}-plot-{number}.pdf")
 
 
 def _plots(report: Report) -> dict[int, PlotData]:

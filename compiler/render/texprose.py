@@ -10,46 +10,19 @@ printers.
 from __future__ import annotations
 
 import re
-import unicodedata
 from typing import Callable
 
 from compiler.errors import InternalError
 from compiler.markdown import expand_refs, make_markdown
 from compiler.render.printers import LatexPrinter, lines
 from compiler.results import ValueRecord
+from compiler.texsafe import escape_code, escape_text, math_tex
 
 #: Printed characters per displayed line (fits a 345pt article text width).
 WIDTH = 46
 #: A value wider than this in prose is set as a display: TeX cannot break
 #: a line inside a fraction.
 LONG_INLINE = 24
-
-_TEXT_SPECIALS = {
-    "\\": r"\textbackslash{}", "&": r"\&", "%": r"\%", "$": r"\$", "#": r"\#",
-    "_": r"\_", "{": r"\{", "}": r"\}", "~": r"\textasciitilde{}",
-    "^": r"\textasciicircum{}", "<": r"\textless{}", ">": r"\textgreater{}",
-    "|": r"\textbar{}", "\u00a0": "~", "\u2026": r"\dots{}",
-    "\u201c": "``", "\u201d": "''", "\u2018": "`", "\u2019": "'", "\u2013": "--", "\u2014": "---",
-}
-# Characters a physicist types in prose that the default encoding lacks.
-_MATH_CHARS = {
-    "\u2212": "-", "\u00d7": r"\times", "\u00b7": r"\cdot", "\u2264": r"\leq",
-    "\u2265": r"\geq", "\u2260": r"\neq", "\u2192": r"\to", "\u222b": r"\int",
-    "\u221e": r"\infty", "\u2248": r"\approx", "\u00b1": r"\pm", "\u2211": r"\sum",
-    "\u2202": r"\partial", "\u2297": r"\otimes", "\u2295": r"\oplus",
-    "\u03b5": r"\varepsilon", "\u03c6": r"\varphi",
-}
-_GREEK_WORDS = ("alpha beta gamma delta zeta eta theta iota kappa lambda mu nu xi pi rho "
-                "sigma tau upsilon chi psi omega").split()
-for _g in _GREEK_WORDS:
-    _MATH_CHARS.setdefault(unicodedata.lookup(f"GREEK SMALL LETTER {_g.replace('lambda', 'lamda')}"), "\\" + _g)
-for _g in "Gamma Delta Theta Lambda Xi Pi Sigma Upsilon Phi Psi Omega".split():
-    _MATH_CHARS[unicodedata.lookup(f"GREEK CAPITAL LETTER {_g.replace('Lambda', 'Lamda')}")] = "\\" + _g
-_TEXT_MAP = {**_TEXT_SPECIALS, **{c: f"${m}$" for c, m in _MATH_CHARS.items()}}
-# The typewriter font has every ASCII character in its own slot, so code
-# shows the real glyphs (straight quotes, a true backslash) in any encoding.
-_CODE_MAP = {**_TEXT_MAP, **{ch: f"\\symbol{{{ord(ch)}}}" for ch in "\\{}^~_<>|'`\""}}
-
 
 _OPENING_QUOTE = re.compile(r'(^|(?<=[\s(\[{\u2014-]))"')
 _OPENING_SINGLE = re.compile(r"(^|(?<=[\s(\[{\u2014-]))'")
@@ -60,7 +33,7 @@ def escape_tex(text: str) -> str:
     straight quotes turned into opening and closing ones."""
     text = _OPENING_QUOTE.sub("\u201c", text).replace('"', "\u201d")
     text = _OPENING_SINGLE.sub("\u2018", text)
-    return "".join(_TEXT_MAP.get(ch, ch) for ch in text)
+    return escape_text(text)
 
 
 _BREAKABLE = re.compile(r"(?<=[*+,;=)/])(?=\S)|(?<=\^)(?=\S)")
@@ -70,10 +43,6 @@ def escape_detail(text: str) -> str:
     """Text holding long expressions (a check's detail): escaped, and free
     to break a line after an operator, since it has few spaces."""
     return r"\allowbreak{}".join(escape_tex(part) for part in _BREAKABLE.split(text))
-
-
-def escape_code(text: str) -> str:
-    return "".join(_CODE_MAP.get(ch, ch) for ch in text)
 
 
 def code_lines(text: str, number: int | None = None) -> str:
@@ -105,7 +74,7 @@ class _TexWriter:
 
     def math(self, token) -> str:
         """A math token's LaTeX with its @{NAME} values spliced in."""
-        return expand_refs(token.content, {k: self.printer.doprint(v.tree) for k, v in self.refs.items()})
+        return expand_refs(math_tex(token.content), {k: self.printer.doprint(v.tree) for k, v in self.refs.items()})
 
 
 #: Punctuation that belongs to the value before it: a value set as a

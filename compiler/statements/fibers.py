@@ -11,11 +11,11 @@ lines under ``fiber F: spindle a, b, ...`` (whose points are ``north`` and
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from fractions import Fraction
 from typing import Callable, Optional
 
-from compiler.statements import nodes as n
-from compiler.statements.core import Cursor, did_you_mean, equations, expr
+from compiler.statements import clause_nodes as cn, expr_nodes as en, nodes as n
+from compiler.statements.core import Cursor, did_you_mean
+from compiler.statements.expr_parser import equations, expr, literal
 from compiler.statements.lexer import LogicalLine
 from compiler.statements.tree import Ident
 
@@ -100,10 +100,8 @@ def _fixed(c: Cursor, name: Ident) -> Header:
     c.expect_word("points")
     c.expect(",")
     c.expect_word("dimension")
-    token = c.peek()
-    dimension = c.positive_integer("the fiber dimension", MAX_FIBER_DIMENSION)
-    if dimension % 2:
-        c.fail(token, f"a fiber with isolated fixed points has even dimension, not {dimension}")
+    dimension = c.even_dimension("the fiber dimension", MAX_FIBER_DIMENSION,
+                                 "a fiber with isolated fixed points has even dimension, not {}")
     rotation = _rotation(c)
     return Header(FIXED_RULES, lambda parts, span: _fixed_node(
         name, dimension, rotation, parts.get("points", ()), parts, span), c.span)
@@ -118,10 +116,10 @@ def _spindle(c: Cursor, name: Ident) -> Header:
     rotation = _rotation(c)
     if len(rotation[0]) != 1:
         c.fail(rotation[0][1], "a spindle turns about one axis: give one rotation parameter")
-    t = n.Name(rotation[0][0], rotation[0][0].line, rotation[0][0].column)
-    poles = (n.FixedPointDecl("north", (n.Binary("/", t, a, a.line, a.column),), a,
+    t = en.Name(rotation[0][0], rotation[0][0].line, rotation[0][0].column)
+    poles = (cn.FixedPointDecl("north", (en.Binary("/", t, a, a.line, a.column),), a,
                               a.line, a.column),
-             n.FixedPointDecl("south", (n.Unary("-", n.Binary("/", t, b, b.line, b.column),
+             cn.FixedPointDecl("south", (en.Unary("-", en.Binary("/", t, b, b.line, b.column),
                                                 b.line, b.column),), b, b.line, b.column))
     return Header(SPINDLE_RULES, lambda parts, span: _fixed_node(
         name, 2, rotation, poles, parts, span), c.span)
@@ -156,28 +154,18 @@ def _fixed_node(name: Ident, dimension: int, rotation: tuple, points, parts: dic
 
 def _options(c: Cursor, readers: dict) -> dict:
     """``, word value`` pairs in any order, each required exactly once."""
-    values = {}
-    while c.accept(","):
-        token = c.peek()
-        if token.kind != "name" or token.text not in readers:
-            c.expected(" or ".join(f"'{w}'" for w in readers))
-        if token.text in values:
-            c.fail(token, f"'{token.text}' given twice")
-        c.next()
-        values[token.text] = readers[token.text](c)
+    values = c.options(readers)
     missing = [w for w in readers if w not in values]
     if missing:
         c.expected(f"', {missing[0]} ...'")
     return values
 
 
-def _genus(c: Cursor) -> n.Expr:
-    token = c.peek()
-    if token.kind == "int":
-        c.next()
-        return n.Num(Fraction(token.value), token.line, token.column)
+def _genus(c: Cursor) -> en.Expr:
+    if c.peek().kind == "int":
+        return literal(c)
     name = c.name("the genus (a symbol or a nonnegative integer)")
-    return n.Name(name, name.line, name.column)
+    return en.Name(name, name.line, name.column)
 
 
 def body_line(c: Cursor, rules: dict) -> tuple[str, list]:
@@ -199,7 +187,7 @@ def _body_class(c: Cursor) -> tuple[str, list]:
     names = c.name_list("a class name")
     c.expect(":")
     degree = c.positive_integer("the degree", MAX_FIBER_DIMENSION)
-    return "classes", [n.FiberClass(name, degree, name.line, name.column) for name in names]
+    return "classes", [cn.FiberClass(name, degree, name.line, name.column) for name in names]
 
 
 def _point(c: Cursor) -> tuple[str, list]:
@@ -216,7 +204,7 @@ def _point(c: Cursor) -> tuple[str, list]:
             order = expr(c)
             break
         weights.append(expr(c))
-    return "points", [n.FixedPointDecl(str(label), tuple(weights), order,
+    return "points", [cn.FixedPointDecl(str(label), tuple(weights), order,
                                        label.line, label.column)]
 
 
@@ -228,7 +216,7 @@ def _line(c: Cursor) -> tuple[str, list]:
     while True:
         label = c.name("a fixed point's label")
         c.expect("=")
-        values.append(n.PointValue(str(label), expr(c), label.line, label.column))
+        values.append(cn.PointValue(str(label), expr(c), label.line, label.column))
         if not c.accept(","):
             return "lines", [(name, tuple(values))]
 

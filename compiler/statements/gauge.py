@@ -8,7 +8,8 @@ the declaration runs, so its suggestions come from one place.
 from __future__ import annotations
 
 from compiler.statements import nodes as n
-from compiler.statements.core import Cursor, expr
+from compiler.statements.core import Cursor
+from compiler.statements.expr_parser import expr
 
 #: Largest numeric rank of a gauge group: weight systems stay small.
 MAX_GAUGE_RANK = 64
@@ -35,16 +36,7 @@ def gauge_rule(c: Cursor, names) -> n.GaugeDecl:
             if c.at("/") or c.at("."):
                 c.fail(c.peek(), "the rank of a group is a whole number")
         c.expect(")")
-    options: dict = {}
-    while c.accept(","):
-        word = c.peek()
-        if word.kind != "name" or word.text not in _OPTIONS:
-            c.expected("'index' or 'curvature'")
-        if word.text in options:
-            c.fail(word, f"'{word.text}' is given twice")
-        c.next()
-        options[word.text] = (c.name("a convention") if c.peek().kind == "name"
-                              else c.rational(_OPTIONS[word.text]))
+    options = c.options({word: _number_or_convention(what) for word, what in _OPTIONS.items()})
     return n.GaugeDecl(tuple(names), family.text, rank, rank_name, options.get("index"),
                        options.get("curvature"), **c.span)
 
@@ -58,3 +50,8 @@ def factorize_rule(c: Cursor) -> n.Factorize:
     if len(degrees) != MAX_FACTORS:
         c.fail(c.peek(), f"give the form degrees of {MAX_FACTORS} factors, as in 'into 4, 8'")
     return n.Factorize(target, tuple(degrees), c.outputs(len(degrees), "factorize"), **c.span)
+
+
+def _number_or_convention(what: str):
+    """A reader of a rational literal (described by ``what``) or a convention's name."""
+    return lambda c: c.name("a convention") if c.peek().kind == "name" else c.rational(what)

@@ -18,8 +18,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Optional
 
-from compiler.statements import nodes as n
-from compiler.statements.core import Cursor, expr, representation
+from compiler.statements import expr_nodes as en, nodes as n
+from compiler.statements.core import Cursor
+from compiler.statements.expr_parser import expr, representation
 from compiler.statements.fibers import Header
 from compiler.statements.tree import Ident
 
@@ -33,8 +34,8 @@ class Factor:
     """A representation a field sits in: ``(G, rep)`` or a bundle construction."""
 
     gauge: Optional[Ident]
-    rep: Optional[n.RepSpec]
-    construction: Optional[n.Expr]
+    rep: Optional[en.RepSpec]
+    construction: Optional[en.Expr]
     line: int
     column: int
 
@@ -44,7 +45,7 @@ class Charge:
     """``L: q`` after ``charges``: the charge under a line bundle."""
 
     bundle: Ident
-    value: n.Expr
+    value: en.Expr
     line: int
     column: int
 
@@ -54,7 +55,7 @@ class Field:
     """One body line: a kind (``weyl+``, ``hyper``, ...), its multiplicity and representation."""
 
     kind: str
-    count: Optional[n.Expr]
+    count: Optional[en.Expr]
     factors: tuple[Factor, ...]
     charges: tuple[Charge, ...]
     line: int
@@ -66,19 +67,9 @@ def matter_rule(c: Cursor) -> Header:
     name = c.name("a name for the anomaly polynomial")
     c.expect(":")
     c.expect_word("dimension")
-    token = c.peek()
-    dimension = c.positive_integer("the dimension", MAX_DIMENSION)
-    if dimension % 2:
-        c.fail(token, f"anomalies of chiral fields live in even dimensions, not {dimension}")
-    options: dict[str, Ident] = {}
-    while c.accept(","):
-        word = c.peek()
-        if word.kind != "name" or word.text not in _OPTIONS:
-            c.expected("tangent or R_symmetry")
-        if word.text in options:
-            c.fail(word, f"'{word.text}' is given twice")
-        c.next()
-        options[word.text] = c.name("a bundle name")
+    dimension = c.even_dimension("the dimension", MAX_DIMENSION,
+                                 "anomalies of chiral fields live in even dimensions, not {}")
+    options = c.options(dict.fromkeys(_OPTIONS, lambda c: c.name("a bundle name")))
     if "tangent" not in options:
         c.fail(c.peek(), "name the tangent bundle: 'matter I: dimension 6, tangent T'")
     tangent, r_symmetry = options["tangent"], options.get("R_symmetry")

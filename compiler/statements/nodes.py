@@ -1,11 +1,8 @@
-"""The syntax tree of derivation statements: pure data, no algebra.
+"""The statement nodes of the syntax tree: one frozen dataclass per statement.
 
-Every node is a small frozen dataclass that remembers where it came from
-(1-based ``line`` and ``column`` in the Markdown file), so every later stage
-can point at the exact spot; every identifier is an ``Ident`` (a positioned
-``str``, see ``tree``), so passes find names generically.  Numbers are kept as ``fractions.Fraction``;
-turning the tree into algebra is the expression evaluator's job, and this
-package never imports sympy.
+Each knows its position and source text (``_Statement``) and its ``kind``,
+the word the engine's handler table is keyed by.  Expressions are in
+``expr_nodes``, the pieces statements are built of in ``clause_nodes``.
 """
 from __future__ import annotations
 
@@ -13,239 +10,8 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Optional, Union
 
+from compiler.statements import clause_nodes as cn, expr_nodes as en
 from compiler.statements.tree import Ident
-
-
-# ---------------------------------------------------------------- expressions
-
-
-@dataclass(frozen=True)
-class Num:
-    """An exact integer or fraction literal (``3``; ``1/48`` is Binary)."""
-
-    value: Fraction
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Name:
-    """An author's identifier: a symbol, bundle, fiber class or bound value."""
-
-    id: Ident
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Call:
-    """A built-in function in call position: ``p1(T)``, ``ch(S(NW))``."""
-
-    func: str
-    args: tuple["Expr", ...]
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Unary:
-    """``-x`` or ``+x``."""
-
-    op: str
-    operand: "Expr"
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Binary:
-    """``+ - * / ^``; ``**`` is normalised to ``^`` by the parser."""
-
-    op: str
-    left: "Expr"
-    right: "Expr"
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class RepSpec:
-    """A representation inside ``ch(G, ...)``/``tr(G, ..., k)``: a trade name
-    (``adjoint``, ``spinor+``, ``antisymmetric(3)``) or Dynkin labels ``[1, 0]``."""
-
-    name: str  # "" for Dynkin labels
-    power: Optional[int]
-    labels: tuple[int, ...]
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Apply:
-    """A call of a function the document defined: ``a_chiral(r)``."""
-
-    func: Ident
-    args: tuple["Expr", ...]
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Sum:
-    """``sum(body, k = low..high)`` or ``prod(...)``; ``index`` is local to ``body``."""
-
-    op: str  # "sum" or "prod"
-    body: "Expr"
-    index: Ident
-    low: "Expr"
-    high: "Expr"
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Expansion:
-    """``leading(f, N)``, ``series(f, N, 3)``: the first ``terms`` nonzero terms
-    of ``f`` in ``variable`` at infinity (``point`` None) or at ``x = point``."""
-
-    op: str  # "leading" or "series"
-    target: "Expr"
-    variable: Ident
-    point: Optional[Fraction]
-    terms: int
-    line: int
-    column: int
-
-
-Expr = Union[Num, Name, Call, Unary, Binary, RepSpec, Apply, Sum, Expansion]
-
-
-@dataclass(frozen=True)
-class Equation:
-    """``lhs = rhs`` in substitutions, relations and fiber integrals.
-
-    A bare expression in a relation list is ``Equation(expr, None)``: it
-    vanishes.
-    """
-
-    lhs: Expr
-    rhs: Optional[Expr]
-    line: int
-    column: int
-
-
-# ---------------------------------------------------------------- pieces
-
-
-@dataclass(frozen=True)
-class Bound:
-    """``g >= 2``: a symbol of its statement, operator, rational literal."""
-
-    name: Ident
-    op: str  # one of < <= > >=, always with the symbol on the left
-    value: Fraction
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Interval:
-    """``in (a, b)`` (open) or ``a..b`` (closed) with rational end points."""
-
-    low: Fraction
-    high: Fraction
-    closed: bool
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class ForClause:
-    """``N = 2..8`` (integer range, inclusive) or ``z = 1/2`` (one value).
-
-    Exactly one of ``value`` / ``range`` is set; ``range`` is ``(low, high)``
-    as integers.
-    """
-
-    name: Ident
-    value: Optional[Expr]
-    range: Optional[tuple[int, int]]
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Variable:
-    """An extremization variable, optionally restricted: ``eps in (-1, 1)``."""
-
-    name: Ident
-    interval: Optional[Interval]
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class SplitPart:
-    """A summand of ``split``: a declared bundle name, or ``trivial(k)``."""
-
-    name: Optional[Ident]
-    trivial: Optional[int]
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class FiberClass:
-    """``class x: 2`` in a general fiber body."""
-
-    name: Ident
-    degree: int
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class FixedPointDecl:
-    """``point p: weights w1, w2, order d`` (order None: 1).  The label is
-    plain text, not an ``Ident``: it is not a name of the document."""
-
-    label: str
-    weights: tuple[Expr, ...]
-    order: Optional[Expr]
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class PointValue:
-    """``north = -t/3`` in a fixed-point fiber's ``line``: a restriction."""
-
-    label: str
-    value: Expr
-    line: int
-    column: int
-
-
-@dataclass(frozen=True)
-class Relation:
-    """``Nf > Nc``, ``q < p``, ``Nf < 3*Nc`` in a ``symbol`` declaration.
-
-    Each side is a linear expression with rational coefficients in symbols
-    (those of this statement or declared earlier); at least one side names a
-    symbol of this statement.  ``op`` is one of < <= > >=, as written:
-    ``lhs op rhs``.  A chain ``Nc < Nf < 3*Nc`` gives two relations (each at
-    the position of its left side).  A comparison of a symbol of this
-    statement with a rational literal stays a ``Bound``.
-    """
-
-    lhs: Expr
-    op: str
-    rhs: Expr
-    line: int
-    column: int
-
-
-# ---------------------------------------------------------------- statements
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -264,8 +30,8 @@ class _Statement:
 class SymbolDecl(_Statement):
     names: tuple[Ident, ...]
     assumptions: tuple[str, ...]  # integer, positive, nonnegative, real, nonzero
-    bounds: tuple[Bound, ...]
-    relations: tuple[Relation, ...] = ()
+    bounds: tuple[cn.Bound, ...]
+    relations: tuple[cn.Relation, ...] = ()
     kind = "symbol"
 
 
@@ -287,7 +53,7 @@ class BundleDecl(_Statement):
 @dataclass(frozen=True)
 class SplitDecl(_Statement):
     bundle: Ident
-    parts: tuple[SplitPart, ...]
+    parts: tuple[cn.SplitPart, ...]
     kind = "split"
 
 
@@ -296,7 +62,7 @@ class SurfaceFiber(_Statement):
     """``fiber Sigma: surface, genus g, tangent TS``; genus is a name or int."""
 
     name: Ident
-    genus: Expr
+    genus: en.Expr
     tangent: Ident
     kind = "fiber"
 
@@ -317,9 +83,9 @@ class GeneralFiber(_Statement):
 
     name: Ident
     dimension: int
-    classes: tuple[FiberClass, ...]
-    relations: tuple[Equation, ...]
-    integrals: tuple[Equation, ...]  # lhs a monomial, rhs its integral
+    classes: tuple[cn.FiberClass, ...]
+    relations: tuple[en.Equation, ...]
+    integrals: tuple[en.Equation, ...]  # lhs a monomial, rhs its integral
     kind = "fiber"
 
 
@@ -333,18 +99,18 @@ class FixedPointFiber(_Statement):
     name: Ident
     dimension: int
     parameters: tuple[Ident, ...]
-    identified: tuple[Optional[Expr], ...]
+    identified: tuple[Optional[en.Expr], ...]
     tangent: Optional[Ident]
-    points: tuple[FixedPointDecl, ...]
+    points: tuple[cn.FixedPointDecl, ...]
     lines: tuple[Ident, ...]
-    line_values: tuple[tuple[PointValue, ...], ...]
+    line_values: tuple[tuple[cn.PointValue, ...], ...]
     kind = "fiber"
 
 
 @dataclass(frozen=True)
 class Let(_Statement):
     name: Ident
-    expr: Expr
+    expr: en.Expr
     rebind: bool
     kind = "let"
 
@@ -355,7 +121,7 @@ class Define(_Statement):
 
     name: Ident
     params: tuple[Ident, ...]
-    body: Expr
+    body: en.Expr
     rebind: bool
     kind = "define"
 
@@ -373,23 +139,23 @@ class UseDecl(_Statement):
 
 @dataclass(frozen=True)
 class Substitute(_Statement):
-    target: Expr
-    pairs: tuple[Equation, ...]
+    target: en.Expr
+    pairs: tuple[en.Equation, ...]
     outputs: tuple[Ident, ...]
     kind = "substitute"
 
 
 @dataclass(frozen=True)
 class Reduce(_Statement):
-    target: Expr
-    relations: tuple[Equation, ...]
+    target: en.Expr
+    relations: tuple[en.Equation, ...]
     outputs: tuple[Ident, ...]
     kind = "reduce"
 
 
 @dataclass(frozen=True)
 class Integrate(_Statement):
-    target: Expr
+    target: en.Expr
     fiber: Ident
     outputs: tuple[Ident, ...]
     kind = "integrate"
@@ -406,8 +172,8 @@ class Integrate(_Statement):
 
 @dataclass(frozen=True)
 class Coefficients(_Statement):
-    target: Expr
-    monomials: tuple[Expr, ...]
+    target: en.Expr
+    monomials: tuple[en.Expr, ...]
     outputs: tuple[Ident, ...]
     kind = "coefficients"
 
@@ -422,8 +188,8 @@ class Extremize(_Statement):
     """
 
     mode: str  # "maximize", "minimize" or "extremize"
-    target: Expr
-    variables: tuple[Variable, ...]
+    target: en.Expr
+    variables: tuple[cn.Variable, ...]
     point: tuple[Ident, ...]
     value: Ident
 
@@ -438,16 +204,16 @@ class Extremize(_Statement):
 
 @dataclass(frozen=True)
 class Check(_Statement):
-    lhs: Expr
+    lhs: en.Expr
     op: str  # == != < <= > >=
-    rhs: Expr
-    clauses: tuple[ForClause, ...]
+    rhs: en.Expr
+    clauses: tuple[cn.ForClause, ...]
     kind = "check"
 
 
 @dataclass(frozen=True)
 class Show(_Statement):
-    exprs: tuple[Expr, ...]
+    exprs: tuple[en.Expr, ...]
     form: str = "factored"  # or "expanded", "collected" (in ``symbol``)
     symbol: Optional[Ident] = None
     kind = "show"
@@ -455,17 +221,17 @@ class Show(_Statement):
 
 @dataclass(frozen=True)
 class Table(_Statement):
-    exprs: tuple[Expr, ...]
-    clauses: tuple[ForClause, ...]
+    exprs: tuple[en.Expr, ...]
+    clauses: tuple[cn.ForClause, ...]
     kind = "table"
 
 
 @dataclass(frozen=True)
 class Plot(_Statement):
-    exprs: tuple[Expr, ...]
+    exprs: tuple[en.Expr, ...]
     variable: Ident
-    interval: Interval
-    clauses: tuple[ForClause, ...]
+    interval: cn.Interval
+    clauses: tuple[cn.ForClause, ...]
     kind = "plot"
 
 
@@ -487,7 +253,7 @@ class GaugeDecl(_Statement):
 class Factorize(_Statement):
     """``factorize I into 4, 8 -> X, Y``."""
 
-    target: Expr
+    target: en.Expr
     degrees: tuple[int, ...]
     outputs: tuple[Ident, ...]
     kind = "factorize"

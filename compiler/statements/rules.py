@@ -9,8 +9,9 @@ from __future__ import annotations
 from fractions import Fraction
 from typing import Optional, Union
 
-from compiler.statements import nodes as n, words
-from compiler.statements.core import Cursor, did_you_mean, equations, expr, expr_list
+from compiler.statements import clause_nodes as cn, expr_nodes as en, nodes as n, words
+from compiler.statements.core import Cursor, did_you_mean
+from compiler.statements.expr_parser import equations, expr, expr_list
 from compiler.statements.fibers import fiber_rule
 from compiler.statements.gauge import factorize_rule, gauge_rule
 from compiler.statements.matter import matter_rule
@@ -78,13 +79,13 @@ def _split(c: Cursor) -> n.SplitDecl:
     return n.SplitDecl(bundle, tuple(parts), **c.span)
 
 
-def _split_part(c: Cursor) -> n.SplitPart:
+def _split_part(c: Cursor) -> cn.SplitPart:
     name = c.name("a bundle name or trivial(k)")
     if name == "trivial" and c.accept("("):
         rank = c.positive_integer("the rank of trivial(k)", MAX_RANK)
         c.expect(")")
-        return n.SplitPart(None, rank, name.line, name.column)
-    return n.SplitPart(name, None, name.line, name.column)
+        return cn.SplitPart(None, rank, name.line, name.column)
+    return cn.SplitPart(name, None, name.line, name.column)
 
 
 def _bang(c: Cursor) -> bool:
@@ -190,13 +191,13 @@ def _extremize(c: Cursor) -> n.Extremize:
     return n.Extremize(mode, target, tuple(variables), tuple(point), value, **c.span)
 
 
-def _variable(c: Cursor) -> n.Variable:
+def _variable(c: Cursor) -> cn.Variable:
     name = c.name("a variable")
     interval = None
     if c.at_word("in"):
         c.next()
         interval = _interval_open(c)
-    return n.Variable(name, interval, name.line, name.column)
+    return cn.Variable(name, interval, name.line, name.column)
 
 
 def _check(c: Cursor) -> n.Check:
@@ -250,7 +251,7 @@ def _plot(c: Cursor) -> n.Plot:
 # ---------------------------------------------------------------- shared pieces
 
 
-def _for_clauses(c: Cursor) -> tuple[n.ForClause, ...]:
+def _for_clauses(c: Cursor) -> tuple[cn.ForClause, ...]:
     """``for N = 2..8, z = 1`` (or nothing)."""
     if not c.at_word("for"):
         return ()
@@ -262,13 +263,13 @@ def _for_clauses(c: Cursor) -> tuple[n.ForClause, ...]:
     return tuple(clauses)
 
 
-def _for_clause(c: Cursor) -> n.ForClause:
+def _for_clause(c: Cursor) -> cn.ForClause:
     target = c.name("a symbol")
     c.expect("=")
     start = c.peek()
     value = expr(c)
     if not c.at(".."):
-        return n.ForClause(target, value, None, target.line, target.column)
+        return cn.ForClause(target, value, None, target.line, target.column)
     low = _integer_literal(value)
     if low is None:
         c.fail(start, "a 'for' range runs over integers, such as N = 2..8")
@@ -279,20 +280,20 @@ def _for_clause(c: Cursor) -> n.ForClause:
         c.fail(high_token, "a 'for' range runs over integers, such as N = 2..8")
     if high < low:
         c.fail(dots, f"the range {low}..{high} is empty")
-    return n.ForClause(target, None, (low, high), target.line, target.column)
+    return cn.ForClause(target, None, (low, high), target.line, target.column)
 
 
-def _integer_literal(expression: n.Expr) -> Optional[int]:
+def _integer_literal(expression: en.Expr) -> Optional[int]:
     """The value of ``3`` or ``-3`` written as a literal, else None."""
     sign = 1
-    if isinstance(expression, n.Unary):
+    if isinstance(expression, en.Unary):
         sign, expression = (-1 if expression.op == "-" else 1), expression.operand
-    if isinstance(expression, n.Num) and expression.value.denominator == 1:
+    if isinstance(expression, en.Num) and expression.value.denominator == 1:
         return sign * expression.value.numerator
     return None
 
 
-def _interval_open(c: Cursor) -> n.Interval:
+def _interval_open(c: Cursor) -> cn.Interval:
     """``(a, b)`` after ``in``: an open interval."""
     start = c.expect("(")
     low = c.rational()
@@ -301,10 +302,10 @@ def _interval_open(c: Cursor) -> n.Interval:
     c.expect(")")
     if not low < high:
         c.fail(start, f"the interval ({low}, {high}) is empty")
-    return n.Interval(low, high, False, start.line, start.column)
+    return cn.Interval(low, high, False, start.line, start.column)
 
 
-def _interval_closed(c: Cursor) -> n.Interval:
+def _interval_closed(c: Cursor) -> cn.Interval:
     """``a..b``: a closed interval with rational end points."""
     start = c.peek()
     low: Fraction = c.rational()
@@ -312,7 +313,7 @@ def _interval_closed(c: Cursor) -> n.Interval:
     high = c.rational()
     if not low < high:
         c.fail(start, f"the interval {low}..{high} is empty")
-    return n.Interval(low, high, True, start.line, start.column)
+    return cn.Interval(low, high, True, start.line, start.column)
 
 
 RULES = {

@@ -10,8 +10,9 @@ from __future__ import annotations
 from fractions import Fraction
 from typing import Optional
 
-from compiler.statements import nodes as n
-from compiler.statements.core import Cursor, did_you_mean, expr
+from compiler.statements import clause_nodes as cn, expr_nodes as en, nodes as n
+from compiler.statements.core import Cursor, did_you_mean
+from compiler.statements.expr_parser import expr
 from compiler.statements.lexer import Token
 from compiler.statements.tree import Ident, walk
 
@@ -26,8 +27,8 @@ _OPERAND_OPS = _COMPARISONS + ("+", "-", "*", "/", "^", "**", "(")
 def symbol_rule(c: Cursor) -> n.SymbolDecl:
     names = c.name_list("a symbol name")
     assumptions: list[str] = []
-    bounds: list[n.Bound] = []
-    relations: list[n.Relation] = []
+    bounds: list[cn.Bound] = []
+    relations: list[cn.Relation] = []
     if c.accept(":"):
         while True:
             after = c.peek(1)
@@ -68,7 +69,7 @@ def _comparison(c: Cursor, declared: set, bounds: list, relations: list) -> None
         bound = _as_bound(c, left, op, right_token, right, declared) or \
             _as_bound(c, right, _FLIP[op], left_token, left, declared)
         if bound is not None:
-            bounds.append(n.Bound(bound[0], bound[1], bound[2], first.line, first.column))
+            bounds.append(cn.Bound(bound[0], bound[1], bound[2], first.line, first.column))
             continue
         _require_linear(c, left)
         _require_linear(c, right)
@@ -77,14 +78,14 @@ def _comparison(c: Cursor, declared: set, bounds: list, relations: list) -> None
             if stray is None:
                 c.fail(left_token, "a bound needs a symbol, as in g >= 2")
             c.fail(stray, f"a bound on '{stray}', which this statement does not declare")
-        relations.append(n.Relation(left, op, right, left_token.line, left_token.column))
+        relations.append(cn.Relation(left, op, right, left_token.line, left_token.column))
 
 
-def _own_symbol(side: n.Expr, declared: set) -> Optional[Ident]:
-    return side.id if isinstance(side, n.Name) and side.id in declared else None
+def _own_symbol(side: en.Expr, declared: set) -> Optional[Ident]:
+    return side.id if isinstance(side, en.Name) and side.id in declared else None
 
 
-def _as_bound(c: Cursor, side: n.Expr, op: str, other_token: Token, other: n.Expr,
+def _as_bound(c: Cursor, side: en.Expr, op: str, other_token: Token, other: en.Expr,
               declared: set) -> Optional[tuple]:
     """``(symbol, op, value)`` when ``side`` is a symbol of this statement and
     ``other`` a rational literal (``2``, ``-3``, ``1/2``), else None."""
@@ -100,36 +101,36 @@ def _as_bound(c: Cursor, side: n.Expr, op: str, other_token: Token, other: n.Exp
     return symbol, op, value
 
 
-def _rational_literal(c: Cursor, side: n.Expr) -> Optional[Fraction]:
+def _rational_literal(c: Cursor, side: en.Expr) -> Optional[Fraction]:
     """``[+-] int [/ int]`` as written, else None (division by zero fails)."""
     sign = 1
-    if isinstance(side, n.Unary):
+    if isinstance(side, en.Unary):
         sign, side = (-1 if side.op == "-" else 1), side.operand
-    if isinstance(side, n.Binary) and side.op == "/" and isinstance(side.right, n.Num):
+    if isinstance(side, en.Binary) and side.op == "/" and isinstance(side.right, en.Num):
         numerator = side.left
-        if isinstance(numerator, n.Unary) and isinstance(numerator.operand, n.Num):
+        if isinstance(numerator, en.Unary) and isinstance(numerator.operand, en.Num):
             sign, numerator = sign * (-1 if numerator.op == "-" else 1), numerator.operand
-        if not isinstance(numerator, n.Num):
+        if not isinstance(numerator, en.Num):
             return None
         if side.right.value == 0:
             c.fail(side, "division by zero")
         return sign * numerator.value / side.right.value
-    if isinstance(side, n.Num):
+    if isinstance(side, en.Num):
         return sign * side.value
     return None
 
 
-def _symbols(side: n.Expr) -> list[Ident]:
+def _symbols(side: en.Expr) -> list[Ident]:
     return [item for item, _ in walk(side) if isinstance(item, Ident)]
 
 
-def _require_linear(c: Cursor, side: n.Expr) -> None:
+def _require_linear(c: Cursor, side: en.Expr) -> None:
     """A side of a relation: sums of rational multiples of symbols."""
     for node, _ in walk(side):
-        if isinstance(node, n.Call):
+        if isinstance(node, en.Call):
             c.fail(node, f"a relation between symbols is linear: '{node.func}(...)' "
                          "cannot appear in it")
-        if not isinstance(node, n.Binary):
+        if not isinstance(node, en.Binary):
             continue
         if node.op == "/":
             divisor = _rational_literal(c, node.right)

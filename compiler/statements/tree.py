@@ -42,13 +42,14 @@ def iter_child_nodes(node) -> Iterator:
     with tuples of them flattened.  Numbers and operator text are not
     children."""
     for f in fields(node):
-        yield from _children_of(getattr(node, f.name))
+        yield from children_of(getattr(node, f.name))
 
 
-def _children_of(value) -> Iterator:
+def children_of(value) -> Iterator:
+    """The nodes and ``Ident``s of a field's value, tuples flattened."""
     if isinstance(value, tuple):
         for item in value:
-            yield from _children_of(item)
+            yield from children_of(item)
     elif isinstance(value, Ident) or is_dataclass(value):
         yield value
 
@@ -59,7 +60,7 @@ def walk(root) -> Iterator[tuple[object, Optional[object]]]:
 
     Iterative, because a sum of a thousand terms is a tree a thousand deep.
     """
-    stack = [(item, None) for item in reversed(list(_children_of(root)))]
+    stack = [(item, None) for item in reversed(list(children_of(root)))]
     while stack:
         item, parent = stack.pop()
         yield item, parent

@@ -6,7 +6,7 @@ from ...algebra.graded import Element
 from ...expressions import Value
 from ...precision import Known, Precision, unknown_above
 from ...results import CheckResult
-from ...statements import nodes as n
+from ...statements import expr_nodes as en
 
 
 def element(scope, node, what: str) -> Element:
@@ -22,7 +22,7 @@ def known_element(scope, node, what: str) -> Known:
     return known
 
 
-def relation(scope, eq: n.Equation) -> Element:
+def relation(scope, eq: en.Equation) -> Element:
     """``lhs == rhs`` (or a bare ``lhs``, meaning ``lhs == 0``) as ``lhs - rhs``."""
     sides = [scope.read(side) for side in (eq.lhs, eq.rhs) if side is not None]
     if not all(isinstance(side, Element) for side in sides):

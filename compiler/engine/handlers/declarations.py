@@ -12,7 +12,7 @@ from ...algebra.graded import Element
 from ...calls import Function
 from ...expressions import Missing, as_expr
 from ...results import CheckResult, Step
-from ...statements import nodes as n
+from ...statements import clause_nodes as cn, nodes as n
 from ..cache import digest
 from ..scope import fraction_text
 from .common import element, relation
@@ -96,7 +96,7 @@ def _sphere(scope, s: n.SphereFiber, step: Step) -> None:
     rank = scope.bundles.rank(s.bundle)
     if scope.bundles.kind(s.bundle) != "real":
         raise scope.fail(s, f"the sphere bundle needs a real bundle; {s.bundle} is complex")
-    top = scope.bundles.pontryagin(s.bundle, rank // 2) if rank % 2 else None
+    top = scope.bundles.pontryagin(s.bundle, rank // 2) if rank % 2 and rank >= 3 else None
     scope.note_class_use(s.bundle, s.line)
     fiber = fibers_mod.sphere_fiber(
         s.name, scope.ring, scope.new_group(), s.bundle, rank, top, s.angular,
@@ -174,7 +174,7 @@ def _fixed_points(scope, s: n.FixedPointFiber, step: Step) -> None:
                     + f"; rotation {rotation}; integrated by localization")
 
 
-def _fixed_point(scope, s: n.FixedPointFiber, p: n.FixedPointDecl) -> FixedPoint:
+def _fixed_point(scope, s: n.FixedPointFiber, p: cn.FixedPointDecl) -> FixedPoint:
     """A point's order, checked first (a weight may divide by it), and its
     weights as linear forms in the rotation parameters."""
     try:

@@ -12,7 +12,7 @@ from ...expressions import as_expr, is_class_free
 from ...precision import unknown_above
 from ...presentation import display_tree
 from ...results import PlotData, Step, TableData
-from ...statements import nodes as n
+from ...statements import expr_nodes as en, nodes as n
 from ..scope import fraction_text, record
 
 #: Sample points along a plotted interval (both ends included).
@@ -20,7 +20,7 @@ PLOT_SAMPLES = 121
 
 
 def _label(node) -> str:
-    return node.id if isinstance(node, n.Name) else ""
+    return node.id if isinstance(node, en.Name) else ""
 
 
 def _show(scope, s: n.Show, step: Step) -> None:

@@ -10,6 +10,7 @@ from __future__ import annotations
 from ...algebra import anomalies, gauge, genera
 from ...algebra.errors import AlgebraError
 from ...algebra.weights import GroupError
+from ... import constructions
 from ...expressions import is_class_free
 from ...results import Step
 from ...statements import matter, nodes as n
@@ -58,7 +59,7 @@ def _character(scope, s: n.MatterDecl, f: matter.Field):
             except GroupError as exc:
                 raise scope.fail(factor, str(exc)) from None
         else:
-            ch = ch * scope.evaluator.construction(factor.construction).ch
+            ch = ch * constructions.construction(scope.evaluator, factor.construction).ch
     for charge in f.charges:
         q = scope.evaluate(charge.value)
         if not is_class_free(q):

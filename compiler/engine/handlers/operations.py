@@ -16,7 +16,7 @@ from ...checks import free_symbols
 from ...expressions import as_expr, is_class_free
 from ...precision import Known, beyond, degrees, integrated, substituted, unknown_above
 from ...results import CheckResult, Step
-from ...statements import nodes as n
+from ...statements import expr_nodes as en, nodes as n
 from ...statements.tree import Ident, walk
 from ..scope import record
 from .common import degree_check, element, known_element, relation
@@ -183,11 +183,11 @@ def _written_monomial(scope, node) -> list:
     Read from the syntax tree rather than from its value, because evaluating
     would already rewrite a non-normal monomial (``e(T4)^2`` into ``p2(T4)``)
     and hide the mistake."""
-    if isinstance(node, n.Num) and node.value == 1:
+    if isinstance(node, en.Num) and node.value == 1:
         return []
-    if isinstance(node, n.Binary) and node.op == "*":
+    if isinstance(node, en.Binary) and node.op == "*":
         return _written_monomial(scope, node.left) + _written_monomial(scope, node.right)
-    if isinstance(node, n.Binary) and node.op == "^":
+    if isinstance(node, en.Binary) and node.op == "^":
         k = scope.evaluator.integer_arg(node.right)
         if k < 1:
             raise scope.fail(node.right, "a monomial has positive exponents")
@@ -212,7 +212,7 @@ def _extremize(scope, s: n.Extremize, step: Step) -> None:
     try:
         expr = as_expr(f)
         region = scope.region.restrict(expr.free_symbols)  # with the symbols related to them
-        name = s.target.id if isinstance(s.target, n.Name) else "f"
+        name = s.target.id if isinstance(s.target, en.Name) else "f"
         result = extremize(s.mode, expr, variables, list(region.specs), scope.seed(s.line),
                            relations=region.relations, name=name)
     except ExtremizeError as exc:
