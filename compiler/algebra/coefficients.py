@@ -85,10 +85,6 @@ class Coefficients:
             return num ** k, den ** k
         raise NotRational(type(e).__name__)
 
-    def _from_sympy(self, poly):
-        return self.ctx.from_dict({exps: flint.fmpq(int(c.numerator), int(c.denominator))
-                                   for exps, c in poly.items()})
-
     def from_items(self, items):
         """A polynomial from {exponent tuple: Fraction}."""
         return self.ctx.from_dict({exps: flint.fmpq(c.numerator, c.denominator)
