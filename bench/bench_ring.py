@@ -52,9 +52,9 @@ def timed(fn, repeat=3):
 
 def run_ring(sphere_rule=False):
     ring = Ring(sympy.symbols(" ".join(SYMBOLS)), 12)
-    ring.generator("e4", 4, text="e4", latex="e_4", group=1)
+    ring.generator("e4", 4, group=1)
     for key in BASE:
-        ring.generator(key, 2, text=key, latex=key)
+        ring.generator(key, 2)
     if sphere_rule:   # e4^2 = p2(NW) = x1^2 x2^2 for the angular class of a split rank-5 bundle
         ring.add_rule(ring.gen("e4") ** 2, ring.gen("x1") ** 2 * ring.gen("x2") ** 2)
     syms = {s.name: ring.symbol(s) for s in ring.symbols}

@@ -7,17 +7,26 @@ function, an overall sign pulled out when that saves minus signs, and
 radicals kept whole.  ``(g-1)(8N^3-3N-5)/24`` rather than the expanded sum.
 The tree (plain lists, see ``compiler.results``) is what the printers read;
 its text form is in the document syntax and reads back to the same value.
+Class polynomials are factored on FLINT straight from the ring's
+coefficients (sympy only spells the small factors), so a large value costs
+little; class-free values with radicals go through sympy's ``factor``.
 """
 from __future__ import annotations
 
-from functools import reduce
+from fractions import Fraction
+from functools import lru_cache
+from math import gcd, lcm
 
+import flint
 import sympy
+from sympy.core.mul import _keep_coeff
+from sympy.polys.polyutils import _sort_gens
 
+from .algebra import printing
 from .algebra.graded import Element
 
-#: Coefficients with more operations than this are left as they are:
-#: factoring them costs more than a reader gains from it.
+#: Class-free sympy values with more operations than this are left as they
+#: are: sympy's factor costs more on them than a reader gains from it.
 FACTOR_LIMIT = 400
 #: Class polynomials with more terms than this are shown term by term as
 #: the normal form gives them (nobody reads a thousand factored
@@ -119,6 +128,7 @@ def _ordered(expr) -> list:
     return list(expr.as_ordered_terms())
 
 
+@lru_cache(maxsize=4096)  # the same value is shown by its step, by show and in prose
 def _factored(expr):
     if sympy.count_ops(expr) > FACTOR_LIMIT:
         return expr
@@ -140,25 +150,121 @@ def _radicals_gathered(expr):
     return sympy.Mul(*factors)
 
 
+def _basic(expr):
+    return expr if isinstance(expr, sympy.Basic) else sympy.Integer(expr)
+
+
 def scalar_tree(expr) -> list:
     """A class-free value in display form."""
-    return _node(_factored(expr if isinstance(expr, sympy.Basic) else sympy.Integer(expr)), _ordered)
+    return _node(_factored(_basic(expr)), _ordered)
 
 
-def _common(coefficients: list):
-    """The factor every coefficient shares: gcd of numerators over lcm of
-    denominators, negative when that saves minus signs inside."""
-    pairs = [sympy.cancel(c).as_numer_denom() for c in coefficients]
-    common = reduce(sympy.gcd, [n for n, _ in pairs]) / reduce(sympy.lcm, [d for _, d in pairs])
-    quotients = [sympy.cancel(c / common) for c in coefficients]
-    if _shorter_negated(quotients):
-        common = -common
-    return common
+def _poly_expr(coeffs, poly, scale=Fraction(1)):
+    """A FLINT polynomial of ``coeffs`` times ``scale`` as a sympy sum."""
+    return sympy.Add(*[sympy.Rational(c.numerator, c.denominator) * sympy.Mul(
+        *[s ** e for s, e in zip(coeffs.symbols, exps) if e]) for exps, c in coeffs.items(poly * _q(scale))])
+
+
+def _content(coeffs, poly) -> Fraction:
+    """The positive rational that leaves coprime integer coefficients."""
+    values = [c for _, c in coeffs.items(poly)]
+    den = lcm(*(c.denominator for c in values))
+    return Fraction(gcd(*(c.numerator * (den // c.denominator) for c in values)), den)
+
+
+def _leading(coeffs, poly) -> Fraction:
+    """The leading coefficient in sympy's lexicographic order of the symbols,
+    the one ``sympy.factor`` makes positive."""
+    rank = [coeffs.symbols.index(s) for s in _sort_gens(coeffs.symbols)]
+    exps, c = max(coeffs.items(poly), key=lambda t: tuple(t[0][i] for i in rank))
+    return c
+
+
+def _factored_fraction(coeffs, num, den):
+    """num/den (FLINT polynomials) factored on FLINT, written as
+    ``sympy.factor`` writes it: a rational times integer primitive factors,
+    each with a positive leading coefficient."""
+    coeff, factors = Fraction(1), []
+    for poly, sign in ((num, 1), (den, -1)):
+        content, parts = poly.factor()
+        coeff *= Fraction(int(content.p), int(content.q)) ** sign
+        for f, e in parts:
+            scale = _content(coeffs, f)
+            if _leading(coeffs, f) < 0:
+                scale = -scale
+            base = _poly_expr(coeffs, f, 1 / scale)
+            coeff *= scale ** (int(e) * sign)
+            factors.append(base ** (int(e) * sign))
+    return _keep_coeff(sympy.Rational(coeff.numerator, coeff.denominator), sympy.Mul(*factors))
+
+
+def _quotient_expr(coeffs, num, den):
+    """num/den as ``sympy.cancel`` writes it (a sum when den is a number)."""
+    if den.is_constant():
+        return _poly_expr(coeffs, num, 1 / _number(den))
+    return sympy.cancel(_poly_expr(coeffs, num) / _poly_expr(coeffs, den))
+
+
+def _q(value: Fraction):
+    return flint.fmpq(value.numerator, value.denominator)
+
+
+def _number(poly) -> Fraction:
+    c = poly.coeffs()[0]
+    return Fraction(int(c.p), int(c.q))
+
+
+def _primitive(coeffs, poly):
+    return poly * _q(1 / _content(coeffs, poly))
+
+
+def _common(coeffs, fractions: list):
+    """The factor every coefficient shares, as (numerator, denominator): gcd
+    of the numerators over lcm of the denominators, integer contents
+    included (the sign is chosen by the caller)."""
+    top = bottom = None
+    whole = Fraction(0)
+    for _, num, den in fractions:
+        c = _content(coeffs, num) / _content(coeffs, den)
+        whole = Fraction(gcd(whole.numerator, c.numerator), lcm(whole.denominator, c.denominator))
+        n, d = _primitive(coeffs, num), _primitive(coeffs, den)
+        top = n if top is None else _primitive(coeffs, top.gcd(n))
+        bottom = d if bottom is None else _primitive(coeffs, coeffs.lcm(bottom, d))
+    return top * _q(whole), bottom
+
+
+def _reduced(coeffs, num, den):
+    g = num.gcd(den)
+    return coeffs.exquo(num, g), coeffs.exquo(den, g)
+
+
+def _parts_tree(coeffs, num, den) -> list:
+    """num/den term by term as the normal form writes it: sign, a/b, P/Q
+    with P and Q primitive (no sympy: this is the path for huge values)."""
+    s, a, b, P, Q = printing.scalar_parts(coeffs, num, den)
+    top = [] if a == 1 and not printing.is_one(P) else [["int", a]]
+    top += [] if printing.is_one(P) else [_prim_tree(P, coeffs.symbols)]
+    bottom = ([] if b == 1 else [["int", b]]) + ([] if printing.is_one(Q) else [_prim_tree(Q, coeffs.symbols)])
+    tree = _product(top)
+    tree = ["div", tree, _product(bottom)] if bottom else tree
+    return ["neg", tree] if s < 0 else tree
+
+
+def _prim_tree(prim, symbols) -> list:
+    terms = []
+    for exps, c in prim:
+        factors = [["sym", s.name] if e == 1 else ["pow", ["sym", s.name], e]
+                   for s, e in zip(symbols, exps) if e]
+        if abs(c) != 1 or not factors:
+            factors.insert(0, ["int", abs(c)])
+        term = _product(factors)
+        terms.append(["neg", term] if c < 0 else term)
+    return terms[0] if len(terms) == 1 else ["add", *terms]
 
 
 def _monomial(ring, pairs) -> list:
-    factors = [["cls", ring.generator_info(key).text] if e == 1 else
-               ["pow", ["cls", ring.generator_info(key).text], e] for key, e in pairs]
+    factors = [["cls", key] if e == 1 else
+               ["pow", ["cls", key], e] for key, e in pairs]
     return _product(factors)
 
 
@@ -174,28 +280,86 @@ def _term(coef_tree: list, mono: list) -> list:
 
 def element_tree(value: Element) -> list:
     """A class polynomial: monomials in normal-form order, common factor out."""
-    terms = value.terms()
-    if not terms:
+    fractions = value.fractions()
+    if not fractions:
         return ["int", 0]
-    ring = value.ring
-    if len(terms) == 1 and not terms[0][0]:
-        return scalar_tree(terms[0][1])
-    if len(terms) > COLLECT_LIMIT:
-        return ["add", *(_term(_node(coef, _ordered), _monomial(ring, pairs)) if pairs else _node(coef, _ordered)
-                         for pairs, coef in terms)]
-    common = _common([c for _, c in terms]) if len(terms) > 1 else sympy.Integer(1)
+    ring, coeffs = value.ring, value.ring.coeffs
+    if len(fractions) == 1 and not fractions[0][0]:
+        return _node(_factored_fraction(coeffs, *fractions[0][1:]), _ordered)
+    if len(fractions) > COLLECT_LIMIT:
+        return ["add", *(_term(_parts_tree(coeffs, num, den), _monomial(ring, pairs)) if pairs
+                         else _parts_tree(coeffs, num, den) for pairs, num, den in fractions)]
+    top, bottom = _common(coeffs, fractions)
+    quotients = [_reduced(coeffs, num * bottom, den * top) for _, num, den in fractions]
+    if _shorter_negated([_quotient_expr(coeffs, *q) for q in quotients]):
+        top, quotients = -top, [(-n, d) for n, d in quotients]
     body = []
-    for pairs, coef in terms:
-        coef_tree = scalar_tree(sympy.cancel(coef / common))
+    for (pairs, _, _), (num, den) in zip(fractions, quotients):
+        coef_tree = _node(_factored_fraction(coeffs, num, den), _ordered)
         body.append(_term(coef_tree, _monomial(ring, pairs)) if pairs else coef_tree)
     tree = body[0] if len(body) == 1 else ["add", *body]
-    if common == 1:
+    if top == bottom:
         return tree
-    return _term(scalar_tree(common), tree)
+    return _term(_node(_factored_fraction(coeffs, top, bottom), _ordered), tree)
 
 
-def display_tree(value) -> list:
-    """Any computed value (class polynomial or class-free) in display form."""
+def _expanded(expr) -> list:
+    """The terms of a multiplied-out class-free value."""
+    return [_node(t, _ordered) for t in _ordered(sympy.expand(_basic(expr)))]
+
+
+def _collected(expr, symbol) -> list:
+    """A class-free value as a sum over the powers of ``symbol``, highest
+    first, each coefficient factored; a denominator free of ``symbol`` goes
+    into the coefficients.  Raises ValueError when the value is not a
+    polynomial in ``symbol`` over such a denominator."""
+    num, den = sympy.cancel(_basic(expr)).as_numer_denom()
+    if not num.is_polynomial(symbol) or not den.is_polynomial(symbol):
+        raise ValueError(f"it is not a rational function of {symbol.name}")
+    inner = den.has(symbol)
+    poly = sympy.Poly(num, symbol)
+    terms = []
+    for (k,), coef in zip(poly.monoms(), poly.coeffs()):
+        tree = scalar_tree(coef if inner else coef / den)
+        power = ["sym", symbol.name] if k == 1 else ["pow", ["sym", symbol.name], k]
+        terms.append(tree if k == 0 else _term(tree, power))
+    tree = terms[0] if len(terms) == 1 else ["add", *terms]
+    return ["div", tree, scalar_tree(den)] if inner else tree
+
+
+def _in_form(value, coefficient, distribute: bool) -> list:
+    """``value`` with each coefficient drawn by ``coefficient`` (a list of
+    terms), the monomials in normal-form order and nothing pulled out; with
+    ``distribute`` each term of a coefficient takes the monomial itself."""
+    if not isinstance(value, Element):
+        terms = coefficient(value)
+    else:
+        terms = []
+        for pairs, coef in value.terms():
+            body = coefficient(coef)
+            if not pairs:
+                terms += body
+            elif len(body) == 1 or distribute:
+                terms += [_term(t, _monomial(value.ring, pairs)) for t in body]
+            else:
+                terms.append(["mul", ["add", *body], _monomial(value.ring, pairs)])
+    if not terms:
+        return ["int", 0]
+    return terms[0] if len(terms) == 1 else ["add", *terms]
+
+
+def display_tree(value, form: str = "factored", symbol=None) -> list:
+    """Any computed value (class polynomial or class-free) in display form,
+    or in the form an author asked for: ``expanded`` (multiplied out), or
+    ``collected`` in the sympy symbol ``symbol``."""
+    if form == "expanded":
+        return _in_form(value, _expanded, True)
+    if form == "collected":
+        return _in_form(value, lambda c: _sum_terms(_collected(c, symbol)), False)
     if isinstance(value, Element):
         return element_tree(value)
     return scalar_tree(value)
+
+
+def _sum_terms(tree: list) -> list:
+    return list(tree[1:]) if tree[0] == "add" else [tree]

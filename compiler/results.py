@@ -71,10 +71,12 @@ def valid_tree(tree, depth: int = 0) -> bool:
 
 @dataclass
 class TableData:
-    columns: list[str]  # header cells as LaTeX (parameters, then values)
-    rows: list[list[str]]  # cells as LaTeX
+    """Parameters, then values: headers as written, cells as presentation
+    trees (printed by the renderers, with the author's notation)."""
+
+    names: list[str]  # header cells as written (N, a_star); "" for an expression
+    cells: list[list[list]]  # rows of presentation trees
     text_rows: list[list[str]]  # the same cells in our expression syntax
-    names: list[str] = field(default_factory=list)  # header cells as written (a_star, N)
 
 
 @dataclass

@@ -172,8 +172,8 @@ def a_star(n: int, g: int) -> Fraction:
     return Fraction((g - 1) * (8 * n**3 - 3 * n - 5), 24)
 
 
-def _frac_latex(q: Fraction) -> str:
-    return str(q.numerator) if q.denominator == 1 else rf"\frac{{{q.numerator}}}{{{q.denominator}}}"
+def _frac_tree(q: Fraction) -> list:
+    return ["int", q.numerator] if q.denominator == 1 else ["div", ["int", q.numerator], ["int", q.denominator]]
 
 
 def _frac_text(q: Fraction) -> str:
@@ -191,7 +191,7 @@ def make_report(document: str = "derivations/twisted.md") -> Report:
     rem = ValueRecord("kR", "1/24*p1(T4)^2", r"\frac{1}{24} p_{1}(T4)^{2}", [8],
                       ["mul", ["div", ["int", 1], ["int", 24]], ["pow", ["cls", "p1(T4)"], 2]])
     ns, gs = [2, 3], [2, 3]
-    rows = [[str(n), str(g), _frac_latex(a_star(n, g))] for n in ns for g in gs]
+    rows = [[["int", n], ["int", g], _frac_tree(a_star(n, g))] for n in ns for g in gs]
     text_rows = [[str(n), str(g), _frac_text(a_star(n, g))] for n in ns for g in gs]
     curve = [(x / 4, float(a_star(4, 3)) * (x / 4)) for x in range(2, 13)]
     items = [
@@ -213,7 +213,7 @@ def make_report(document: str = "derivations/twisted.md") -> Report:
         Step(6, 15, 1, 16, "let! I8 = missing + 1", "let", ["I8"], rebind=True,
              checks=[CheckResult("value exists", "error", "undefined name missing")]),
         Step(7, 17, 1, 17, "table a_star for N = 2..3, g = 2..3", "table", [],
-             table=TableData(["N", "g", r"a_{\star}"], rows, text_rows, ["N", "g", "a_star"])),
+             table=TableData(["N", "g", "a_star"], rows, text_rows)),
         Step(8, 18, 1, 18, "plot a_star over z in 1/2..3 for N = 4, g = 3", "plot", [],
              summary="one curve, 11 points",
              plot=PlotData("z", "1/2", "3", {"N": "4", "g": "3"}, {"a_star": curve})),

@@ -92,7 +92,6 @@ def test_the_algebra_never_reaches_engine_renderers_or_command_line():
     assert offending("compiler.algebra", forbidden=("compiler.engine", "compiler.render", "compiler.cli")) == {}
 
 
-@pytest.mark.xfail(strict=True, reason="notation moving into one step (issue 8)")
 def test_the_algebra_carries_no_notation():
     assert offending("compiler.algebra", forbidden=("compiler.notation",)) == {}
 

@@ -6,7 +6,6 @@ from hypothesis import given, settings, strategies as st
 
 from support import bundle_table as table, whitney_sum
 from compiler.algebra.bundles import Trivial
-from compiler.notation import name_latex
 from compiler.algebra.graded import AlgebraError
 
 
@@ -19,8 +18,6 @@ def test_generators_follow_rank_conventions():
     assert t.get("L").keys == ("c1(L)",) and t.get("L").line and t.rank("L") == 1
     assert t.ring.generator_info("p2(T6)").degree == 8
     assert t.ring.generator_info("e(T6)").degree == 6
-    assert t.ring.generator_info("p1(T6)").latex == "p_{1}(T_{6})"
-    assert name_latex("T_W") == "T_{W}"
 
 
 def test_euler_squared_is_top_pontryagin():

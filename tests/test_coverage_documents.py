@@ -250,6 +250,7 @@ SPEC_FORMS = {
     "use of a bundled library document": r'^use\s+library\s+"',
     "sum with symbolic bounds": r"\bsum\(.*=\s*\d+\s*\.\.\s*[A-Za-z]",
     "series at a point": r"\b(series|leading)\(\s*\w+\s*,\s*\w+\s*=",
+    "show in a chosen form": r"^show\b.*\b(as\s+(expanded|factored)|collected\s+in)\b",
 }
 
 _FENCE = re.compile(r"^(`{3,}|~{3,})(.*)$")

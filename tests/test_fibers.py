@@ -13,7 +13,7 @@ g = sympy.Symbol("g", integer=True, positive=True)
 
 
 def gen(ring, key, degree, group=0):
-    return ring.generator(key, degree, text=key, latex=key, group=group)
+    return ring.generator(key, degree, group=group)
 
 
 def split_s4(truncate=12, angular_integral=Fraction(2)):
@@ -22,7 +22,7 @@ def split_s4(truncate=12, angular_integral=Fraction(2)):
     n1, n2 = gen(ring, "c1(L1)", 2), gen(ring, "c1(L2)", 2)
     p2 = n1 ** 2 * n2 ** 2
     fiber = sphere_fiber("S4", ring, 1, "NW", 5, p2, "e4", angular_integral, planes=[n1, n2])
-    return ring, fiber, ring.generator("e4", 4, text="e4", latex="e_4", group=1), p2
+    return ring, fiber, ring.generator("e4", 4, group=1), p2
 
 
 def assert_all_ok(checks, expected_count):
@@ -64,7 +64,7 @@ def test_s2_bundle_of_a_rank_3_bundle():
     ring = Ring([], 12)
     c = gen(ring, "c1(L)", 2)
     fiber = sphere_fiber("S2", ring, 1, "B", 3, c ** 2, "e2", planes=[c])
-    e2 = ring.generator("e2", 2, text="e2", latex="e_2", group=1)
+    e2 = ring.generator("e2", 2, group=1)
     result, checks = integrate(e2 ** 3 + 5 * e2 * c, fiber)
     assert result == 2 * c ** 2 + 10 * c
     assert_all_ok(checks, 5)
@@ -98,7 +98,7 @@ def test_unsplit_bundle_has_no_localization_check():
     ring = Ring([], 12)
     p2 = gen(ring, "p2(NW)", 8)
     fiber = sphere_fiber("S4", ring, 1, "NW", 5, p2, "e4")
-    e4 = ring.generator("e4", 4, text="e4", latex="e_4", group=1)
+    e4 = ring.generator("e4", 4, group=1)
     result, checks = integrate(e4 ** 3, fiber)
     assert result == 2 * p2
     assert_all_ok(checks, 2)
@@ -113,7 +113,7 @@ def test_localization_catches_a_split_that_does_not_match():
     p2 = gen(ring, "p2(NW)", 8)
     n1, n2 = gen(ring, "c1(L1)", 2), gen(ring, "c1(L2)", 2)
     fiber = sphere_fiber("S4", ring, 1, "NW", 5, p2, "e4", planes=[n1, n2])
-    e4 = ring.generator("e4", 4, text="e4", latex="e_4", group=1)
+    e4 = ring.generator("e4", 4, group=1)
     _, checks = integrate(e4 ** 3, fiber)
     failed = [c.what for c in checks if not c.ok]
     assert len(failed) == 2 and all("Bott–Cattaneo" in w for w in failed)

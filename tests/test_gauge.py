@@ -64,8 +64,8 @@ def test_factorize_refuses_a_mixed_degree_or_wrong_degrees():
 def test_factorize_finds_repeated_factors():
     # common practice, no source: (a + b)^2 (a - b) = X4 * X8 with X4 = a + b or a - b
     ring = Ring([], 12)
-    a = ring.generator("a", 4, text="a", latex="a")
-    b = ring.generator("b", 4, text="b", latex="b")
+    a = ring.generator("a", 4)
+    b = ring.generator("b", 4)
     value = (a + b) ** 2 * (a - b) * 3
     x4, x8 = factorize(value, (4, 8)).factors
     assert x4 * x8 == value and x4.degrees() == [4]

@@ -67,7 +67,7 @@ def test_k3_surface():
     # Â-genus 2 and signature -16 (Hirzebruch signature theorem, Hirzebruch 1966).
     t = table(4, T="real 4")
     ring = t.ring
-    w = ring.generator("w", 4, text="w", latex="w")
+    w = ring.generator("w", 4)
     sub = {"p1(T)": -48 * w}
     assert ahat(t, "T").substitute(sub).coefficient(w) == 2
     assert hirzebruch_l(t, "T").substitute(sub).coefficient(w) == -16
@@ -77,7 +77,7 @@ def test_cp2_todd_genus_and_signature():
     # common knowledge: CP^2 with c1 = 3h, c2 = 3h^2, h^3 = 0, integral of h^2 = 1 has
     # Todd genus 1 and signature 1 (p1 = c1^2 - 2c2 = 3h^2); Hirzebruch 1966.
     t = table(4, T="complex 2")
-    h = t.ring.generator("h", 2, text="h", latex="h")
+    h = t.ring.generator("h", 2)
     sub = {"c1(T)": 3 * h, "c2(T)": 3 * h * h}
     assert todd(t, "T").substitute(sub).coefficient(h * h) == 1
     assert hirzebruch_l(t, "T").substitute(sub).coefficient(h * h) == 1

@@ -20,7 +20,7 @@ FIBER = 1   # the fiber's group of classes
 
 
 def gen(ring, key, degree=2, group=0):
-    return ring.generator(key, degree, text=key, latex=key, group=group)
+    return ring.generator(key, degree, group=group)
 
 
 def build(points, classes, parameters=("eps",), dimension=None, symbols=(), truncate=12,

@@ -126,7 +126,7 @@ def test_integrand_without_a_fiber_class_is_a_failed_check(tmp_path):
 @pytest.fixture()
 def ring():
     r = Ring([], 12)
-    return r, r.generator("x", 2, text="x", latex="x"), r.generator("y", 4, text="y", latex="y")
+    return r, r.generator("x", 2), r.generator("y", 4)
 
 
 def test_product_rule(ring):

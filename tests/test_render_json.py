@@ -54,7 +54,8 @@ def test_remainder_table_and_plot_as_plain_data():
         "text": "1/24*p1(T4)^2", "display": "1/24*p1(T4)^2", "latex": r"\frac{1}{24} p_{1}(T4)^{2}",
         "degrees": [8]}
     table = steps["table"]["table"]
-    assert table["columns"] == ["N", "g", r"a_{\star}"]
+    assert table["names"] == ["N", "g", "a_star"]
+    assert table["rows"][0][:2] == ["2", "2"] and table["rows"][0][2] == table["text_rows"][0][2]
     assert [r[2] for r in table["text_rows"]] == [str(a_star(n, g)) for n in (2, 3) for g in (2, 3)]
     plot = steps["plot"]["plot"]
     assert (plot["variable"], plot["low"], plot["high"], plot["fixed"]) == ("z", "1/2", "3", {"N": "4", "g": "3"})

@@ -112,8 +112,8 @@ def test_radicals_kept_whole():
 
 def test_class_polynomial_collected_with_common_factor_out():
     ring = Ring([N], 12)
-    p1 = ring.generator("p1(T)", 4, text="p1(T)", latex="p_1(T)")
-    p2 = ring.generator("p2(T)", 8, text="p2(T)", latex="p_2(T)")
+    p1 = ring.generator("p1(T)", 4)
+    p2 = ring.generator("p2(T)", 8)
     value = p1 * p1 * ring.scalar((N - 1) / 96) - p2 * ring.scalar((N - 1) / 24)
     tree = display_tree(value)
     text = TextPrinter().doprint(tree)
@@ -144,7 +144,7 @@ def _evaluate(tree, classes):
 def test_display_tree_equals_the_value(size):
     # small values are collected and factored; large ones (past COLLECT_LIMIT terms) go term by term
     ring = Ring([N, g], 12)
-    gens = [ring.generator(f"c1(L{i})", 2, text=f"c1(L{i})", latex="") for i in range(size)]
+    gens = [ring.generator(f"c1(L{i})", 2) for i in range(size)]
     value = ring.zero()
     for i, x in enumerate(gens):
         value = value + x * x * ring.scalar((N - i) * (g - 1) / 6) - x * ring.scalar(g + i)

@@ -64,6 +64,17 @@ def test_prose_rules():
     assert "\\begin{equation*}\na\nb\n\\end{equation*}" in tex  # no paragraph break inside math
 
 
+def test_punctuation_after_a_displayed_value_stays_with_it():
+    long = ["add", *(["mul", ["int", k], ["pow", ["sym", "N"], k]] for k in range(2, 9))]
+    refs = {"a": ValueRecord("a", "", "", [0], long),
+            "k": ValueRecord("k", "1/2", "", [0], ["div", ["int", 1], ["int", 2]])}
+    tex = prose_tex("The value is @{a}. And @{k}, short.\n", refs)
+    _assert_balanced(tex)
+    # the long value is a display that ends with the full stop; the short one keeps its comma
+    assert re.search(r"N\^\{8\}\.\n\\end\{(equation|multline)\*\}\n And \$\\frac\{1\}\{2\}\$, short", tex), tex
+    assert "\n." not in tex
+
+
 def test_text_specials_escaped():
     assert escape_tex("50% & $x_1$ #{a}~^\\") == (
         r"50\% \& \$x\_1\$ \#\{a\}\textasciitilde{}\textasciicircum{}\textbackslash{}")

@@ -82,14 +82,13 @@ class BundleTable:
 
     def declare_symbolic(self, name: str, kind: str, symbol, *, group: int = 0) -> Bundle:
         """Declare a real or complex bundle whose rank is the declared integer symbol."""
-        from ..notation import name_latex
         if name in self._bundles:
             raise AlgebraError(f"bundle {name} is already declared")
         if kind not in (REAL, COMPLEX):
             raise AlgebraError(f"a bundle of symbolic rank is real or complex, not {kind}")
         b = Bundle(name, kind, 0, group, symbolic=symbolic_rank.SymbolicRank(name, kind == REAL, symbol))
         self._bundles[name] = b
-        b.keys = tuple(symbolic_rank.register(self.ring, b.symbolic, name_latex(name), group))
+        b.keys = tuple(symbolic_rank.register(self.ring, b.symbolic, group))
         return b
 
     def character(self, name: str) -> Element:
@@ -102,15 +101,13 @@ class BundleTable:
         return self.get(name).symbolic is not None
 
     def _register(self, b: Bundle) -> list[str]:
-        from ..notation import name_latex   # here, so that importing the algebra needs no sympy
-        ring, n, tex = self.ring, b.name, name_latex(b.name)
+        ring, n = self.ring, b.name
         keys = []
 
         def gen(prefix: str, idx: int | None, degree: int) -> Element:
             key = f"{prefix}{idx or ''}({n})"
-            latex = f"{prefix}_{{{idx}}}({tex})" if idx else f"{prefix}({tex})"
             keys.append(key)
-            return ring.generator(key, degree, text=key, latex=latex, group=b.group)
+            return ring.generator(key, degree, group=b.group)
 
         if b.kind == COMPLEX:
             for k in range(1, b.rank + 1):

@@ -219,6 +219,18 @@ class Element:
             out.append((R.monos.pairs(m), coef))
         return out
 
+    def fractions(self) -> list:
+        """(monomial, numerator, denominator) in normal-form order: the
+        monomial as in ``terms``, the coefficient a reduced quotient of
+        ``ring.coeffs`` polynomials (what the display form factors)."""
+        a = self._fresh()
+        C = a._ring.coeffs
+        out = []
+        for m, c in a._sorted():
+            g = C.gcd(c, a._den)
+            out.append((a._ring.monos.pairs(m), C.exquo(c, g), C.exquo(a._den, g)))
+        return out
+
     def leading_term(self) -> tuple["Element", "Element"]:
         """(leading monomial, its class-free coefficient) in the ring's order."""
         a = self._fresh()
@@ -351,9 +363,6 @@ class Element:
     def to_text(self) -> str:
         """Deterministic text in the document's own expression syntax (re-readable)."""
         return printing.to_text(self._ring, self._printed_terms())
-
-    def to_latex(self) -> str:
-        return printing.to_latex(self._ring, self._printed_terms())
 
     def __repr__(self) -> str:
         return f"Element({self.to_text()})"

@@ -121,7 +121,7 @@ def surface_fiber(name: str, ring: Ring, group: int, genus, tangent_euler: Eleme
                          f"not {tangent_euler.to_text()}")
     info = ring.generator_info(key)
     if info.degree != 2 or info.group != group:
-        raise FiberError(f"{info.text} must be a degree-2 class of the fiber {name}")
+        raise FiberError(f"{info.key} must be a degree-2 class of the fiber {name}")
     ring.add_rule(tangent_euler * tangent_euler, ring.zero())
     ring.vanish_above(group, 2)
     euler_characteristic = ring.scalar(2 - 2 * genus)
@@ -195,7 +195,7 @@ class SphereFiber(Fiber):
 
 def sphere_fiber(name: str, ring: Ring, group: int, bundle: str, rank: int,
                  top_pontryagin: Element | None, angular: str,
-                 angular_integral: Fraction = Fraction(2), *, latex: str | None = None,
+                 angular_integral: Fraction = Fraction(2), *,
                  planes: Sequence[Element] = ()) -> SphereFiber:
     """Declare the sphere bundle of ``bundle`` and its angular class ``angular``.
 
@@ -213,7 +213,7 @@ def sphere_fiber(name: str, ring: Ring, group: int, bundle: str, rank: int,
     if top_pontryagin is None or top_pontryagin.degrees() not in ([4 * n], []):
         raise FiberError(f"p{n}({bundle}) must be an element of degree {4 * n}")
     try:
-        e = ring.generator(angular, 2 * n, text=angular, latex=latex or angular, group=group)
+        e = ring.generator(angular, 2 * n, group=group)
     except AlgebraError as err:
         raise FiberError(str(err)) from None
     ring.add_rule(e * e, ring.scalar((angular_integral / 2) ** 2) * top_pontryagin)

@@ -39,7 +39,7 @@ def localized_fiber(name: str, ring: Ring, group: int, dimension: int, parameter
     for key in parameters:
         info = ring.generator_info(key)
         if info.degree != 2 or info.group == group:
-            raise FiberError(f"the equivariant parameter {info.text} must be a degree-2 class "
+            raise FiberError(f"the equivariant parameter {info.key} must be a degree-2 class "
                              f"outside the fiber {name}")
     points = tuple(checked_point(name, p, len(parameters), dimension // 2) for p in points)
     if not points:
@@ -99,13 +99,13 @@ def _checked_restrictions(ring, fiber, group, names, key, values) -> tuple:
     of the class's degree and free of the fiber's classes."""
     info = ring.generator_info(key)
     if info.group != group:
-        raise FiberError(f"{info.text} is not a class of the fiber {fiber}")
+        raise FiberError(f"{info.key} is not a class of the fiber {fiber}")
     extra = sorted(set(values) - set(names))
     if extra:
         raise FiberError(f"{extra[0]} is not a fixed point of {fiber}")
     missing = [n for n in names if n not in values]
     if missing:
-        raise FiberError(f"the restriction of {info.text} to fixed point {missing[0]} of "
+        raise FiberError(f"the restriction of {info.key} to fixed point {missing[0]} of "
                          f"{fiber} is missing")
     out = []
     for n in names:
@@ -113,10 +113,10 @@ def _checked_restrictions(ring, fiber, group, names, key, values) -> tuple:
         inside = sorted(k for k in value.generator_keys()
                         if ring.generator_info(k).group == group)
         if inside:
-            raise FiberError(f"the restriction of {info.text} to {n} contains the fiber class "
+            raise FiberError(f"the restriction of {info.key} to {n} contains the fiber class "
                              f"{inside[0]}")
         if value.degrees() not in ([info.degree], []):
-            raise FiberError(f"the restriction of {info.text} to fixed point {n} of {fiber} "
+            raise FiberError(f"the restriction of {info.key} to fixed point {n} of {fiber} "
                              f"has degree {value.degrees()}, not {info.degree}")
         out.append(value)
     return tuple(out)
@@ -188,14 +188,14 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
         if info.degree != 2:
             continue
         for j in range(1, k):
-            checks.append(_vanishing(fiber, [v ** j for v in values], _power_text(info.text, j)))
+            checks.append(_vanishing(fiber, [v ** j for v in values], _power_text(info.key, j)))
         top, poles = fiber.localize([v ** k for v in values])
         if poles:
             continue
         degree = _constant(top)
         scaled = sympy.cancel(degree * lcm_orders)
         checks.append(CrossCheck(
-            f"the degree of {_power_text(info.text, k)} over {fiber.name} is integral up to the orders",
+            f"the degree of {_power_text(info.key, k)} over {fiber.name} is integral up to the orders",
             scaled.is_integer is True,
             f"degree {fiber.text(degree)}, lcm of the orders {fiber.text(lcm_orders)}, "
             f"product {fiber.text(scaled)}"

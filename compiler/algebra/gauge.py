@@ -67,16 +67,13 @@ def _symbolic_basis(g: Group, top: int) -> tuple[Invariant, ...]:
     return tuple(Invariant(k, "tr", g.base) for k in range(2, top + 1, step))
 
 
-def text_of(name: str, g: Group, inv: Invariant) -> tuple[str, str]:
-    """The generator's text (it reads back with the parser) and LaTeX (closed by a
-    parenthesis, so that a power of it is not a double superscript)."""
-    field = f"F_{{{name}}}"
+def text_of(name: str, g: Group, inv: Invariant) -> str:
+    """The generator's key, in the document syntax (it reads back with the parser)."""
     if inv.kind == "pf":
-        return f"pf({name})", rf"\mathrm{{Pf}}({field})"
+        return f"pf({name})"
     if inv.rep == g.base:
-        return f"tr({name}, {inv.degree})", rf"\mathrm{{tr}}({field}^{{{inv.degree}}})"
-    return (f"tr({name}, {inv.rep}, {inv.degree})",
-            rf"\mathrm{{tr}}_{{\mathrm{{{inv.rep}}}}}({field}^{{{inv.degree}}})")
+        return f"tr({name}, {inv.degree})"
+    return f"tr({name}, {inv.rep}, {inv.degree})"
 
 
 def declare(ring: Ring, name: str, g: Group, trace_index: Fraction | None,
@@ -99,8 +96,8 @@ def declare(ring: Ring, name: str, g: Group, trace_index: Fraction | None,
     for inv in basis:
         if inv.degree > top:
             continue
-        text, latex = text_of(name, g, inv)
-        ring.generator(text, 2 * inv.degree, text=text, latex=latex)
+        text = text_of(name, g, inv)
+        ring.generator(text, 2 * inv.degree)
         keys.append((inv, text))
     if curvature is not None and curvature == 0:
         raise GroupError("the curvature factor must not be zero")

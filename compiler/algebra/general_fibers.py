@@ -35,7 +35,7 @@ def declare_fiber_classes(ring: Ring, group: int, classes: Sequence[tuple[str, i
         if key in out:
             raise FiberError(f"class {key} of {name} is declared twice")
         try:
-            out[key] = ring.generator(key, degree, text=key, latex=key, group=group)
+            out[key] = ring.generator(key, degree, group=group)
         except AlgebraError as err:
             raise FiberError(str(err)) from None
     if not out:
@@ -156,14 +156,14 @@ def _solve(ring: Ring, name: str, standard: list[Pairs], rows: list, values: lis
 
 
 def _pairs_text(ring: Ring, pairs: Pairs) -> str:
-    return "*".join(ring.generator_info(k).text + ("" if e == 1 else f"^{e}")
+    return "*".join(k + ("" if e == 1 else f"^{e}")
                     for k, e in pairs) or "1"
 
 
 def _generator(ring: Ring, key: str) -> Element:
     """The registered generator ``key`` as an element."""
     g = ring.generator_info(key)
-    return ring.generator(key, g.degree, text=g.text, latex=g.latex, group=g.group)
+    return ring.generator(key, g.degree, group=g.group)
 
 
 def _top_standard_monomials(ring: Ring, group: int, dimension: int) -> list[Pairs]:

@@ -12,7 +12,8 @@ Term API, for printers and callers: ``Element.terms()`` lists
 ``(monomial, coefficient)`` in normal-form order, the monomial as
 ``((generator key, exponent), ...)`` in printing order (base classes last) and
 the coefficient a sympy expression in the symbols; ``Ring.generator_info(key)``
-gives the registered ``Generator`` (degree, text, latex, group).
+gives the registered ``Generator`` (key, degree, group).  The algebra
+carries keys, not notation: how a class looks is the renderers' business.
 """
 from __future__ import annotations
 
@@ -45,11 +46,11 @@ class Ring:
         self._epoch = 0
 
     # ----------------------------------------------------------- generators
-    def generator(self, key: str, degree: int, *, text: str, latex: str, group: int = 0) -> "Element":
+    def generator(self, key: str, degree: int, *, group: int = 0) -> "Element":
         """Register (or look up) a class generator and return it as an element.
 
-        ``key`` identifies the class (terms() reports it), ``text``/``latex``
-        are its renderings, ``group`` 0 is the base and 1, 2, ... are fibers.
+        ``key`` identifies the class (terms() and the text report it, so it
+        is in the document syntax), ``group`` 0 is the base and 1, 2, ... are fibers.
         """
         old = self.monos.by_key.get(key)
         if old is not None:
@@ -61,7 +62,7 @@ class Ring:
             raise AlgebraError(f"class {key} needs a positive integer degree, got {degree!r}")
         if isinstance(group, bool) or not isinstance(group, int) or group < 0:
             raise AlgebraError(f"group must be a non-negative integer, got {group!r}")
-        self.monos.add(key, degree, text, latex, group)
+        self.monos.add(key, degree, group)
         self.layout.add_generator()
         self._epoch += 1
         return self.gen(key)

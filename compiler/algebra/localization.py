@@ -123,7 +123,7 @@ def integrate(x: Element, fiber: LocalizedFiber) -> tuple[Element, list[CrossChe
     """
     values = [fiber.restrict(x, i) for i in range(len(fiber.points))]
     total, poles = fiber.localize(values)
-    params = ", ".join(fiber.ring.generator_info(k).text for k in fiber.parameters)
+    params = ", ".join(fiber.ring.generator_info(k).key for k in fiber.parameters)
     checks = [CrossCheck(
         f"localization over {fiber.name} leaves no pole in {params}", not poles,
         ("poles: " + " + ".join(poles) + "; by fixed point: " + fiber.contributions(values))
@@ -158,7 +158,7 @@ def _without_rotation(x: Element, fiber: LocalizedFiber, total: Element) -> Cros
     for key, values in fiber.restrictions.items():
         base = [v.substitute(off) for v in values]
         if any(b != base[0] for b in base):
-            return CrossCheck(f"{ring.generator_info(key).text} has the same base part at "
+            return CrossCheck(f"{ring.generator_info(key).key} has the same base part at "
                               f"every fixed point of {fiber.name}", False,
                               "; ".join(f"{p.name}: {b.to_text()}"
                                         for p, b in zip(fiber.points, base)))

@@ -17,13 +17,11 @@ Mono = tuple
 
 @dataclass(frozen=True)
 class Generator:
-    """A registered class generator: ``key`` identifies it, ``text``/``latex``
-    are the renderings supplied by the caller, ``group`` 0 is the base."""
+    """A registered class generator: ``key`` identifies it (in the document
+    syntax, so it is also its text), ``group`` 0 is the base."""
     index: int
     key: str
     degree: int
-    text: str
-    latex: str
     group: int
 
 
@@ -41,8 +39,8 @@ class Monomials:
         self._key: dict[Mono, tuple] = {}
         self._mul: dict[tuple[Mono, Mono], object] = {}
 
-    def add(self, key: str, degree: int, text: str, latex: str, group: int) -> Generator:
-        gen = Generator(len(self.gens), key, degree, text, latex, group)
+    def add(self, key: str, degree: int, group: int) -> Generator:
+        gen = Generator(len(self.gens), key, degree, group)
         self.gens.append(gen)
         self.by_key[key] = gen
         self._block_pos.append(self._group_size.get(group, 0))
@@ -142,13 +140,6 @@ class Monomials:
     def text(self, m: Mono) -> str:
         parts = []
         for i, e in self.factor_order(m):
-            t = self.gens[i].text
+            t = self.gens[i].key
             parts.append(t if e == 1 else f"{t}^{e}")
         return "*".join(parts) if parts else "1"
-
-    def latex(self, m: Mono) -> str:
-        parts = []
-        for i, e in self.factor_order(m):
-            t = self.gens[i].latex
-            parts.append(t if e == 1 else f"{{{t}}}^{{{e}}}")
-        return " ".join(parts)

@@ -1,4 +1,4 @@
-"""Text and LaTeX of ring elements, written from the normal-form terms.
+"""The normal-form text of ring elements, written from the normal-form terms.
 
 Each coefficient num/den is printed as sign * a/b * P/Q with P and Q
 primitive integer polynomials with positive leading terms, so the text is
@@ -84,26 +84,10 @@ def _scalar_text(a, b, P, Q, symbols, alone: bool = False) -> str:
 
 
 def prim_expr(prim, symbols):
-    """A primitive polynomial as a sympy expression (for sympy's printer and callers)."""
+    """A primitive polynomial as a sympy expression (for ``Element.terms``)."""
     import sympy
     return sympy.Add(*[sympy.Integer(c) * sympy.Mul(*[s ** e for s, e in zip(symbols, exps)])
                        for exps, c in prim])
-
-
-def _scalar_latex(a, b, P, Q, symbols) -> str:
-    from .. import notation
-
-    def factor(n, prim):
-        if is_one(prim):
-            return str(n)
-        body = notation.latex(prim_expr(prim, symbols))
-        if len(prim) > 1 and n != 1:
-            body = rf"\left({body}\right)"
-        return body if n == 1 else f"{n} {body}"
-    top = factor(a, P)
-    if b == 1 and is_one(Q):
-        return top
-    return rf"\frac{{{top}}}{{{factor(b, Q)}}}"
 
 
 def to_text(ring, items) -> str:
@@ -120,20 +104,3 @@ def to_text(ring, items) -> str:
         out.append(("-" if s < 0 else "") + body if not out else (" - " if s < 0 else " + ") + body)
     return "".join(out) if out else "0"
 
-
-def to_latex(ring, items) -> str:
-    out = []
-    for m, (s, x, y, P, Q) in items:
-        coef = _scalar_latex(x, y, P, Q, ring.symbols)
-        if not m:
-            bare_sum = len(P) > 1 and x == 1 and y == 1 and is_one(Q)
-            lone = len(items) == 1 and s > 0
-            body = rf"\left({coef}\right)" if bare_sum and not lone else coef
-        elif coef == "1":
-            body = ring.monos.latex(m)
-        else:
-            if len(P) > 1 and y == 1 and is_one(Q) and x == 1:
-                coef = rf"\left({coef}\right)"
-            body = f"{coef} {ring.monos.latex(m)}"
-        out.append(("-" if s < 0 else "") + body if not out else (" - " if s < 0 else " + ") + body)
-    return "".join(out) if out else "0"

@@ -45,14 +45,13 @@ def key(name: str, k: int) -> str:
     return f"ch{k}({name})"
 
 
-def register(ring: Ring, b: SymbolicRank, latex_name: str, group: int = 0) -> list[str]:
+def register(ring: Ring, b: SymbolicRank, group: int = 0) -> list[str]:
     """Register the generators ch_k(V) up to the truncation (only even k for a
     real V, whose complexification has no odd ch); return their keys."""
     keys = []
     for index in range(2 if b.real else 1, ring.truncate // 2 + 1, 2 if b.real else 1):
         k = key(b.name, index)
-        ring.generator(k, 2 * index, text=k, latex=rf"\mathrm{{ch}}_{{{index}}}({latex_name})",
-                       group=group)
+        ring.generator(k, 2 * index, group=group)
         keys.append(k)
     return keys
 

@@ -38,8 +38,8 @@ def restore_step(step, entry: dict) -> None:
     step.remainder = _record(entry["remainder"]) if entry["remainder"] is not None else None
     table = entry["table"]
     if table is not None:
-        step.table = TableData(names=_strings(table["names"]), columns=_strings(table["columns"]),
-                               rows=[_strings(r) for r in _list(table["rows"])],
+        step.table = TableData(names=_strings(table["names"]),
+                               cells=[[_tree(c) for c in _list(r)] for r in _list(table["cells"])],
                                text_rows=[_strings(r) for r in _list(table["text_rows"])])
     plot = entry["plot"]
     if plot is not None:
@@ -86,9 +86,13 @@ def _record(v) -> ValueRecord:
              and set(v) == {"name", "text", "latex", "degrees", "tree", "unknown_from"}, "value")
     degrees = _list(v["degrees"])
     _require(all(type(d) is int for d in degrees), "degrees")
-    _require(valid_tree(v["tree"]), "tree")
-    return ValueRecord(_str(v["name"]), _str(v["text"]), _str(v["latex"]), degrees, v["tree"],
+    return ValueRecord(_str(v["name"]), _str(v["text"]), _str(v["latex"]), degrees, _tree(v["tree"]),
                        precision(v["unknown_from"]))
+
+
+def _tree(t) -> list:
+    _require(valid_tree(t), "tree")
+    return t
 
 
 def precision(p):

@@ -246,12 +246,14 @@ def fraction_text(value: Fraction) -> str:
     return str(value.numerator) if value.denominator == 1 else f"{value.numerator}/{value.denominator}"
 
 
-def record(name: str, value: Value, unknown_from: int | None = None) -> ValueRecord:
-    """A value as the renderers see it: normal-form text, display tree and its
-    LaTeX; ``unknown_from`` is the degree from which it is not known (shown as
-    an order term, like a series' O(x^n), in the display; the normal-form
-    text stays what the parser reads back)."""
-    tree = display_tree(value)
+def record(name: str, value: Value, unknown_from: int | None = None,
+           form: str = "factored", symbol=None) -> ValueRecord:
+    """A value as the renderers see it: normal-form text, display tree (in
+    ``form``, see ``display_tree``) and its LaTeX; ``unknown_from`` is the
+    degree from which it is not known (shown as an order term, like a
+    series' O(x^n), in the display; the normal-form text stays what the
+    parser reads back)."""
+    tree = display_tree(value, form, symbol)
     text = value.to_text() if isinstance(value, Element) else notation.text(value)
     degrees = value.degrees() if isinstance(value, Element) else [] if value == 0 else [0]
     if unknown_from is not None:

@@ -81,6 +81,10 @@ LONG_INLINE = 30
 WIDTH = 46
 
 
+#: Punctuation that belongs to a displayed value before it.
+_TRAILING = re.compile(r"[.,;:!?]+")
+
+
 def _value_ref(self, tokens, idx, options, env) -> str:
     t = tokens[idx]
     ref = env["refs"].get(t.meta["name"])
@@ -90,8 +94,13 @@ def _value_ref(self, tokens, idx, options, env) -> str:
     inline = printer.doprint(ref.tree)
     if printer.measure(inline) <= LONG_INLINE:
         return math_element(inline)
-    # A long value cannot wrap inside a line of prose: set it on its own line.
-    return value_math(printer, "", ref.tree)
+    # A long value cannot wrap inside a line of prose: set it on its own
+    # line, with the punctuation that follows it (not at the next line's start).
+    after = tokens[idx + 1] if idx + 1 < len(tokens) else None
+    mark = _TRAILING.match(after.content) if after is not None and after.type == "text" else None
+    if mark:
+        after.content = after.content[mark.end():]
+    return value_math(printer, "", ref.tree, mark.group() if mark else "")
 
 
 def _image(self, tokens, idx, options, env) -> str:
@@ -126,11 +135,14 @@ def _plot_svg(p: PlotData, notation: dict[str, str]) -> Markup:
     return Markup(plot_svg(p, notation))
 
 
-def value_math(printer: MathMLPrinter, name: str, tree: list) -> Markup:
+def value_math(printer: MathMLPrinter, name: str, tree: list, trailing: str = "") -> Markup:
     """``name = value`` as display math, as an aligned table of lines when
-    long (browsers do not break MathML lines); an empty name shows the value."""
+    long (browsers do not break MathML lines); an empty name shows the value;
+    ``trailing`` punctuation ends the last line."""
     lhs = printer.doprint(name_tree(name, printer.notation)) + "<mo>=</mo>" if name else ""
     rows = lines(printer, tree, WIDTH - printer.measure(lhs))
+    if trailing:
+        rows[-1] += f"<mo>{escape(trailing)}</mo>"
     if len(rows) == 1:
         return math_element(lhs + rows[0], display=True)
     indent = '<mspace width="1em"></mspace>'
@@ -166,6 +178,7 @@ def _environment(report: Report) -> jinja2.Environment:
         value_math=lambda v: value_math(printer, v.name, v.tree),
         tree_math=lambda tree: value_math(printer, "", tree),
         name_math=lambda name: math_element(printer.doprint(name_tree(name, report.notation))),
+        cell_math=lambda tree: math_element(printer.doprint(tree)),
         degrees=degrees_text,
         svg=lambda p: _plot_svg(p, report.notation),
         extremum=lambda c: _extremum(c, LatexPrinter(report.notation)),

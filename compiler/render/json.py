@@ -30,7 +30,8 @@ def _check(c: CheckResult) -> dict:
 
 
 def _table(t: TableData) -> dict:
-    return {"names": list(t.names), "columns": list(t.columns), "rows": [list(r) for r in t.rows],
+    """``text_rows`` in the normal form, ``rows`` in the display form."""
+    return {"names": list(t.names), "rows": [[TextPrinter().doprint(c) for c in r] for r in t.cells],
             "text_rows": [list(r) for r in t.text_rows]}
 
 

@@ -62,11 +62,10 @@ _STATUS_WORDS = {"proven": "proven exactly", "sampled": "sampled", "failed": "FA
 
 def _tabular(step: Step, printer: LatexPrinter) -> str:
     t = step.table
-    names = t.names if len(t.names) == len(t.columns) else [""] * len(t.columns)
-    head = " & ".join(f"${printer.doprint(name_tree(n, printer.notation)) if n else c}$"
-                      for n, c in zip(names, t.columns))
-    rows = "".join(" & ".join(f"${c}$" for c in row) + " \\\\\n" for row in t.rows)
-    return (f"\\begin{{center}}\\renewcommand{{\\arraystretch}}{{1.4}}\n\\begin{{tabular}}{{{'c' * len(t.columns)}}}\n"
+    head = " & ".join("$" + (printer.doprint(name_tree(n, printer.notation)) if n else r"\cdots") + "$"
+                      for n in t.names)
+    rows = "".join(" & ".join(f"${printer.doprint(c)}$" for c in row) + " \\\\\n" for row in t.cells)
+    return (f"\\begin{{center}}\\renewcommand{{\\arraystretch}}{{1.4}}\n\\begin{{tabular}}{{{'c' * len(t.names)}}}\n"
             f"\\hline\n{head} \\\\\n\\hline\n{rows}\\hline\n\\end{{tabular}}\n\\end{{center}}\n")
 
 

@@ -69,11 +69,27 @@ class _TexWriter:
         self.links: list[tuple[str, bool]] = []  # (href, is autolink) of open links
 
     def render(self, tokens) -> str:
+        _keep_punctuation(tokens)
         return "".join(RULES.get(t.type, _unknown)(self, t) for t in tokens)
 
     def math(self, token) -> str:
         """A math token's LaTeX with its @{NAME} values spliced in."""
         return expand_refs(math_tex(token.content), {k: self.printer.doprint(v.tree) for k, v in self.refs.items()})
+
+
+#: Punctuation that belongs to the value before it: a value set as a
+#: display takes it inside, so it does not start the next line.
+_TRAILING = re.compile(r"[.,;:!?]+")
+
+
+def _keep_punctuation(tokens) -> None:
+    """Move the punctuation right after each ``@{NAME}`` into its token's ``meta``."""
+    for ref, after in zip(tokens, tokens[1:]):
+        if ref.type == "value_ref" and after.type == "text":
+            mark = _TRAILING.match(after.content)
+            if mark:
+                ref.meta["trailing"] = mark.group()
+                after.content = after.content[mark.end():]
 
 
 def _unknown(w: _TexWriter, t) -> str:
@@ -105,13 +121,15 @@ def _math_block(content: str, tag: str = "") -> str:
 
 
 def _value_ref(w, t) -> str:
-    name = t.meta["name"]
+    name, trailing = t.meta["name"], t.meta.get("trailing", "")
     if name not in w.refs:
-        return r"\textbf{??}\," + escape_tex(t.content)
+        return r"\textbf{??}\," + escape_tex(t.content) + trailing
     rows = lines(w.printer, w.refs[name].tree, WIDTH)
     if len(rows) == 1 and w.printer.measure(rows[0]) <= LONG_INLINE:
-        return f"${rows[0]}$"
-    # Too long for a line of prose: display it, broken at top-level signs.
+        return f"${rows[0]}${trailing}"
+    # Too long for a line of prose: display it, broken at top-level signs,
+    # with the punctuation that follows it inside.
+    rows[-1] += trailing
     if len(rows) == 1:
         return f"\\begin{{equation*}}\n{rows[0]}\n\\end{{equation*}}\n"
     return "\\begin{multline*}\n" + "\\\\\n".join(rows) + "\n\\end{multline*}\n"

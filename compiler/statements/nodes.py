@@ -217,6 +217,8 @@ class Check(_Statement):
 @dataclass(frozen=True)
 class Show(_Statement):
     exprs: tuple[en.Expr, ...]
+    form: str = "factored"  # or "expanded", "collected" (in ``symbol``)
+    symbol: Optional[Ident] = None
     kind = "show"
 
 

@@ -212,8 +212,26 @@ def _check(c: Cursor) -> n.Check:
     return n.Check(lhs, op.text, rhs, _for_clauses(c), **c.span)
 
 
+#: The forms ``show X as FORM`` accepts.
+SHOW_FORMS = ("expanded", "factored")
+
+
 def _show(c: Cursor) -> n.Show:
-    return n.Show(expr_list(c), **c.span)
+    """``show X`` in the display form; ``as expanded``, ``as factored`` or
+    ``collected in N`` ask for another."""
+    exprs = expr_list(c)
+    if c.at_word("collected"):
+        c.next()
+        c.expect_word("in")
+        return n.Show(exprs, "collected", c.name("the symbol to collect in"), **c.span)
+    if c.at_word("as"):
+        c.next()
+        form = c.peek()
+        if form.kind != "name" or form.text not in SHOW_FORMS:
+            c.expected("'expanded' or 'factored'")
+        c.next()
+        return n.Show(exprs, form.text, **c.span)
+    return n.Show(exprs, **c.span)
 
 
 def _table(c: Cursor) -> n.Table:

@@ -141,8 +141,7 @@ def _fixed_points(scope, s: n.FixedPointFiber, step: Step) -> None:
     at once (the checks show in this step) and it integrates by localization."""
     ring, group = scope.ring, scope.new_group()
     for name in s.parameters:
-        scope.bind(name, "class", ring.generator(name, 2, text=name,
-                                                 latex=notation.name_latex(name)), s.line)
+        scope.bind(name, "class", ring.generator(name, 2), s.line)
     identify = {}
     for name, node in zip(s.parameters, s.identified):
         if node is not None:

@@ -10,6 +10,7 @@ from ...algebra import budget
 from ...checks import free_symbols, show, substitute
 from ...expressions import as_expr, is_class_free
 from ...precision import unknown_above
+from ...presentation import display_tree
 from ...results import PlotData, Step, TableData
 from ...statements import expr_nodes as en, nodes as n
 from ..scope import fraction_text, record
@@ -23,28 +24,34 @@ def _label(node) -> str:
 
 
 def _show(scope, s: n.Show, step: Step) -> None:
+    symbol = None
+    if s.symbol is not None:
+        if s.symbol not in scope.symbols_by_name:
+            raise scope.fail(s.symbol, f"'{s.symbol}' is not a declared symbol")
+        symbol = scope.symbols_by_name[s.symbol].symbol
     for node in s.exprs:
         known = scope.known(node)
-        step.values.append(record(_label(node), known.value,
-                                  unknown_above(known.exact_to, scope.ring.truncate)))
+        try:
+            step.values.append(record(_label(node), known.value,
+                                      unknown_above(known.exact_to, scope.ring.truncate),
+                                      s.form, symbol))
+        except ValueError as problem:
+            raise scope.fail(node, f"cannot show it collected in {s.symbol}: {problem}")
 
 
 def _table(scope, s: n.Table, step: Step) -> None:
     values = [scope.read(node) for node in s.exprs]
     points = scope.points(s.clauses)
     params = [c.name for c in s.clauses]
-    columns = [notation.name_latex(p) for p in params]
-    columns += [notation.name_latex(node.id) if isinstance(node, en.Name) else r"\cdots"
-                for node in s.exprs]
     rows, text_rows = [], []
     for point in points or [{}]:
         budget.check()
         cells = [substitute(scope.ring, v, point) for v in values]
         coords = [point[scope.symbols_by_name[p].symbol] for p in params]
-        rows.append([notation.latex(c) for c in coords] + [record("", c).latex for c in cells])
+        rows.append([display_tree(c) for c in coords] + [record("", c).tree for c in cells])
         text_rows.append([notation.text(c) for c in coords] + [show(c) for c in cells])
     names = params + [_label(node) for node in s.exprs]
-    step.table = TableData(columns=columns, rows=rows, text_rows=text_rows, names=names)
+    step.table = TableData(names=names, cells=rows, text_rows=text_rows)
 
 
 def _plot(scope, s: n.Plot, step: Step) -> None:
