@@ -194,6 +194,9 @@ def test_a_wrong_restriction_fails_naming_the_monomial(tmp_path):
     ("model CP2", "  line H: p0 = 0, p1 = -t1, p2 = -t2",
      "no line of P stands for the class x of CP2"),
     ("tangent TP", "  line H = x: p0 = 0, p1 = -t1, p2 = -t2", "the header names none"),
+    ("model G4", "  line H = z: p0 = 0, p1 = -t1, p2 = -t2", "z has degree 4"),
+    ("model CP2", "  line H = x: p0 = 0, p1 = -t1, p2 = -t2\n  line K = x: p0 = 0, "
+     "p1 = -t1, p2 = -t2", "two lines of P stand for x"),
     ("model S", "  line H = x: p0 = 0, p1 = -t1, p2 = -t2", "S has dimension 2, P has 4"),
     ("model D", "  line H = x: p0 = 0, p1 = -t1, p2 = -t2",
      "D is not a fiber given by classes, relations and integrals"),
@@ -202,10 +205,11 @@ def test_bad_model_is_an_error(tmp_path, header, line, message):
     report = compile_doc(tmp_path, *CP2_MODEL, "fiber S: surface, genus 0, tangent TS",
                          "fiber D: spindle 1, 1, rotation u",
                          "fiber G: dimension 2", "  class y: 2", "  integral y = 1",
+                         "fiber G4: dimension 4", "  class z: 4", "  integral z = 1",
                          f"fiber P: fixed points, dimension 4, rotation t1, t2, {header}",
                          "  point p0: weights t1, t2", "  point p1: weights -t1, t2 - t1",
                          "  point p2: weights -t2, t1 - t2", line)
-    step = step_at(report, 11)
+    step = step_at(report, 14)
     assert step.status == "error"
     assert message in step.checks[-1].detail
 

@@ -217,7 +217,7 @@ def model_agreement(fiber: LocalizedFiber, model: Fiber, classes: dict) -> Cross
     unmapped = sorted(model.class_keys() - set(classes))
     if unmapped:
         raise FiberError(f"no line of {fiber.name} stands for the class "
-                         f"{ring.generator_info(unmapped[0]).text} of {model.name}")
+                         f"{ring.generator_info(unmapped[0]).key} of {model.name}")
     shown = []
     for pairs in _top_monomials(ring, sorted(classes), model.dimension):
         text = ring.monomial_text(pairs)

@@ -201,6 +201,9 @@ def _model_agreement(scope, s: n.FixedPointFiber, fiber):
             raise scope.fail(name, f"{name} is not a class of the fiber {s.model}")
         if key in classes:
             raise scope.fail(name, f"two lines of {s.name} stand for {name}")
+        if scope.ring.generator_info(key).degree != 2:
+            raise scope.fail(name, f"{name} has degree {scope.ring.generator_info(key).degree}; "
+                                   "the c1 of a line standing for it has degree 2")
         classes[key] = scope.bundles.get(line).keys[0]
     try:
         return fixed_points.model_agreement(fiber, model, classes)
