@@ -234,6 +234,8 @@ SPEC_FORMS = {
     "spindle fiber": r"^fiber\s+\w+\s*:\s*spindle\b",
     "fixed point": r"^point\b",
     "line bundle by its restrictions": r"^line\b",
+    "fixed-point fiber checked against a model": r"^fiber\s+\w+\s*:\s*fixed\s+points\b.*\bmodel\b",
+    "line standing for a model class": r"^line\s+\w+\s*=\s*\w+\s*:",
     "fiber class": r"^class\b",
     "fiber relation": r"^relation\b",
     "fiber integral": r"^integral\b",

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import pytest
 
+from compiler.errors import DocumentError
 from compiler.statements import nodes as n
 from compiler.statements.parser import parse_block
 from support import compile_text, parse_problem
@@ -115,6 +116,108 @@ def test_projective_plane_by_a_torus(tmp_path):
         "integrate p1(TP) over P -> p1", "check p1 == 3",
         "integrate c1(H)^3 over P -> h3", "check h3 == -(t1 + t2)")
     assert report.passed, failures(report)
+
+
+# ---------------------------------------------------------------- agreement with a model
+
+CP2_MODEL = ("fiber CP2: dimension 4", "  class x: 2", "  relation x^3 = 0",
+             "  integral x^2 = 1")
+
+
+def cp2_by_points(h_at_p1: str = "-t1", h_at_p2: str = "-t2"):
+    return ("fiber P: fixed points, dimension 4, rotation t1, t2, tangent TP, model CP2",
+            "  point p0: weights t1, t2", "  point p1: weights -t1, t2 - t1",
+            "  point p2: weights -t2, t1 - t2",
+            f"  line H = x: p0 = 0, p1 = {h_at_p1}, p2 = {h_at_p2}")
+
+
+def test_model_and_line_classes_are_parsed():
+    (fiber,) = parse_block("fiber P: fixed points, dimension 2, rotation t, model S, "
+                           "tangent TP\n  point a: weight t\n  point b: weight -t\n"
+                           "  line L = x: a = t, b = 0\n  line M: a = 0, b = -t\n", 1, "doc.md")
+    assert fiber.model == "S" and fiber.tangent == "TP"
+    assert fiber.lines == ("L", "M") and fiber.line_models == ("x", None)
+
+
+def test_projective_plane_agrees_with_its_classes_and_relations(tmp_path):
+    # H^*(CP^2) = Q[x]/(x^3) with ∫ x^2 = 1, and the hyperplane class restricts to
+    # -λ_i at the fixed point p_i (Atiyah and Bott, Topology 23, 1984; common practice).
+    report = compile_doc(tmp_path, *CP2_MODEL, *cp2_by_points())
+    assert report.passed, failures(report)
+    assert "localization over P agrees with CP2 on x^2" in [c.what for c in
+                                                           step_at(report, 6).checks]
+
+
+def hirzebruch_f1(tmp_path, fiber_class: str = "x", section: str = "y"):
+    """F_1 by classes and relations and by the fixed points of a torus, the lines
+    of rays 1 and 2 standing for ``fiber_class`` and ``section``."""
+    return compile_doc(
+        tmp_path, "fiber F1: dimension 4", "  class x, y: 2",
+        "  relation x^2 = 0, y^2 = -x*y", "  integral x*y = 1",
+        "fiber T: fixed points, dimension 4, rotation t1, t2, model F1",
+        "  point P12: weights t1, t2", "  point P23: weights t1 + t2, -t1",
+        "  point P34: weights -t1, -t1 - t2", "  point P41: weights -t2, t1",
+        f"  line D1 = {fiber_class}: P12 = t1, P23 = 0, P34 = 0, P41 = t1",
+        f"  line D2 = {section}: P12 = t2, P23 = t1 + t2, P34 = 0, P41 = 0",
+        "integrate (2*c1(D2) + 3*c1(D1))^2 over T -> c1squared", "check c1squared == 8")
+
+
+def test_hirzebruch_surface_agrees_with_its_classes_and_relations(tmp_path):
+    # F_1 with fiber class x and section y: x^2 = 0, y^2 = -x y, ∫ x y = 1, and
+    # c1(T) = 2y + 3x with ∫ c1^2 = 8 (Griffiths and Harris, Principles of Algebraic
+    # Geometry, 1978, ch. 4 §3, from memory).  As a toric surface with rays (1,0),
+    # (0,1), (-1,1), (0,-1) the divisors of rays 1 and 2 are the fiber and the
+    # section and restrict to the dual vectors of those rays (common practice, no source).
+    report = hirzebruch_f1(tmp_path)
+    assert report.passed, failures(report)
+    assert "localization over T agrees with F1 on x^2, x*y, y^2" in [
+        c.what for c in step_at(report, 6).checks]
+
+
+def test_swapped_classes_fail_on_the_relation(tmp_path):
+    # With the section standing for the fiber class, x^2 = 0 of F1 is broken: the
+    # section squares to -1 on F_1 (Griffiths and Harris 1978, from memory).
+    report = hirzebruch_f1(tmp_path, fiber_class="y", section="x")
+    assert failures(report)[0] == (6, "localization over T agrees with F1",
+                                   "on x^2: ∫ over F1 = 0, by localization -1")
+
+
+def test_a_wrong_restriction_fails_naming_the_monomial(tmp_path):
+    # Twice the hyperplane class has consistent data (no pole) but ∫ (2H)^2 = 4 ≠ 1.
+    report = compile_doc(tmp_path, *CP2_MODEL, *cp2_by_points("-2*t1", "-2*t2"))
+    assert failures(report) == [(6, "localization over P agrees with CP2",
+                                 "on x^2: ∫ over CP2 = 1, by localization 4")]
+
+
+@pytest.mark.parametrize("header, line, message", [
+    ("model CP2", "  line H = y: p0 = 0, p1 = -t1, p2 = -t2", "y is not a class of the fiber CP2"),
+    ("model CP2", "  line H: p0 = 0, p1 = -t1, p2 = -t2",
+     "no line of P stands for the class x of CP2"),
+    ("tangent TP", "  line H = x: p0 = 0, p1 = -t1, p2 = -t2", "the header names none"),
+    ("model G4", "  line H = z: p0 = 0, p1 = -t1, p2 = -t2", "z has degree 4"),
+    ("model CP2", "  line H = x: p0 = 0, p1 = -t1, p2 = -t2\n  line K = x: p0 = 0, "
+     "p1 = -t1, p2 = -t2", "two lines of P stand for x"),
+    ("model S", "  line H = x: p0 = 0, p1 = -t1, p2 = -t2", "S has dimension 2, P has 4"),
+    ("model D", "  line H = x: p0 = 0, p1 = -t1, p2 = -t2",
+     "D is not a fiber given by classes, relations and integrals"),
+])
+def test_bad_model_is_an_error(tmp_path, header, line, message):
+    report = compile_doc(tmp_path, *CP2_MODEL, "fiber S: surface, genus 0, tangent TS",
+                         "fiber D: spindle 1, 1, rotation u",
+                         "fiber G: dimension 2", "  class y: 2", "  integral y = 1",
+                         "fiber G4: dimension 4", "  class z: 4", "  integral z = 1",
+                         f"fiber P: fixed points, dimension 4, rotation t1, t2, {header}",
+                         "  point p0: weights t1, t2", "  point p1: weights -t1, t2 - t1",
+                         "  point p2: weights -t2, t1 - t2", line)
+    step = step_at(report, 14)
+    assert step.status == "error"
+    assert message in step.checks[-1].detail
+
+
+def test_a_model_that_is_not_declared_is_an_unknown_name(tmp_path):
+    with pytest.raises(DocumentError, match="unknown name 'Q'"):
+        compile_doc(tmp_path, "fiber P: fixed points, dimension 2, rotation t, model Q",
+                    "  point a: weight t", "  point b: weight -t")
 
 
 # ---------------------------------------------------------------- bad input

@@ -15,7 +15,7 @@ from math import lcm
 
 import sympy
 
-from .fibers import CrossCheck, FiberError
+from .fibers import CrossCheck, Fiber, FiberError, integrate as integrate_model
 from .graded import Element, Ring
 from .localization import FixedPoint, LocalizedFiber, linear_form
 
@@ -192,7 +192,7 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
         top, poles = fiber.localize([v ** k for v in values])
         if poles:
             continue
-        degree = sum((c for pairs, c in top.terms() if not pairs), sympy.Integer(0))
+        degree = _constant(top)
         scaled = sympy.cancel(degree * lcm_orders)
         checks.append(CrossCheck(
             f"the degree of {_power_text(info.key, k)} over {fiber.name} is integral up to the orders",
@@ -202,6 +202,55 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
             + ("" if scaled.is_integer is not None else " (not decided for all values of "
                                                           "the symbols)")))
     return checks
+
+
+def model_agreement(fiber: LocalizedFiber, model: Fiber, classes: dict) -> CrossCheck:
+    """∫_model m against the localization of the same product, for every
+    monomial m of the model's top degree (so its relations are tested too).
+
+    ``classes`` maps each model class key to a class key of ``fiber`` whose
+    restrictions stand for it.  The localization's part of degree 0 in the
+    parameters is the ordinary integral (Atiyah and Bott, Topology 23, 1984),
+    so the two must agree on every monomial; the first that does not is named.
+    """
+    ring = fiber.ring
+    unmapped = sorted(model.class_keys() - set(classes))
+    if unmapped:
+        raise FiberError(f"no line of {fiber.name} stands for the class "
+                         f"{ring.generator_info(unmapped[0]).key} of {model.name}")
+    shown = []
+    for pairs in _top_monomials(ring, sorted(classes), model.dimension):
+        text = ring.monomial_text(pairs)
+        shown.append(text)
+        product = reduce(lambda a, b: a * b, (ring.gen(k) ** e for k, e in pairs), ring.one())
+        expected = _constant(integrate_model(product, model)[0])
+        values = [reduce(lambda a, b: a * b, (fiber.restrictions[classes[k]][i] ** e
+                                              for k, e in pairs), ring.one())
+                  for i in range(len(fiber.points))]
+        total, poles = fiber.localize(values)
+        found = _constant(total)
+        if poles or sympy.cancel(found - expected) != 0:
+            return CrossCheck(f"localization over {fiber.name} agrees with {model.name}", False,
+                              f"on {text}: ∫ over {model.name} = {fiber.text(expected)}, by "
+                              + (f"localization poles {' + '.join(poles)}" if poles else
+                                 f"localization {fiber.text(found)}"))
+    return CrossCheck(f"localization over {fiber.name} agrees with {model.name} on "
+                      + ", ".join(shown), True)
+
+
+def _top_monomials(ring: Ring, keys: list, dimension: int) -> list:
+    """Every monomial in ``keys`` of degree ``dimension``, as (key, exponent) pairs."""
+    if not keys:
+        return [()] if dimension == 0 else []
+    degree = ring.generator_info(keys[0]).degree
+    return [(((keys[0], e),) if e else ()) + rest
+            for e in range(dimension // degree, -1, -1)
+            for rest in _top_monomials(ring, keys[1:], dimension - e * degree)]
+
+
+def _constant(x: Element) -> sympy.Expr:
+    """The part of ``x`` free of every class (degree 0)."""
+    return sum((c for pairs, c in x.terms() if not pairs), sympy.Integer(0))
 
 
 def _vanishing(fiber: LocalizedFiber, values, what: str) -> CrossCheck:

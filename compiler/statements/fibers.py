@@ -6,7 +6,8 @@ other kinds collect the indented lines that follow their header: under
 make one ``GeneralFiber``; under ``fiber F: fixed points, ...`` the lines
 ``point`` and ``line`` make one ``FixedPointFiber``, and so do the ``line``
 lines under ``fiber F: spindle a, b, ...`` (whose points are ``north`` and
-``south``).
+``south``).  ``, model G`` after the rotation names a general fiber the
+localization is checked against; ``line L = x: ...`` says L's c1 is G's class x.
 """
 from __future__ import annotations
 
@@ -126,30 +127,38 @@ def _spindle(c: Cursor, name: Ident) -> Header:
 
 
 def _rotation(c: Cursor) -> tuple:
-    """``, rotation t [= value], u [= value] [, tangent T]``: the parameters,
-    what each stands for (None: formal), and the tangent bundle's name."""
+    """``, rotation t [= value], u [= value] [, tangent T] [, model G]``: the
+    parameters, what each stands for (None: formal), the tangent bundle's name
+    and the general fiber to agree with."""
     c.expect(",")
     c.expect_word("rotation")
-    parameters, identified, tangent = [], [], None
+    parameters, identified, tail = [], [], {"tangent": None, "model": None}
     while True:
         parameters.append(c.name("a rotation parameter"))
         identified.append(expr(c) if c.accept("=") else None)
         if not c.accept(","):
             break
-        if c.at_word("tangent"):
+        word = next((w for w in _TAIL if c.at_word(w)), None)
+        if word is not None:
             c.next()
-            tangent = c.name("the tangent bundle's name")
+            tail[word] = _TAIL[word](c)
+            tail.update(c.options({w: r for w, r in _TAIL.items() if w != word}))
             break
     c.no_duplicates(parameters)
-    return tuple(parameters), tuple(identified), tangent
+    return tuple(parameters), tuple(identified), tail["tangent"], tail["model"]
+
+
+_TAIL = {"tangent": lambda c: c.name("the tangent bundle's name"),
+         "model": lambda c: c.name("a general fiber's name")}
 
 
 def _fixed_node(name: Ident, dimension: int, rotation: tuple, points, parts: dict,
                 span: dict) -> n.FixedPointFiber:
     lines = parts.get("lines", ())
     return n.FixedPointFiber(name, dimension, rotation[0], rotation[1], rotation[2],
-                             tuple(points), tuple(line for line, _ in lines),
-                             tuple(values for _, values in lines), **span)
+                             tuple(points), tuple(line for line, _, _ in lines),
+                             tuple(values for _, _, values in lines), rotation[3],
+                             tuple(model for _, model, _ in lines), **span)
 
 
 def _options(c: Cursor, readers: dict) -> dict:
@@ -209,8 +218,10 @@ def _point(c: Cursor) -> tuple[str, list]:
 
 
 def _line(c: Cursor) -> tuple[str, list]:
-    """``line L: p = value, q = value``: a line bundle by its restrictions."""
+    """``line L [= x]: p = value, q = value``: a line bundle by its restrictions
+    (and the model fiber's class its c1 stands for)."""
     name = c.name("a line bundle's name")
+    model = c.name("a class of the model fiber") if c.accept("=") else None
     c.expect(":")
     values = []
     while True:
@@ -218,7 +229,7 @@ def _line(c: Cursor) -> tuple[str, list]:
         c.expect("=")
         values.append(cn.PointValue(str(label), expr(c), label.line, label.column))
         if not c.accept(","):
-            return "lines", [(name, tuple(values))]
+            return "lines", [(name, model, tuple(values))]
 
 
 FIBER_KINDS = {"surface": _surface, "sphere": _sphere, "dimension": _dimension,

@@ -94,7 +94,8 @@ class FixedPointFiber(_Statement):
     """``fiber D: fixed points, dimension 2, rotation t = v, tangent TD`` with a body
     of ``point`` and ``line``, or ``fiber D: spindle a, b, ...``.  ``identified[i]``
     is what parameter i stands for (None: formal); ``line_values[i]`` restrict
-    ``lines[i]`` to the points."""
+    ``lines[i]`` to the points.  ``model`` is a general fiber to agree with,
+    ``line_models[i]`` its class that c1 of ``lines[i]`` stands for."""
 
     name: Ident
     dimension: int
@@ -104,6 +105,8 @@ class FixedPointFiber(_Statement):
     points: tuple[cn.FixedPointDecl, ...]
     lines: tuple[Ident, ...]
     line_values: tuple[tuple[cn.PointValue, ...], ...]
+    model: Optional[Ident] = None
+    line_models: tuple[Optional[Ident], ...] = ()
     kind = "fiber"
 
 

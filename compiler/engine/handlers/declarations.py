@@ -165,13 +165,50 @@ def _fixed_points(scope, s: n.FixedPointFiber, step: Step) -> None:
     fiber = fixed_points.localized_fiber(s.name, ring, group, s.dimension, s.parameters,
                                          points, restrictions, identify)
     scope.bind(s.name, "fiber", fiber, s.line)
-    for c in fixed_points.consistency_checks(fiber):
+    checks = fixed_points.consistency_checks(fiber)
+    if s.model is not None:
+        checks.append(_model_agreement(scope, s, fiber))
+    elif any(m is not None for m in s.line_models):
+        raise scope.fail(next(m for m in s.line_models if m is not None),
+                         "a line stands for a class of a model fiber, but the header names "
+                         "none (', model G')")
+    for c in checks:
         step.checks.append(CheckResult(c.what, "proven" if c.ok else "failed", c.detail))
     rotation = ", ".join(f"{k} = {identify[k].to_text()}" if k in identify else f"{k} (formal)"
                          for k in s.parameters)
     step.summary = (f"{s.name}: fiber of dimension {s.dimension} with fixed points "
                     + ", ".join(f"{p.name} (order {fiber.text(p.order)})" for p in fiber.points)
                     + f"; rotation {rotation}; integrated by localization")
+
+
+def _model_agreement(scope, s: n.FixedPointFiber, fiber):
+    """The check that localization agrees with the general fiber ``s.model``
+    on its top monomials, each of its classes stood for by a line's c1."""
+    _, model = scope.lookup(s.model, s.model.line, s.model.column)
+    if type(model) is not fibers_mod.Fiber or not model.integrals:
+        raise scope.fail(s.model, f"{s.model} is not a fiber given by classes, relations "
+                                  "and integrals")
+    if model.dimension != s.dimension:
+        raise scope.fail(s.model, f"{s.model} has dimension {model.dimension}, {s.name} has "
+                                  f"{s.dimension}")
+    classes = {}
+    for line, name in zip(s.lines, s.line_models):
+        if name is None:
+            continue
+        _, value = scope.lookup(name, name.line, name.column)
+        key = fibers_mod.single_generator(value)
+        if key not in model.class_keys():
+            raise scope.fail(name, f"{name} is not a class of the fiber {s.model}")
+        if key in classes:
+            raise scope.fail(name, f"two lines of {s.name} stand for {name}")
+        if scope.ring.generator_info(key).degree != 2:
+            raise scope.fail(name, f"{name} has degree {scope.ring.generator_info(key).degree}; "
+                                   "the c1 of a line standing for it has degree 2")
+        classes[key] = scope.bundles.get(line).keys[0]
+    try:
+        return fixed_points.model_agreement(fiber, model, classes)
+    except fibers_mod.FiberError as err:
+        raise scope.fail(s.model, str(err)) from None
 
 
 def _fixed_point(scope, s: n.FixedPointFiber, p: cn.FixedPointDecl) -> FixedPoint:
