@@ -106,9 +106,23 @@ def bundled(bundled_folder, tmp_path_factory):
     return get
 
 
+def _document_of(item) -> str | None:
+    """The bundled document a parametrized test is about, if any."""
+    for value in getattr(getattr(item, "callspec", None), "params", {}).values():
+        stem = Path(str(value)).stem if str(value).endswith(".md") else None
+        if stem and (DERIVATIONS / f"{stem}.md").exists():
+            return stem
+    return None
+
+
 def pytest_collection_modifyitems(items):
-    """Under xdist (``--dist loadgroup``) the tests that read the bundled
-    builds run on one worker, so that each document is built once."""
+    """Under xdist (``--dist loadgroup``) the tests about one bundled document
+    run on one worker, so that each document is built once and the documents
+    are spread over the workers; other tests that read bundled builds share
+    one more group."""
     for item in items:
-        if "bundled" in getattr(item, "fixturenames", ()):
+        stem = _document_of(item)
+        if stem is not None:
+            item.add_marker(pytest.mark.xdist_group(f"doc-{stem}"))
+        elif "bundled" in getattr(item, "fixturenames", ()):
             item.add_marker(pytest.mark.xdist_group("bundled"))

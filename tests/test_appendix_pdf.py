@@ -160,11 +160,14 @@ PAPER = ("\\documentclass{article}\n\\usepackage{amsmath}\n\\usepackage{amssymb}
          "\\input{%s}\n\\end{document}\n")
 
 
-def appendix(path: Path, factory) -> Appendix:
-    """One build and three TeX runs per document, shared by the tests below."""
+def appendix(path: Path, factory, folder: Path) -> Appendix:
+    """One build and three TeX runs per document, shared by the tests below.
+    The build is the session's bundled one replayed from its cache (``folder``
+    holds the built copy of derivations/), so the document is computed once."""
     if path.stem not in _BUILT:
         out = factory.mktemp(path.stem)
-        report = build(str(path.relative_to(ROOT)), path.read_text(encoding="utf-8"), BuildOptions(use_cache=False))
+        source = folder / "derivations" / path.name
+        report = build(str(source), source.read_text(encoding="utf-8"), BuildOptions(use_cache=True))
         for name, data in plot_files(report).items():
             (out / name).write_bytes(data)
         (out / "appendix.tex").write_text(to_tex(report, standalone=True), encoding="utf-8")
@@ -181,13 +184,21 @@ def appendix(path: Path, factory) -> Appendix:
     return _BUILT[path.stem]
 
 
+@pytest.fixture
+def appendix_of(tmp_path_factory, bundled, bundled_folder):
+    def get(path: Path) -> Appendix:
+        bundled(path.stem)  # the cold build that fills the cache
+        return appendix(path, tmp_path_factory, bundled_folder)
+    return get
+
+
 def check_steps(record: dict, expr: str) -> list[dict]:
     return [s for s in record["steps"] if s["kind"] == "check" and s["source"] == f"check {expr}"]
 
 
 @pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
-def test_audit_compiles_and_reads_back(path, tmp_path_factory):
-    built = appendix(path, tmp_path_factory)
+def test_audit_compiles_and_reads_back(path, appendix_of):
+    built = appendix_of(path)
     text, flat_text = built.audit, flat(built.audit)
     document = read_document(str(path), path.read_text(encoding="utf-8"))
 
@@ -211,8 +222,8 @@ def test_audit_compiles_and_reads_back(path, tmp_path_factory):
 
 
 @pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
-def test_appendix_reads_like_an_appendix(path, tmp_path_factory):
-    built = appendix(path, tmp_path_factory)
+def test_appendix_reads_like_an_appendix(path, appendix_of):
+    built = appendix_of(path)
     document = read_document(str(path), path.read_text(encoding="utf-8"))
     for text in (built.text, built.in_paper):
         assert words(document.front.title) in words(text)
@@ -233,15 +244,15 @@ def test_appendix_reads_like_an_appendix(path, tmp_path_factory):
 
 
 @pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
-def test_nothing_sticks_out_of_the_text_block(path, tmp_path_factory):
-    assert [x for x in appendix(path, tmp_path_factory).overfull if x > 10] == []
+def test_nothing_sticks_out_of_the_text_block(path, appendix_of):
+    assert [x for x in appendix_of(path).overfull if x > 10] == []
 
 
 @pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
-def test_no_literal_dollar_in_pdf(path, tmp_path_factory):
+def test_no_literal_dollar_in_pdf(path, appendix_of):
     """No bundled document writes a literal dollar, so any "$" in the PDF is math
     that reached LaTeX as text (as ``$$...$$`` inside a paragraph once did)."""
-    built = appendix(path, tmp_path_factory)
+    built = appendix_of(path)
     assert "$" not in built.text and "$" not in built.audit
 
 

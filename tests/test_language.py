@@ -393,3 +393,12 @@ def test_large_n_of_the_twisted_compactification(bundled):
     # Gaiotto, Maldacena (2009): N^3/3 at z = 1
     assert check_statuses(record, "check a_large == (g - 1)*N^3/3 for z = 1") == {"proven"}
     assert "sqrt(3*z^2 + 1)" in record["values"]["a_large"]["text"]
+
+
+def test_a_use_step_shows_the_path_as_written_not_a_folder_of_this_machine(tmp_path):
+    # a report shared with collaborators must not carry the author's folders
+    (tmp_path / "common.md").write_text("```derive\nsymbol N: integer, N >= 2\n```\n", encoding="utf-8")
+    report = compile_text(tmp_path, '```derive\nuse "common.md"\nlet x = N + 1\n```\n', "main.md")
+    summary = next(s.summary for s in report.steps if s.kind == "use")
+    assert summary.startswith("common.md: N (symbol, line 2)"), summary
+    assert str(tmp_path) not in summary

@@ -263,11 +263,12 @@ def _use(scope, s: n.UseDecl, step: Step) -> None:
     their problems are reported here, with their own location."""
     module = s.module
     own = [d for d in module.exports if d.origin == module.display]
+    shown = f"library {s.path}" if s.library else s.path  # as written: no folder of this machine
     if module.key in scope.reported:
-        step.summary = f"{module.display}: already used above"
+        step.summary = f"{shown}: already used above"
         return
     scope.reported.add(module.key)
-    step.summary = f"{module.display}: " + ", ".join(f"{d.name} ({d.kind}, line {d.line})" for d in own)
+    step.summary = f"{shown}: " + ", ".join(f"{d.name} ({d.kind}, line {d.line})" for d in own)
     for inner in scope.used[module.key]:
         for c in inner.checks:
             if c.status == "error":  # told on the command line as its detail alone
