@@ -250,7 +250,7 @@ def test_a_used_document_brings_its_names_and_runs_its_checks_once(tmp_path):
     # common.md runs once, although two documents use it
     assert sum("sub/common.md:9: dim(3) == 8" in what for what in checks) == 1
     first = step_of(report, 'use "left.md"')
-    assert first.kind == "use" and str(tmp_path / "left.md") in first.summary
+    assert first.kind == "use" and first.summary.startswith("left.md: ")
     assert "l (value, line 7)" in first.summary
     assert report.values["rank"].text == "N - 1"
 
@@ -380,7 +380,7 @@ def test_sqcd_in_the_conformal_window(bundled):
         assert check_statuses(record, claim) == {"proven"}, claim
     use = find_step(record, 'use "preambles/su-n.md"')
     assert use["kind"] == "use" and "positive_roots (function, line 14)" in use["summary"]
-    assert use["summary"].startswith("derivations/preambles/su-n.md: ")
+    assert use["summary"].startswith("preambles/su-n.md: ")  # as written in the document
 
 
 def test_large_n_of_the_twisted_compactification(bundled):
