@@ -37,15 +37,15 @@ class CheckResult:
 
 @dataclass
 class ValueRecord:
-    """A named value: normal-form text, LaTeX, form degrees, presentation tree."""
+    """A named value: normal-form text, form degrees, presentation tree (the
+    renderers print the tree; the record holds no notation)."""
 
     name: str
     text: str
-    latex: str
     degrees: list[int] = field(default_factory=list)
     tree: list = field(default_factory=lambda: ["int", 0])
     #: The degree from which the value is not known (``truncate`` dropped what
-    #: it depends on); None when it is exact.  ``text`` and ``latex`` show it.
+    #: it depends on); None when it is exact.  The tree ends in its order term.
     unknown_from: Optional[int] = None
 
 

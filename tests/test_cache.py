@@ -210,10 +210,10 @@ def test_an_entry_missing_an_output_is_ignored(tmp_path):
 
 @pytest.mark.parametrize("mutate", [
     lambda e: e["checks"][0].update(detail=5),
-    lambda e: e["values"][0].update(latex=None),
+    lambda e: e["values"][0].update(text=None),
     _set(("outputs", "a", "element", "den"), [[{}, "1/0"]]),
     _set(("table",), {"names": 1, "cells": 2, "text_rows": 3}),
-], ids=["detail-int", "latex-none", "den-1/0", "table-ints"])
+], ids=["detail-int", "text-none", "den-1/0", "table-ints"])
 def test_an_entry_with_wrong_types_is_ignored(tmp_path, mutate):
     # spec: Precise rules → JSON and command line: the cache "is never needed for correctness"
     reference, report = _damaged_builds(tmp_path, mutate)

@@ -62,7 +62,7 @@ def test_a_forged_value_with_the_checks_entry_deleted_is_not_used(tmp_path):
     del data["entries"][key_of(data, is_false_check)]
     value = data["entries"][key_of(data, lambda e: "a" in e["outputs"])]["entry"]
     value["outputs"]["a"] = {"expr": "5"}
-    value["values"][0].update(text="5", latex="5")
+    value["values"][0].update(text="5")
     save(tmp_path, data)
     report = build_at(tmp_path)
     assert report.values["a"].text == "4"

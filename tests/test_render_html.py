@@ -153,7 +153,7 @@ def test_unreadable_math_shown_as_source():
 
 
 def test_names_and_details_escaped():
-    v = ValueRecord("x", "1", "1", [0])
+    v = ValueRecord("x", "1", [0])
     step = Step(1, 2, 1, 2, "check x == 1", "check", [], values=[v])
     step.summary = "<b>bold</b>"
     report = Report("anomark", "0.1.0", "<i>d</i>.md", "<img src=x>", ["<u>A</u>"], "", "", {"<c>": "1"}, 12,
@@ -172,7 +172,7 @@ def _value_page(v: ValueRecord, notation=None) -> str:
 def test_long_values_aligned_over_lines():
     terms = [["mul", ["div", ["int", k], ["int", 48]], ["pow", ["cls", f"p1(T{k})"], 2], ["cls", f"c1(L{k})"]]
              for k in range(1, 7)]
-    html = _value_page(ValueRecord("I6", "...", "...", [6], ["add", *terms]))
+    html = _value_page(ValueRecord("I6", "...", [6], ["add", *terms]))
     value = html.split('<div class="value"')[1].split("</div>")[0]
     assert value.count("<mtr>") >= 2 and value.count("<mn>48</mn>") == 6
 
@@ -186,7 +186,7 @@ def test_computed_values_written_directly_as_mathml():
 
 
 def test_notation_override_and_rule():
-    v = ValueRecord("kRRR", "...", "...", [0], ["mul", ["sym", "nv_minus_nh"], ["sym", "eps_star"]])
+    v = ValueRecord("kRRR", "...", [0], ["mul", ["sym", "nv_minus_nh"], ["sym", "eps_star"]])
     html = _value_page(v)
     assert "<msub><mi>k</mi><mrow><mi>R</mi><mi>R</mi><mi>R</mi></mrow></msub>" in html
     assert "<mi>nv</mi><mo>\u2212</mo><mi>nh</mi>" in html and "<msub><mi>\u03f5</mi><mo>\u2217</mo></msub>" in html
@@ -220,7 +220,7 @@ def test_same_report_same_page():
 
 def test_extremization_details_as_math():
     detail = "critical points r = 2/3; r = 4/3; kept r = 2/3: d²a/dr² = -9/16 < 0"
-    v = ValueRecord("r_star", "2/3", r"\frac{2}{3}", [0], ["div", ["int", 2], ["int", 3]])
+    v = ValueRecord("r_star", "2/3", [0], ["div", ["int", 2], ["int", 3]])
     step = Step(1, 2, 1, 2, "maximize a over r -> r_star, a_star", "maximize", ["r_star"], values=[v],
                 checks=[CheckResult("one admissible critical point", "proven", detail)])
     html = to_html(Report("anomark", "0.1.0", "d.md", "T", [], "", "", {}, 12, [step], {"r_star": v}))

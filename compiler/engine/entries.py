@@ -83,10 +83,10 @@ def _check(c) -> CheckResult:
 
 def _record(v) -> ValueRecord:
     _require(isinstance(v, dict)
-             and set(v) == {"name", "text", "latex", "degrees", "tree", "unknown_from"}, "value")
+             and set(v) == {"name", "text", "degrees", "tree", "unknown_from"}, "value")
     degrees = _list(v["degrees"])
     _require(all(type(d) is int for d in degrees), "degrees")
-    return ValueRecord(_str(v["name"]), _str(v["text"]), _str(v["latex"]), degrees, _tree(v["tree"]),
+    return ValueRecord(_str(v["name"]), _str(v["text"]), degrees, _tree(v["tree"]),
                        precision(v["unknown_from"]))
 
 

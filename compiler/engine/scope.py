@@ -26,7 +26,6 @@ from ..expressions import Evaluator, Missing, MissingValue, Scope, Value, from_e
 from ..precision import Known, Precision, unknown_above
 from ..results import ValueRecord
 from ..presentation import display_tree
-from ..render.printers import LatexPrinter
 from ..statements import nodes as n
 from .cache import digest
 from .entries import value_to_data
@@ -258,4 +257,4 @@ def record(name: str, value: Value, unknown_from: int | None = None,
     degrees = value.degrees() if isinstance(value, Element) else [] if value == 0 else [0]
     if unknown_from is not None:
         tree = ["add", *(tree[1:] if tree[0] == "add" else [tree]), ["order", unknown_from]]
-    return ValueRecord(name, text, LatexPrinter().doprint(tree), degrees, tree, unknown_from)
+    return ValueRecord(name, text, degrees, tree, unknown_from)

@@ -9,7 +9,7 @@ from __future__ import annotations
 import json
 import math
 
-from compiler.render.printers import TextPrinter
+from compiler.render.printers import LatexPrinter, TextPrinter
 from compiler.results import STATUSES, CheckResult, PlotData, Report, Step, TableData, ValueRecord
 
 
@@ -18,7 +18,7 @@ def _value(v: ValueRecord) -> dict:
     a reader sees, in the same syntax; ``text`` always reads back to the
     value.  A value known only below some form degree (a truncation dropped
     the rest) says so in ``unknown_from``; its display ends in an order term."""
-    out = {"text": v.text, "display": TextPrinter().doprint(v.tree), "latex": v.latex,
+    out = {"text": v.text, "display": TextPrinter().doprint(v.tree), "latex": LatexPrinter().doprint(v.tree),
            "degrees": list(v.degrees)}
     if v.unknown_from is not None:
         out["unknown_from"] = v.unknown_from
