@@ -27,25 +27,35 @@ def tidy(expr, specs: Sequence[SymbolSpec], relations: Sequence[Relation] = ()):
 
 
 def tidy_with(expr, oracle: SignOracle):
-    """:func:`tidy` with the signs decided by ``oracle``."""
+    """:func:`tidy` with the signs decided by ``oracle``.
+
+    A value with one square root has a canonical form K (A + B r) / D, so
+    general simplification (slow on radicals, and never shorter there) runs
+    only on the others: rational functions and several radicals."""
     expr = _pull_squares(expr, oracle)
-    forms = [expr]
-    rewrites = [sympy.factor, _radical_form]
-    if sympy.count_ops(expr) < SIMPLIFY_LIMIT:
-        rewrites.append(sympy.simplify)
-    for rewrite in rewrites:
-        try:
-            forms.append(rewrite(expr))
-        except (TypeError, ValueError, NotImplementedError, sympy.PolynomialError):
-            continue
-    return min(forms, key=sympy.count_ops)
+    forms = [expr, _attempt(sympy.factor, expr)]
+    radical = _attempt(_radical_form, expr)
+    if radical is not None:
+        forms.append(radical)
+    elif sympy.count_ops(expr) < SIMPLIFY_LIMIT:
+        forms.append(_attempt(sympy.simplify, expr))
+    return min((f for f in forms if f is not None), key=sympy.count_ops)
+
+
+def _attempt(rewrite, expr):
+    """``rewrite(expr)``, or None where sympy gives up on it."""
+    try:
+        return rewrite(expr)
+    except (TypeError, ValueError, NotImplementedError, sympy.PolynomialError):
+        return None
 
 
 def _radical_form(expr):
-    """An expression with one square root r written as K (A + B r) / D."""
+    """An expression with one square root r written as K (A + B r) / D (None:
+    not one square root)."""
     radicals = {p.base for p in expr.atoms(sympy.Pow) if p.exp.is_Rational and p.exp.q == 2}
     if len(radicals) != 1:
-        return expr
+        return None
     r = sympy.sqrt(radicals.pop())
     num, den = (sympy.expand(x) for x in sympy.fraction(sympy.together(expr)))
     if den.has(r):
@@ -56,7 +66,7 @@ def _radical_form(expr):
     b = num.coeff(r)
     a = sympy.expand(num - b * r)
     if a.has(r) or b.has(r) or den.has(r):
-        return expr
+        return None
     common = sympy.gcd(sympy.gcd(a, b), den)
     a, b, den = (sympy.cancel(x / common) for x in (a, b, den))
     k = sympy.gcd(a, b) if b != 0 else a
