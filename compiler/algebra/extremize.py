@@ -117,9 +117,15 @@ class _Problem:
         except ValueError as exc:
             raise ExtremizeError(str(exc)) from None
         self.var_names = report.names(self.vars)
+        self.tidied: dict = {}
 
     def tidy(self, expr):
-        return tidy_with(expr, self.oracle)
+        """The shown form of ``expr``; a form already shown is kept as it is
+        (a critical point is tidied once, then listed and kept)."""
+        if expr not in self.tidied:
+            self.tidied[expr] = tidy_with(expr, self.oracle)
+            self.tidied.setdefault(self.tidied[expr], self.tidied[expr])
+        return self.tidied[expr]
 
     # -- critical points ----------------------------------------------------
 

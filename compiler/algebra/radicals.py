@@ -32,6 +32,8 @@ def tidy_with(expr, oracle: SignOracle):
     A value with one square root has a canonical form K (A + B r) / D, so
     general simplification (slow on radicals, and never shorter there) runs
     only on the others: rational functions and several radicals."""
+    if expr.is_Atom:
+        return expr
     expr = _pull_squares(expr, oracle)
     forms = [expr, _attempt(sympy.factor, expr)]
     radical = _attempt(_radical_form, expr)
