@@ -12,11 +12,17 @@ leaves an expression in nonnegative parameters whose sign sympy's rules on
 sums and products can see.  Each such rewriting covers a superset of the
 region, so any decided answer is a proof; several choices of bounds are
 tried in turn.  One square root is handled as a + b sqrt(c).
+
+A rational function is first asked on FLINT polynomials: with the fresh
+parameters substituted, a numerator and denominator whose coefficients all
+share one sign (and which cannot vanish) decide it without sympy's
+assumptions, which are slow; anything else goes through sympy's rules.
 """
 from __future__ import annotations
 
 import itertools
 
+import flint
 import sympy
 
 from . import budget
@@ -41,6 +47,7 @@ class SignOracle:
         self.chains = [[(s, image) for s, image in zip(reversed(region.symbols), combo)
                         if image is not None]
                        for combo in itertools.islice(itertools.product(*options), MAX_CHAINS)]
+        self._flint = None
 
     def rewritten(self, expr):
         """``expr`` in each chain's fresh parameters, latest symbol first."""
@@ -68,6 +75,9 @@ class SignOracle:
 
     def sign(self, expr: sympy.Expr) -> int | None:
         """1, -1 or 0 on the whole region; None when undecided."""
+        fast = self._flint_sign(expr)
+        if fast is not None:
+            return fast
         expr = sympy.together(expr)
         if expr.is_zero or sympy.expand(expr) == 0:
             return 0
@@ -157,6 +167,9 @@ class SignOracle:
 
     def _form_sign(self, expr):
         """The sign sympy decides on the first of the forms that tells, or None."""
+        fast = self._flint_sign(expr)
+        if fast is not None:
+            return fast
         for form in self._forms(expr):
             if form.is_positive:
                 return 1
@@ -165,6 +178,112 @@ class SignOracle:
             if form.is_zero:
                 return 0
         return None
+
+    def _flint_sign(self, expr):
+        """The sign of a rational function read off its coefficients after each
+        chain's substitution (None: not a rational function, or undecided)."""
+        if self._flint is None:
+            self._flint = _FlintChains(self.chains or [[]])
+        return self._flint.sign(expr)
+
+
+class _FlintChains:
+    """The chains' substitutions on FLINT polynomials over the rationals in
+    the symbols met so far and the fresh parameters (each ``>= 0`` or ``> 0``)."""
+
+    def __init__(self, chains):
+        self.source = chains
+        self.symbols = sorted({s for chain in chains for s, image in chain} | {
+            t for chain in chains for _, image in chain for t in image.free_symbols},
+            key=sympy.default_sort_key)
+        self._compile()
+
+    def _compile(self):
+        """The context of ``symbols`` and each chain's images (p, q) in it; a
+        chain whose denominators are not plainly positive is left to sympy."""
+        self.index = {s: i for i, s in enumerate(self.symbols)}
+        self.ctx = flint.fmpq_mpoly_ctx.get(tuple(f"v{i}" for i in range(len(self.symbols))), "lex")
+        self.chains = []
+        for chain in self.source:
+            images = [(self.index[s], self.fraction(image)) for s, image in chain]
+            if all(image is not None and self.coefficient_sign(image[1]) == 1 for _, image in images):
+                self.chains.append(images)
+
+    def sign(self, expr):
+        new = expr.free_symbols - set(self.index)
+        if new:
+            self.symbols += sorted(new, key=sympy.default_sort_key)
+            self._compile()
+        fraction = self.fraction(expr)
+        if fraction is None:
+            return None
+        for chain in self.chains:
+            num, den = fraction
+            for i, (p, q) in chain:
+                num, den = _substitute(num, i, p, q), _substitute(den, i, p, q)
+            if num.is_zero():
+                return 0
+            signs = (self.coefficient_sign(num), self.coefficient_sign(den))
+            if None not in signs:
+                return signs[0] * signs[1]
+        return None
+
+    def fraction(self, expr):
+        """(numerator, denominator) of a rational function with rational
+        coefficients; None for anything else."""
+        if expr.is_Rational:
+            return self.ctx.constant(flint.fmpq(int(expr.p), int(expr.q))), self.ctx.constant(1)
+        if expr.is_Symbol:
+            return self.ctx.gen(self.index[expr]), self.ctx.constant(1)
+        if expr.is_Pow and expr.exp.is_Integer:
+            base = self.fraction(expr.base)
+            if base is None or base[0].is_zero():
+                return None
+            e = int(expr.exp)
+            return (base[0] ** e, base[1] ** e) if e >= 0 else (base[1] ** -e, base[0] ** -e)
+        if not (expr.is_Add or expr.is_Mul):
+            return None
+        parts = [self.fraction(a) for a in expr.args]
+        if None in parts:
+            return None
+        num, den = parts[0]
+        for n, d in parts[1:]:
+            if expr.is_Mul:
+                num, den = num * n, den * d
+            else:
+                common = den.gcd(d)
+                num, den = num * (d / common) + n * (den / common), den * (d / common)
+        return num, den
+
+    def coefficient_sign(self, poly):
+        """1 or -1 when every coefficient has that sign, every symbol in it is
+        nonnegative and some term cannot vanish; None otherwise."""
+        coeffs = poly.coeffs()
+        if not coeffs or not (all(c > 0 for c in coeffs) or all(c < 0 for c in coeffs)):
+            return None
+        used = [self.symbols[i] for i, d in enumerate(poly.degrees()) if d]
+        if not all(s.is_nonnegative for s in used):
+            return None
+        if not any(all(e == 0 or self.symbols[i].is_positive for i, e in enumerate(m))
+                   for m in poly.monoms()):
+            return None
+        return 1 if coeffs[0] > 0 else -1
+
+
+def _substitute(poly, i, p, q):
+    """``poly`` with generator ``i`` replaced by p/q, times q^(its degree)."""
+    degree = poly.degrees()[i]
+    if degree == 0:
+        return poly
+    ctx = poly.context()
+    parts = [ctx.constant(0) for _ in range(degree + 1)]
+    for monom, c in poly.to_dict().items():
+        parts[monom[i]] += ctx.from_dict({monom[:i] + (0,) + monom[i + 1:]: c})
+    total = ctx.constant(0)
+    for j, part in enumerate(parts):
+        if not part.is_zero():
+            total += part * p ** j * q ** (degree - j)
+    return total
 
 
 def _images(region: Region, symbol) -> list:
