@@ -205,55 +205,89 @@ class _FlintChains:
         self.ctx = flint.fmpq_mpoly_ctx.get(tuple(f"v{i}" for i in range(len(self.symbols))), "lex")
         self.chains = []
         for chain in self.source:
-            images = [(self.index[s], self.fraction(image)) for s, image in chain]
-            if all(image is not None and self.coefficient_sign(image[1]) == 1 for _, image in images):
-                self.chains.append(images)
+            images = [(self.index[s], self.parts(image, None)) for s, image in chain]
+            if all(image is not None and self.coefficient_sign(image[2]) == 1 for _, image in images):
+                self.chains.append([(i, (a, d)) for i, (a, _, d) in images])
 
     def sign(self, expr):
+        """The sign of (a + b sqrt(D)) / d, from those of a, b, d and a^2 - b^2 D
+        as polynomials (b = 0 for a rational function); None when undecided."""
         new = expr.free_symbols - set(self.index)
         if new:
             self.symbols += sorted(new, key=sympy.default_sort_key)
             self._compile()
-        fraction = self.fraction(expr)
-        if fraction is None:
+        radicands = {p.base for p in expr.atoms(sympy.Pow) if p.exp.is_Rational and p.exp.q == 2}
+        if len(radicands) > 1:
             return None
+        radicand = radicands.pop() if radicands else None
+        root = None if radicand is None else self.parts(radicand, None)
+        if root is not None and not root[2].is_one():
+            return None
+        found = self.parts(expr, (radicand, root and root[0]))
+        if found is None:
+            return None
+        a, b, d = found
+        if b.is_zero():
+            return self.product_sign(a, d)
+        sa, sb = self.poly_sign(a), self.poly_sign(b)
+        if sa is None or sb is None or self.poly_sign(d) is None:
+            return None
+        if sa == 0 or sa == sb:
+            sign = sb
+        else:
+            diff = self.poly_sign(a ** 2 - b ** 2 * root[0])
+            sign = None if diff is None else sa * diff
+        return None if sign is None else sign * self.poly_sign(d)
+
+    def product_sign(self, num, den):
+        """The sign of num/den, both decided in one chain (0 for num = 0)."""
         for chain in self.chains:
-            num, den = fraction
-            for i, (p, q) in chain:
-                num, den = _substitute(num, i, p, q), _substitute(den, i, p, q)
-            if num.is_zero():
+            n, d = (_substitute_all(x, chain) for x in (num, den))
+            if n.is_zero():
                 return 0
-            signs = (self.coefficient_sign(num), self.coefficient_sign(den))
+            signs = (self.coefficient_sign(n), self.coefficient_sign(d))
             if None not in signs:
                 return signs[0] * signs[1]
         return None
 
-    def fraction(self, expr):
-        """(numerator, denominator) of a rational function with rational
-        coefficients; None for anything else."""
+    def poly_sign(self, poly):
+        return self.product_sign(poly, self.ctx.constant(1))
+
+    def parts(self, expr, root):
+        """(a, b, d) FLINT polynomials with expr = (a + b r) / d, where ``root``
+        is (the radicand R, R as a polynomial) and r = sqrt(R); None when
+        ``expr`` is not of that kind."""
+        ctx = self.ctx
+        zero, one = ctx.constant(0), ctx.constant(1)
         if expr.is_Rational:
-            return self.ctx.constant(flint.fmpq(int(expr.p), int(expr.q))), self.ctx.constant(1)
+            return ctx.constant(flint.fmpq(int(expr.p), int(expr.q))), zero, one
         if expr.is_Symbol:
-            return self.ctx.gen(self.index[expr]), self.ctx.constant(1)
-        if expr.is_Pow and expr.exp.is_Integer:
-            base = self.fraction(expr.base)
-            if base is None or base[0].is_zero():
+            return ctx.gen(self.index[expr]), zero, one
+        if expr.is_Pow and expr.exp.is_Rational and expr.exp.q == 2:
+            if root is None or root[1] is None or expr.base != root[0]:
                 return None
-            e = int(expr.exp)
-            return (base[0] ** e, base[1] ** e) if e >= 0 else (base[1] ** -e, base[0] ** -e)
+            m = (int(expr.exp.p) - 1) // 2     # R^(k/2) = R^m r
+            return (zero, root[1] ** m, one) if m >= 0 else (zero, one, root[1] ** -m)
+        if expr.is_Pow and expr.exp.is_Integer:
+            base = self.parts(expr.base, root)
+            if base is not None and int(expr.exp) < 0:
+                base = _inverse(base, root[1] if root else None)
+            if base is None:
+                return None
+            result = (one, zero, one)
+            for _ in range(abs(int(expr.exp))):
+                result = _times(result, base, root[1] if root else None)
+            return result
         if not (expr.is_Add or expr.is_Mul):
             return None
-        parts = [self.fraction(a) for a in expr.args]
-        if None in parts:
+        terms = [self.parts(a, root) for a in expr.args]
+        if None in terms:
             return None
-        num, den = parts[0]
-        for n, d in parts[1:]:
-            if expr.is_Mul:
-                num, den = num * n, den * d
-            else:
-                common = den.gcd(d)
-                num, den = num * (d / common) + n * (den / common), den * (d / common)
-        return num, den
+        result = terms[0]
+        for term in terms[1:]:
+            result = _times(result, term, root[1] if root else None) if expr.is_Mul \
+                else _plus(result, term)
+        return result
 
     def coefficient_sign(self, poly):
         """1 or -1 when every coefficient has that sign, every symbol in it is
@@ -284,6 +318,35 @@ def _substitute(poly, i, p, q):
         if not part.is_zero():
             total += part * p ** j * q ** (degree - j)
     return total
+
+
+def _substitute_all(poly, chain):
+    for i, (p, q) in chain:
+        poly = _substitute(poly, i, p, q)
+    return poly
+
+
+def _plus(x, y):
+    (a1, b1, d1), (a2, b2, d2) = x, y
+    common = d1.gcd(d2)
+    u, v = d2 / common, d1 / common
+    return a1 * u + a2 * v, b1 * u + b2 * v, d1 * u
+
+
+def _times(x, y, radicand):
+    (a1, b1, d1), (a2, b2, d2) = x, y
+    if b1.is_zero() or b2.is_zero():
+        return a1 * a2, a1 * b2 + b1 * a2, d1 * d2
+    return a1 * a2 + b1 * b2 * radicand, a1 * b2 + b1 * a2, d1 * d2
+
+
+def _inverse(x, radicand):
+    """d / (a + b r) = d (a - b r) / (a^2 - b^2 R); None where that is 0."""
+    a, b, d = x
+    norm = a ** 2 - b ** 2 * radicand if not b.is_zero() else a
+    if norm.is_zero():
+        return None
+    return (d * a, -d * b, norm) if not b.is_zero() else (d, b, a)
 
 
 def _images(region: Region, symbol) -> list:
