@@ -44,6 +44,16 @@ def tidy_with(expr, oracle: SignOracle):
     return min((f for f in forms if f is not None), key=sympy.count_ops)
 
 
+def is_rational(expr) -> bool:
+    """Whether ``expr`` is a rational function of its symbols with rational
+    coefficients (sums, products, integer powers)."""
+    if expr.is_Rational or expr.is_Symbol:
+        return True
+    if expr.is_Pow:
+        return expr.exp.is_Integer and is_rational(expr.base)
+    return (expr.is_Add or expr.is_Mul) and all(is_rational(a) for a in expr.args)
+
+
 def _attempt(rewrite, expr):
     """``rewrite(expr)``, or None where sympy gives up on it."""
     try:
