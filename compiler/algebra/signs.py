@@ -226,7 +226,8 @@ class _FlintChains:
         found = self.parts(expr, (radicand, root and root[0]))
         if found is None:
             return None
-        a, b, d = found
+        common = found[0].gcd(found[1]).gcd(found[2])
+        a, b, d = (x / common for x in found)
         if b.is_zero():
             return self.product_sign(a, d)
         sa, sb = self.poly_sign(a), self.poly_sign(b)
