@@ -22,7 +22,7 @@ from . import budget, cells
 from . import extremize_report as report
 from .critical import (TOL, Closed, FamilyError, Implicit, RationalFunction, critical_components,
                        finite, is_real, numeric_sign, numeric_value, split_content)
-from .radicals import is_rational, tidy_with
+from .radicals import tidy_with
 from .region import Region, Relation
 from .sampling import SymbolSpec, describe_point, evaluate
 from .signs import SignOracle
@@ -208,9 +208,7 @@ class _Problem:
             point = coords
         else:
             point = tuple(self.tidy(c) for c in coords)
-            value = self.value_at(coords)
-            # a rational value is shown in the ring's normal form, whatever its shape here
-            value = sympy.factor(value) if is_rational(value) else self.tidy(value)
+            value = self.tidy(self.value_at(coords))
         account = f"{found}; kept {report.point_text(self.vars, point)}: {reason}"
         return ExtremumResult(point, value, account, settled, samples)
 
