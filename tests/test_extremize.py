@@ -129,6 +129,18 @@ def test_two_maxima_ask_for_a_range_and_a_range_settles_it():
     assert r.point == (-1,)
 
 
+def test_messages_write_powers_with_a_caret():
+    # f = -(x^2 - k^3)^2 has maxima at x = -k^(3/2) and x = k^(3/2) (common practice, no source)
+    x, k = declare("x"), declare("k", "positive")
+    X, K = x.symbol, k.symbol
+    with pytest.raises(ExtremizeError) as caught:
+        extremize("maximize", -(X ** 2 - K ** 3) ** 2, [(X, None)], [x, k], "s")
+    message = str(caught.value)
+    assert "x = -k^(3/2); x = k^(3/2)" in message and "**" not in message
+    with pytest.raises(ValueError, match=r"x\^2 < y in the declaration of y is not linear"):
+        build_region([("x", [], [], []), ("y", [], [], [(sympy.Symbol("x") ** 2, "<", sympy.Symbol("y"))])])
+
+
 def test_branch_depending_on_a_parameter_sign():
     # f = k^2 x - x^3/3: the maximum is x = |k|, i.e. a different root for k < 0.
     x, k = declare("x"), declare("k")

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import sympy
 
-from .sampling import describe_point, evaluate
+from .sampling import describe_point, evaluate, spelled
 
 NEEDED = {"maximize": "a negative-definite Hessian (a maximum)",
           "minimize": "a positive-definite Hessian (a minimum)",
@@ -20,7 +20,7 @@ def names(symbols) -> str:
 
 
 def point_text(variables, coords) -> str:
-    return ", ".join(f"{v} = {sympy.sstr(c)}" for v, c in zip(variables, coords))
+    return ", ".join(f"{v} = {spelled(c)}" for v, c in zip(variables, coords))
 
 
 def approx_text(variables, coords) -> str:
@@ -34,7 +34,7 @@ def where(point) -> str:
 def found_text(p, closed, implicit) -> str:
     """``critical points x = 1; x = 2`` plus the components without closed form."""
     parts = [point_text(p.vars, c.coords) for c in closed]
-    parts += [f"the roots of {sympy.sstr(sympy.factor(c.polynomial))} = 0 "
+    parts += [f"the roots of {spelled(sympy.factor(c.polynomial))} = 0 "
               f"(degree {c.degree} in {c.variable})" for c in implicit]
     return "critical points " + "; ".join(parts)
 
@@ -47,7 +47,7 @@ def test_text(p, minors, symbolic: bool) -> str:
         lhs = f"d²{p.name}/d{v}²"
         if symbolic:
             second = p.tidy(p.content * minors[0])
-            return f"{lhs} = {sympy.sstr(second)} {rel}"
+            return f"{lhs} = {spelled(second)} {rel}"
         return f"{lhs} {rel}"
     kind = {"maximize": "negative definite", "minimize": "positive definite",
             "extremize": "non-degenerate"}[p.mode]
@@ -97,7 +97,7 @@ def implicit_message(p, component, point, coords) -> str:
     """The extremum exists at the sample points but has no closed form."""
     v = component.variable
     polynomial = sympy.collect(sympy.expand(component.polynomial), v, sympy.factor)
-    return (f"the {KIND[p.mode]} of {p.name} is a root of {sympy.sstr(polynomial)} = 0, a "
+    return (f"the {KIND[p.mode]} of {p.name} is a root of {spelled(polynomial)} = 0, a "
             f"polynomial of degree {component.degree} in {v}, irreducible over the rationals "
             f"in {names(p.param_symbols)}; in several variables anomark writes closed forms "
             f"only for roots of degree at most 2, so there is no exact value for general "
@@ -110,7 +110,7 @@ def label(p, key, closed, implicit) -> str:
     kind, index = key
     if kind == "closed":
         return point_text(p.vars, closed[index].coords)
-    return f"a root of {sympy.sstr(sympy.factor(implicit[index].polynomial))} = 0"
+    return f"a root of {spelled(sympy.factor(implicit[index].polynomial))} = 0"
 
 
 def domain_text(p) -> str:

@@ -19,7 +19,7 @@ from typing import Iterable, Sequence
 
 import sympy
 
-from .sampling import SymbolSpec, rng_for
+from .sampling import SymbolSpec, rng_for, spelled
 
 _FLIP = {">": "<", ">=": "<=", "<": ">", "<=": ">="}
 
@@ -242,7 +242,7 @@ def build_region(declarations: Iterable[tuple[str, Sequence[str], Sequence[tuple
         bounds = list(bounds)
         pending = []
         for lhs, op, rhs in rels:
-            text = f"{sympy.sstr(lhs)} {op} {sympy.sstr(rhs)}"
+            text = f"{spelled(lhs)} {op} {spelled(rhs)}"
             if op not in _FLIP:
                 raise ValueError(f"unknown comparison {op!r} in {text}")
             expr = sympy.expand(lhs - rhs if op.startswith(">") else rhs - lhs)

@@ -249,3 +249,9 @@ def evaluate(expr: sympy.Expr, point: dict, digits: int = 50):
 def describe_point(point: dict) -> str:
     """``N = 3, g = 2`` in the order of the symbols' names."""
     return ", ".join(f"{s} = {v}" for s, v in sorted(point.items(), key=lambda kv: kv[0].name))
+
+
+def spelled(expr: sympy.Expr) -> str:
+    """An exact value in a message, with ``^`` for powers as in every other
+    message (sympy's own spelling has ``**``)."""
+    return sympy.sstr(expr).replace("**", "^")

@@ -225,8 +225,7 @@ def _extremize(scope, s: n.Extremize, step: Step) -> None:
         scope.output(step, name, coordinate, s.line)
     scope.output(step, s.value, result.value, s.line)
     status = "proven" if result.settled == "symbolic" else "sampled"
-    step.checks.append(CheckResult("one admissible critical point", status,
-                                   result.account.replace("**", "^")))
+    step.checks.append(CheckResult("one admissible critical point", status, result.account))
 
 
 HANDLERS = {
