@@ -22,11 +22,11 @@ from __future__ import annotations
 
 import itertools
 
-import flint
 import sympy
 
 from . import budget
 from .region import Region
+from .surds import Surds
 
 _TESTS = {
     ">": lambda e: e.is_positive, ">=": lambda e: e.is_nonnegative,
@@ -193,52 +193,39 @@ class _FlintChains:
 
     def __init__(self, chains):
         self.source = chains
-        self.symbols = sorted({s for chain in chains for s, image in chain} | {
+        self._compile(sorted({s for chain in chains for s, image in chain} | {
             t for chain in chains for _, image in chain for t in image.free_symbols},
-            key=sympy.default_sort_key)
-        self._compile()
+            key=sympy.default_sort_key))
 
-    def _compile(self):
-        """The context of ``symbols`` and each chain's images (p, q) in it; a
-        chain whose denominators are not plainly positive is left to sympy."""
-        self.index = {s: i for i, s in enumerate(self.symbols)}
-        self.ctx = flint.fmpq_mpoly_ctx.get(tuple(f"v{i}" for i in range(len(self.symbols))), "lex")
+    def _compile(self, symbols):
+        """The polynomials in ``symbols`` and each chain's images (p, q) there;
+        a chain whose denominators are not plainly positive is left to sympy."""
+        self.surds = Surds(symbols)
         self.chains = []
         for chain in self.source:
-            images = [(self.index[s], self.parts(image, None)) for s, image in chain]
+            images = [(self.surds.index[s], self.surds.parts(image, None)) for s, image in chain]
             if all(image is not None and self.coefficient_sign(image[2]) == 1 for _, image in images):
                 self.chains.append([(i, (a, d)) for i, (a, _, d) in images])
 
     def sign(self, expr):
-        """The sign of (a + b sqrt(D)) / d, from those of a, b, d and a^2 - b^2 D
+        """The sign of (a + b sqrt(R)) / d, from those of a, b, d and a^2 - b^2 R
         as polynomials (b = 0 for a rational function); None when undecided."""
-        new = expr.free_symbols - set(self.index)
+        new = expr.free_symbols - set(self.surds.index)
         if new:
-            self.symbols += sorted(new, key=sympy.default_sort_key)
-            self._compile()
-        radicands = {p.base for p in expr.atoms(sympy.Pow) if p.exp.is_Rational and p.exp.q == 2}
-        if len(radicands) > 1:
-            return None
-        radicand = radicands.pop() if radicands else None
-        root = None if radicand is None else self.parts(radicand, None)
-        if root is not None and not root[2].is_one():
-            return None
-        found = self.parts(expr, (radicand, root and root[0]))
+            self._compile(self.surds.symbols + sorted(new, key=sympy.default_sort_key))
+        found = self.surds.read(expr)
         if found is None:
             return None
-        common = found[0].gcd(found[1]).gcd(found[2])
-        a, b, d = (x / common for x in found)
+        (a, b, d), radicand = found
         if b.is_zero():
             return self.product_sign(a, d)
-        sa, sb = self.poly_sign(a), self.poly_sign(b)
-        if sa is None or sb is None or self.poly_sign(d) is None:
+        sa, sb, sd = self.poly_sign(a), self.poly_sign(b), self.poly_sign(d)
+        if sa is None or sb is None or sd is None:
             return None
         if sa == 0 or sa == sb:
-            sign = sb
-        else:
-            diff = self.poly_sign(a ** 2 - b ** 2 * root[0])
-            sign = None if diff is None else sa * diff
-        return None if sign is None else sign * self.poly_sign(d)
+            return sb * sd
+        diff = self.poly_sign(a ** 2 - b ** 2 * radicand)
+        return None if diff is None else sa * diff * sd
 
     def product_sign(self, num, den):
         """The sign of num/den, both decided in one chain (0 for num = 0)."""
@@ -252,43 +239,7 @@ class _FlintChains:
         return None
 
     def poly_sign(self, poly):
-        return self.product_sign(poly, self.ctx.constant(1))
-
-    def parts(self, expr, root):
-        """(a, b, d) FLINT polynomials with expr = (a + b r) / d, where ``root``
-        is (the radicand R, R as a polynomial) and r = sqrt(R); None when
-        ``expr`` is not of that kind."""
-        ctx = self.ctx
-        zero, one = ctx.constant(0), ctx.constant(1)
-        if expr.is_Rational:
-            return ctx.constant(flint.fmpq(int(expr.p), int(expr.q))), zero, one
-        if expr.is_Symbol:
-            return ctx.gen(self.index[expr]), zero, one
-        if expr.is_Pow and expr.exp.is_Rational and expr.exp.q == 2:
-            if root is None or root[1] is None or expr.base != root[0]:
-                return None
-            m = (int(expr.exp.p) - 1) // 2     # R^(k/2) = R^m r
-            return (zero, root[1] ** m, one) if m >= 0 else (zero, one, root[1] ** -m)
-        if expr.is_Pow and expr.exp.is_Integer:
-            base = self.parts(expr.base, root)
-            if base is not None and int(expr.exp) < 0:
-                base = _inverse(base, root[1] if root else None)
-            if base is None:
-                return None
-            result = (one, zero, one)
-            for _ in range(abs(int(expr.exp))):
-                result = _times(result, base, root[1] if root else None)
-            return result
-        if not (expr.is_Add or expr.is_Mul):
-            return None
-        terms = [self.parts(a, root) for a in expr.args]
-        if None in terms:
-            return None
-        result = terms[0]
-        for term in terms[1:]:
-            result = _times(result, term, root[1] if root else None) if expr.is_Mul \
-                else _plus(result, term)
-        return result
+        return self.product_sign(poly, self.surds.constant(1))
 
     def coefficient_sign(self, poly):
         """1 or -1 when every coefficient has that sign, every symbol in it is
@@ -296,10 +247,10 @@ class _FlintChains:
         coeffs = poly.coeffs()
         if not coeffs or not (all(c > 0 for c in coeffs) or all(c < 0 for c in coeffs)):
             return None
-        used = [self.symbols[i] for i, d in enumerate(poly.degrees()) if d]
-        if not all(s.is_nonnegative for s in used):
+        symbols = self.surds.symbols
+        if not all(symbols[i].is_nonnegative for i, d in enumerate(poly.degrees()) if d):
             return None
-        if not any(all(e == 0 or self.symbols[i].is_positive for i, e in enumerate(m))
+        if not any(all(e == 0 or symbols[i].is_positive for i, e in enumerate(m))
                    for m in poly.monoms()):
             return None
         return 1 if coeffs[0] > 0 else -1
@@ -325,29 +276,6 @@ def _substitute_all(poly, chain):
     for i, (p, q) in chain:
         poly = _substitute(poly, i, p, q)
     return poly
-
-
-def _plus(x, y):
-    (a1, b1, d1), (a2, b2, d2) = x, y
-    common = d1.gcd(d2)
-    u, v = d2 / common, d1 / common
-    return a1 * u + a2 * v, b1 * u + b2 * v, d1 * u
-
-
-def _times(x, y, radicand):
-    (a1, b1, d1), (a2, b2, d2) = x, y
-    if b1.is_zero() or b2.is_zero():
-        return a1 * a2, a1 * b2 + b1 * a2, d1 * d2
-    return a1 * a2 + b1 * b2 * radicand, a1 * b2 + b1 * a2, d1 * d2
-
-
-def _inverse(x, radicand):
-    """d / (a + b r) = d (a - b r) / (a^2 - b^2 R); None where that is 0."""
-    a, b, d = x
-    norm = a ** 2 - b ** 2 * radicand if not b.is_zero() else a
-    if norm.is_zero():
-        return None
-    return (d * a, -d * b, norm) if not b.is_zero() else (d, b, a)
 
 
 def _images(region: Region, symbol) -> list:
