@@ -10,10 +10,12 @@ from __future__ import annotations
 from typing import Sequence
 
 import sympy
+from sympy.polys.polyutils import _sort_gens
 
 from .region import Region, Relation
 from .sampling import SymbolSpec
 from .signs import SignOracle
+from .surds import Surds
 
 #: Above this many operations general simplification is skipped (it is slow).
 SIMPLIFY_LIMIT = 200
@@ -40,7 +42,7 @@ def tidy_with(expr, oracle: SignOracle):
     expr = _pull_squares(expr, oracle)
     forms = [expr, _attempt(sympy.factor, expr)]
     if is_rational(expr):
-        forms += [_attempt(_monic_form, expr), _attempt(sympy.expand, expr)]
+        forms += _rational_forms(expr)
     else:
         radical = _attempt(_radical_form, expr)
         if radical is not None:
@@ -50,13 +52,22 @@ def tidy_with(expr, oracle: SignOracle):
     return min((f for f in forms if f is not None), key=sympy.count_ops)
 
 
-def _monic_form(expr):
-    """p/q expanded, with q's leading coefficient 1: (N^2 + N + 1/3)/(N^2 + N + 1)."""
-    num, den = sympy.fraction(sympy.cancel(expr))
-    if not den.free_symbols:
-        return sympy.expand(expr)
-    lc = sympy.Poly(den).LC()
-    return sympy.expand(num / lc) / sympy.expand(den / lc)
+def _rational_forms(expr) -> list:
+    """In lowest terms on FLINT: p/q expanded with q's leading coefficient 1,
+    (N^2 + N + 1/3)/(N^2 + N + 1), and for a monomial q the expanded sum
+    of terms, -9*Nc^4/(16*Nf^2) + 3*Nc^2/8 - 3/16."""
+    surds = Surds(_sort_gens(expr.free_symbols))
+    found = surds.read(expr)
+    if found is None:
+        return []
+    num, _, den = found[0]
+    if den.is_constant():
+        return [surds.expr(num / den)]
+    lc = den.leading_coefficient()
+    forms = [surds.expr(num / lc) / surds.expr(den / lc)]
+    if len(den.coeffs()) == 1:
+        forms.append(sympy.Add(*[t / surds.expr(den) for t in sympy.Add.make_args(surds.expr(num))]))
+    return forms
 
 
 def is_rational(expr) -> bool:
