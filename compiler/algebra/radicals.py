@@ -7,8 +7,11 @@ radical as ``K (A + B sqrt(R)) / D``.
 """
 from __future__ import annotations
 
+from fractions import Fraction
+from math import gcd, lcm
 from typing import Sequence
 
+import flint
 import sympy
 from sympy.polys.polyutils import _sort_gens
 
@@ -96,6 +99,18 @@ def _radical_form(expr):
         return None
     r = sympy.sqrt(radicals.pop())
     num, den = (sympy.expand(x) for x in sympy.fraction(sympy.together(expr)))
+    parts = _flint_parts(expr, num, den, r) or _sympy_parts(num, den, r)
+    if parts is None:
+        return None
+    k, a, b, den = parts
+    if k == 0:
+        return sympy.Integer(0)
+    return sympy.factor(k) * (sympy.factor(a) + sympy.factor(b) * r) / sympy.factor(den)
+
+
+def _sympy_parts(num, den, r):
+    """K, A, B, D of num/den = K (A + B r) / D by sympy's gcds (None when
+    num/den is not linear in r)."""
     if den.has(r):
         db = den.coeff(r)
         da = sympy.expand(den - db * r)
@@ -109,9 +124,64 @@ def _radical_form(expr):
     a, b, den = (sympy.cancel(x / common) for x in (a, b, den))
     k = sympy.gcd(a, b) if b != 0 else a
     if k == 0:
-        return sympy.Integer(0)
-    return sympy.factor(k) * (sympy.factor(sympy.cancel(a / k))
-                              + sympy.factor(sympy.cancel(b / k)) * r) / sympy.factor(den)
+        return k, a, b, den
+    return k, sympy.cancel(a / k), sympy.cancel(b / k), den
+
+
+def _flint_parts(expr, num, den, r):
+    """:func:`_sympy_parts` on FLINT polynomials, with every gcd normalized as
+    sympy's is, so the parts are the same; None unless num and den are
+    polynomials over the rationals in the symbols and r."""
+    if any(p.base == r.base and p.exp != r.exp for x in (num, den) for p in x.atoms(sympy.Pow)):
+        return None   # R^(3/2) and the like
+    surds = Surds(_sort_gens(expr.free_symbols))
+    radicand = surds.parts(r.base, None)
+    if radicand is None or not radicand[1].is_zero() or not radicand[2].is_one():
+        return None
+    root = (r.base, radicand[0])
+    found = [surds.parts(x, root) for x in (num, den)]
+    if None in found or not all(d.is_constant() for _, _, d in found):
+        return None
+    (a, b, dn), (da, db, dd) = found
+    a, b, da, db = a / dn, b / dn, da / dd, db / dd
+    if db.is_zero():
+        den = da
+    else:   # times the conjugate da - db r
+        a, b, den = a * da - b * db * root[1], b * da - a * db, da ** 2 - db ** 2 * root[1]
+    common = _sympy_gcd(_sympy_gcd(a, b), den)
+    a, b, den = a / common, b / common, den / common
+    k = _sympy_gcd(a, b) if not b.is_zero() else a
+    if k.is_zero():
+        return sympy.Integer(0), None, None, None
+    return tuple(surds.expr(x) for x in (k, a / k, b / k, den))
+
+
+def _sympy_gcd(f, g):
+    """The gcd of two FLINT polynomials normalized as ``sympy.gcd`` normalizes
+    it: over the integers with the common content and a positive leading
+    coefficient when both have integer coefficients, else monic; for two
+    constants, the gcd of the numerators over the lcm of the denominators."""
+    ctx = f.context()
+    if f.is_constant() and g.is_constant():
+        a, b = (Fraction(int(x.p), int(x.q)) for x in (_constant(f), _constant(g)))
+        value = Fraction(gcd(a.numerator, b.numerator), lcm(a.denominator, b.denominator))
+        return ctx.constant(flint.fmpq(value.numerator, value.denominator))
+    h = f.gcd(g)
+    if not all(int(c.q) == 1 for p in (f, g) for c in p.coeffs()):
+        return h
+    h = h * lcm(*(int(c.q) for c in h.coeffs()))
+    h = h / _content(h) * gcd(_content(f), _content(g))
+    return -h if h.leading_coefficient() < 0 else h
+
+
+def _constant(p):
+    coeffs = p.coeffs()
+    return coeffs[0] if coeffs else flint.fmpq(0)
+
+
+def _content(p) -> int:
+    """The gcd of an integer polynomial's coefficients (0 for 0)."""
+    return gcd(*(int(c.p) for c in p.coeffs()))
 
 
 def _pull_squares(expr, signer):
