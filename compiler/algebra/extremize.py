@@ -123,8 +123,8 @@ class _Problem:
         """The shown form of ``expr``; a form already shown is kept as it is
         (a critical point is tidied once, then listed and kept)."""
         if expr not in self.tidied:
-            self.tidied[expr] = tidy_with(expr, self.oracle)
-            self.tidied.setdefault(self.tidied[expr], self.tidied[expr])
+            shown = self.tidied[expr] = tidy_with(expr, self.oracle)
+            self.tidied.setdefault(shown, shown)
         return self.tidied[expr]
 
     # -- critical points ----------------------------------------------------
