@@ -242,16 +242,18 @@ class _FlintChains:
         return self.product_sign(poly, self.surds.constant(1))
 
     def coefficient_sign(self, poly):
-        """1 or -1 when every coefficient has that sign, every symbol in it is
-        nonnegative and some term cannot vanish; None otherwise."""
+        """1 or -1 when every coefficient has that sign, every term is >= 0
+        (its symbols nonnegative, or real to even powers) and some term
+        cannot vanish; None otherwise."""
         coeffs = poly.coeffs()
         if not coeffs or not (all(c > 0 for c in coeffs) or all(c < 0 for c in coeffs)):
             return None
-        symbols = self.surds.symbols
-        if not all(symbols[i].is_nonnegative for i, d in enumerate(poly.degrees()) if d):
-            return None
-        if not any(all(e == 0 or symbols[i].is_positive for i, e in enumerate(m))
-                   for m in poly.monoms()):
+        symbols, monoms = self.surds.symbols, poly.monoms()
+        for i, d in enumerate(poly.degrees()):
+            if d and not symbols[i].is_nonnegative and not (
+                    symbols[i].is_real and all(m[i] % 2 == 0 for m in monoms)):
+                return None
+        if not any(all(e == 0 or symbols[i].is_positive for i, e in enumerate(m)) for m in monoms):
             return None
         return 1 if coeffs[0] > 0 else -1
 
