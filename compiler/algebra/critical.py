@@ -26,6 +26,8 @@ import flint
 import mpmath
 import sympy
 
+from . import surds
+
 
 #: Digits of the real roots of implicit components.
 DIGITS = 60
@@ -149,7 +151,7 @@ def split_content(f, variables):
         raise ValueError("the function is identically zero")
     content, g = sympy.Integer(1), sympy.Integer(1)
     for part, power in ((num, 1), (den, -1)):
-        coeff, factors = sympy.factor_list(part)
+        coeff, factors = surds.factor_list(part) or sympy.factor_list(part)
         content *= coeff ** power
         for base, mult in factors:
             if base.has(*variables):

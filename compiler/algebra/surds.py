@@ -10,10 +10,13 @@ on sympy.
 """
 from __future__ import annotations
 
+from fractions import Fraction
+from math import gcd, lcm
 from typing import Sequence
 
 import flint
 import sympy
+from sympy.polys.polyutils import _sort_gens
 
 Parts = tuple  # (a, b, d): FLINT polynomials, the value (a + b r) / d
 
@@ -94,6 +97,28 @@ class Surds:
         """A polynomial as sympy's expanded sum of its terms."""
         return sympy.Add(*[sympy.Rational(int(c.p), int(c.q)) * sympy.Mul(
             *[s ** e for s, e in zip(self.symbols, monom) if e]) for monom, c in poly.terms()])
+
+
+def factor_list(expr) -> tuple[sympy.Rational, list] | None:
+    """``sympy.factor_list(expr)`` for a polynomial over QQ, from FLINT's
+    factorization: a rational times primitive integer factors with positive
+    leading coefficients (in sympy's order of the symbols); None when
+    ``expr`` is no such polynomial."""
+    if expr.is_Rational:
+        return expr, []
+    surds = Surds(_sort_gens(expr.free_symbols))
+    parts = surds.parts(expr, None)
+    if parts is None or not parts[2].is_constant():
+        return None
+    c, factors = (parts[0] / parts[2]).factor()
+    coeff = Fraction(int(c.p), int(c.q))
+    found = []
+    for f, e in factors:
+        scale = lcm(*(int(q.q) for q in f.coeffs()))
+        content = gcd(*(int(q.p) for q in f.coeffs())) * (-1 if f.leading_coefficient() < 0 else 1)
+        coeff *= Fraction(content, scale) ** int(e)
+        found.append((surds.expr(f * scale / content), int(e)))
+    return sympy.Rational(coeff.numerator, coeff.denominator), found
 
 
 def _plus(x: Parts, y: Parts) -> Parts:
