@@ -18,7 +18,7 @@ from sympy.polys.polyutils import _sort_gens
 from .region import Region, Relation
 from .sampling import SymbolSpec
 from .signs import SignOracle
-from .surds import Surds
+from .surds import Surds, factored
 
 #: Above this many operations general simplification is skipped (it is slow).
 SIMPLIFY_LIMIT = 200
@@ -43,10 +43,10 @@ def tidy_with(expr, oracle: SignOracle):
     if expr.is_Atom:
         return expr
     expr = _pull_squares(expr, oracle)
-    forms = [expr, _attempt(sympy.factor, expr)]
     if is_rational(expr):
-        forms += _rational_forms(expr)
+        forms = [expr, factored(expr), *_rational_forms(expr)]
     else:
+        forms = [expr, _attempt(sympy.factor, expr)]
         radical = _attempt(_radical_form, expr)
         if radical is not None:
             forms.append(radical)

@@ -16,6 +16,7 @@ from typing import Sequence
 
 import flint
 import sympy
+from sympy.core.mul import _keep_coeff
 from sympy.polys.polyutils import _sort_gens
 
 Parts = tuple  # (a, b, d): FLINT polynomials, the value (a + b r) / d
@@ -93,6 +94,19 @@ class Surds:
             result = _times(result, term, radicand) if expr.is_Mul else _plus(result, term)
         return result
 
+    def factor_list(self, poly) -> tuple[sympy.Rational, list]:
+        """A rational times primitive integer factors with positive leading
+        coefficients (in this order of the symbols), as sympy writes them."""
+        c, factors = poly.factor()
+        coeff = Fraction(int(c.p), int(c.q))
+        found = []
+        for f, e in factors:
+            scale = lcm(*(int(q.q) for q in f.coeffs()))
+            content = gcd(*(int(q.p) for q in f.coeffs())) * (-1 if f.leading_coefficient() < 0 else 1)
+            coeff *= Fraction(content, scale) ** int(e)
+            found.append((self.expr(f * scale / content), int(e)))
+        return sympy.Rational(coeff.numerator, coeff.denominator), found
+
     def expr(self, poly) -> sympy.Expr:
         """A polynomial as sympy's expanded sum of its terms."""
         return sympy.Add(*[sympy.Rational(int(c.p), int(c.q)) * sympy.Mul(
@@ -101,24 +115,26 @@ class Surds:
 
 def factor_list(expr) -> tuple[sympy.Rational, list] | None:
     """``sympy.factor_list(expr)`` for a polynomial over QQ, from FLINT's
-    factorization: a rational times primitive integer factors with positive
-    leading coefficients (in sympy's order of the symbols); None when
-    ``expr`` is no such polynomial."""
+    factorization (the factors in another order); None when ``expr`` is no
+    such polynomial."""
     if expr.is_Rational:
         return expr, []
     surds = Surds(_sort_gens(expr.free_symbols))
     parts = surds.parts(expr, None)
     if parts is None or not parts[2].is_constant():
         return None
-    c, factors = (parts[0] / parts[2]).factor()
-    coeff = Fraction(int(c.p), int(c.q))
-    found = []
-    for f, e in factors:
-        scale = lcm(*(int(q.q) for q in f.coeffs()))
-        content = gcd(*(int(q.p) for q in f.coeffs())) * (-1 if f.leading_coefficient() < 0 else 1)
-        coeff *= Fraction(content, scale) ** int(e)
-        found.append((surds.expr(f * scale / content), int(e)))
-    return sympy.Rational(coeff.numerator, coeff.denominator), found
+    return surds.factor_list(parts[0] / parts[2])
+
+
+def factored(expr) -> sympy.Expr | None:
+    """``sympy.factor(expr)`` for a rational function over QQ, from FLINT's
+    factorizations of its numerator and denominator; None for anything else."""
+    surds = Surds(_sort_gens(expr.free_symbols))
+    parts = surds.parts(expr, None)
+    if parts is None:
+        return None
+    (cn, fn), (cd, fd) = surds.factor_list(parts[0]), surds.factor_list(parts[2])
+    return _keep_coeff(cn / cd, sympy.Mul(*[f ** e for f, e in fn], *[f ** -e for f, e in fd]))
 
 
 def _plus(x: Parts, y: Parts) -> Parts:
