@@ -18,6 +18,7 @@ import jinja2
 
 from compiler.render.claims import claim_latex
 from compiler.render.notation import name_tree
+from compiler.render.plotting.pdf import plot_pdf
 from compiler.render.printers import LatexPrinter, lines
 from compiler.render.templates import loader
 from compiler.render.texprose import WIDTH, code_lines, escape_detail, escape_tex, prose_tex
@@ -81,8 +82,6 @@ def _plots(report: Report) -> dict[int, PlotData]:
 
 def plot_files(report: Report) -> dict[str, bytes]:
     """The PDF of each plot, keyed by the name ``to_tex`` includes it under."""
-    from compiler.render.plots import plot_pdf
-
     return {plot_name(report, n): plot_pdf(p, report.notation)
             for n, p in enumerate(_plots(report).values(), start=1)}
 
