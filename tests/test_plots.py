@@ -14,7 +14,7 @@ import zlib
 import pytest
 
 from compiler.render.plotting.labels import Run, name_label, tex_runs
-from compiler.render.plotting.layout import GRID, layout, ticks
+from compiler.render.plotting.layout import GRID, layout, measure, ticks
 from compiler.render.plotting.pdf import plot_pdf
 from compiler.render.plotting.svg import plot_svg
 from compiler.results import PlotData
@@ -69,6 +69,15 @@ def test_a_flat_curve_and_a_missing_value_still_make_axes():
     assert flat.curves[0].pieces and all(math.isfinite(v) for p in flat.curves[0].pieces for v in p[0])
     gap = layout(PlotData("x", "0", "1", {}, {"f": [(0.0, 1.0), (0.5, float("nan")), (1.0, 1.0)]}), {})
     assert len(gap.curves[0].pieces) == 2
+
+
+def test_a_long_line_of_fixed_values_wraps_within_the_figure():
+    fixed = {f"mu_{i}": f"{i}/7" for i in range(1, 13)}
+    figure = layout(PlotData("x", "0", "1", fixed, {"f": [(0.0, 0.0), (1.0, 1.0)]}), {})
+    heading = [t for t in figure.texts if t.anchor == "start" and any(r.text.startswith(" = ") for r in t.label)]
+    assert len(heading) > 1
+    assert all(t.x + measure(t.label) <= figure.width for t in heading)
+    assert "".join(r.text for t in heading for r in t.label).count("μ") == 12
 
 
 def test_a_dropped_sample_breaks_the_curve_instead_of_bridging_a_pole():

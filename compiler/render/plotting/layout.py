@@ -26,6 +26,9 @@ COLORS = ((0.0, 0.447, 0.698), (0.835, 0.369, 0.0), (0.0, 0.62, 0.451), (0.8, 0.
           (0.902, 0.624, 0.0), (0.337, 0.706, 0.914), (0.0, 0.0, 0.0))
 #: Beyond this a value is drawn as a gap: the axis span must stay a finite float.
 _LARGEST = 1e300
+#: Room for text measured in Times: a browser without Times draws the SVG in a
+#: wider serif (DejaVu Serif digits are 27% wider than Times digits).
+_SLACK = 1.3
 _MARGIN = 0.05  # data to axes edge, a fraction of the span (common practice, no source)
 _STEPS = (1, 2, 25, 5, 10)  # tick steps by tens: 1, 2, 2.5, 5 (common practice, no source)
 
@@ -122,8 +125,8 @@ def _limits(values: list[float]) -> tuple[float, float]:
 
 # ------------------------------------------------------------------ layout
 
-def _drawable(y) -> bool:
-    return y is not None and math.isfinite(y) and abs(y) <= _LARGEST
+def _drawable(v) -> bool:
+    return v is not None and math.isfinite(v) and abs(v) <= _LARGEST
 
 
 def _pieces(points) -> list[list[tuple[float, float]]]:
@@ -131,6 +134,7 @@ def _pieces(points) -> list[list[tuple[float, float]]]:
     skipped: the engine samples evenly, so a step wider than the usual one is a
     point it dropped (not real there), and the curve breaks instead of
     bridging a pole."""
+    points = [(x, y) for x, y in points if _drawable(x)]
     usual = min((b[0] - a[0] for a, b in zip(points, points[1:]) if b[0] > a[0]), default=0.0)
     out, piece, previous = [], [], 0.0
     for x, y in points:
@@ -160,7 +164,7 @@ def _legend(entries: list[tuple[tuple, Label]], box, points) -> tuple[list[Line]
     """Legend in the inside corner its box covers fewest curve points of."""
     left, top, right, bottom = box
     sample, gap, pad, row = 16.0, 4.0, 6.0, SIZE * 1.35
-    w = sample + gap + max(measure(label) for _, label in entries) * 1.15
+    w = sample + gap + max(measure(label) for _, label in entries) * _SLACK
     h = row * len(entries)
     corners = [(right - pad - w, top + pad), (left + pad, top + pad),
                (right - pad - w, bottom - pad - h), (left + pad, bottom - pad - h)]
@@ -188,10 +192,11 @@ def layout(plot: PlotData, notation: dict[str, str]) -> Layout:
     y0, y1 = _limits(ys)
     xt, yt = ticks(x0, x1, 7), ticks(y0, y1, 7)
 
-    title = _title(plot, notation)
-    left = 6 + max(map(measure, yt.labels)) * 1.2 + 7
-    top = 8 + (SIZE * 1.6 if title or yt.power else 0)
-    right, bottom = WIDTH - 10, HEIGHT - (SIZE * 3.4 + 8)
+    right = WIDTH - 10
+    left = 6 + max(map(measure, yt.labels)) * _SLACK + 7
+    heading = _heading(plot, notation, yt.power, right - left)
+    top = 8 + SIZE * 1.35 * len(heading) + (SIZE * 0.3 if heading else 0)
+    bottom = HEIGHT - (SIZE * 3.4 + 8)
     box = (left, top, right, bottom)
 
     def px(x: float) -> float:
@@ -208,9 +213,8 @@ def layout(plot: PlotData, notation: dict[str, str]) -> Layout:
     texts = [Text(px(v), bottom + 5 + SIZE, label, "middle") for v, label in zip(xt.values, xt.labels)]
     texts += [Text(left - 6, py(v) + SIZE * 0.32, label, "end") for v, label in zip(yt.values, yt.labels)]
     texts.append(Text((left + right) / 2, HEIGHT - 8, name_label(plot.variable, notation), "middle"))
-    heading = (_power_label(yt.power) + plain("    ") if yt.power else ()) + title
-    if heading:
-        texts.append(Text(left, top - SIZE * 0.6, heading, "start"))
+    texts += [Text(left, top - SIZE * (0.6 + 1.35 * (len(heading) - 1 - i)), line, "start")
+              for i, line in enumerate(heading)]
     if xt.power:
         texts.append(Text(right, bottom + 5 + SIZE * 2.4, _power_label(xt.power), "end"))
 
@@ -230,9 +234,16 @@ def _curve_label(name: str, notation: dict[str, str]) -> Label:
     return plain(name) if name.startswith("curve ") else name_label(name, notation)
 
 
-def _title(plot: PlotData, notation: dict[str, str]) -> Label:
-    """The fixed values, ``N = 3, g = 2``."""
-    out: Label = ()
-    for i, (name, value) in enumerate(plot.fixed.items()):
-        out += (plain(", ") if i else ()) + name_label(name, notation) + plain(f" = {value}")
-    return out
+def _heading(plot: PlotData, notation: dict[str, str], power: int, width: float) -> list[Label]:
+    """The lines above the axes: the y unit (``×10⁷``) if any, then the fixed
+    values ``N = 3, g = 2``, wrapped after a comma to fit ``width``."""
+    parts = [name_label(name, notation) + plain(f" = {value}") for name, value in plot.fixed.items()]
+    lines, current = [], _power_label(power) + plain("    ") if power else ()
+    for i, part in enumerate(parts):
+        comma = plain(", ") if i else ()
+        if i and measure(current + comma + part) * _SLACK > width:
+            lines.append(current + plain(","))
+            current = part
+        else:
+            current += comma + part
+    return lines + [current] if current else lines
