@@ -115,7 +115,7 @@ def test_the_renderers_reach_no_algebra_engine_or_command_line():
 
 
 #: The command line's own modules: the argument wiring, its help texts, the watch server.
-COMMAND_LINE = ("compiler.cli", "compiler.usage", "compiler.watch")
+COMMAND_LINE = ("compiler.cli", "compiler.usage", "compiler.watch", "compiler.outputs")
 
 
 def test_the_command_line_reaches_the_rest_through_engine_renderers_and_diff():

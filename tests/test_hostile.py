@@ -180,7 +180,9 @@ BOMBS = {
                                   "bundle T: real, rank 64\nbundle N: real, rank 64\n"
                                   "bundle M: real, rank 64\nbundle K: real, rank 64\n"
                                   "let a = Ahat(T)*L(N)*Ahat(M)*L(K)", 9,
-                                  "grew beyond 20000 terms (the term limit)"),
+                                  "would pass 100000 characters of text (the limit on report size"),
+    "long product": ("", "symbol x, y\nlet c = (x + 1)^500*(y + 1)^500", 3,
+                     "grew beyond 200000 terms (the term limit)"),
     "large symmetric power": ("---\ntruncate: 40\n---\n",
                               "bundle V: complex, rank 64\nlet a = ch(sym(V, 100))", 6,
                               "sym(V, 100) would multiply about 37197269800 term pairs (the limit is"),

@@ -16,6 +16,7 @@ from pathlib import Path
 
 import jinja2
 
+from compiler.render import TEX_STYLES as STYLES
 from compiler.render.claims import claim_latex
 from compiler.render.notation import name_tree
 from compiler.render.plotting.pdf import plot_pdf
@@ -25,7 +26,7 @@ from compiler.render.texprose import WIDTH, code_lines, escape_detail, escape_te
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 from compiler.texsafe import escape_code, file_name
 
-STYLES = ("appendix", "audit")
+
 #: Statements that only declare: the appendix leaves them out.
 DECLARATIONS = frozenset({"symbol", "convention", "bundle", "split", "fiber", "surface", "sphere"})
 
