@@ -95,6 +95,8 @@ def test_names_follow_the_notation_rule():
     hat = tex_runs(r"\hat{A}_{\mathrm{tw}}")
     assert [(r.text, r.italic, r.accent, r.rise < 0) for r in hat] == [
         ("A", True, "hat", False), ("t", False, "", True), ("w", False, "", True)]
+    assert "".join(r.text for r in tex_runs(r"x_{\text{non-free}}-1")) == "xnon-free−1"
+    assert [r.italic for r in tex_runs(r"\mathit{N2}\mathrm{d}\,\Sigma")] == [True, True, False, False, False]
 
 
 # --------------------------------------------------------------------- SVG

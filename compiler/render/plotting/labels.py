@@ -107,7 +107,10 @@ def plain(text: str, at: At = At()) -> Label:
 # ------------------------------------------- the author's LaTeX subset
 
 _TOKEN = re.compile(r"\\([A-Za-z]+)|\\(.)|(.)", re.S)
-_UPRIGHT = frozenset({"mathrm", "mathbf", "mathsf", "mathcal", "mathbb", "text"})
+#: Font commands and the mode of their argument: "math" slants letters, "it"
+#: slants everything, "up" nothing, and "text" keeps spaces and hyphens too.
+_MODES = {"mathrm": "up", "mathbf": "up", "mathsf": "up", "mathcal": "up", "mathbb": "up", "mathit": "it",
+          "text": "text"}
 _ACCENTS = {"hat": "hat", "widehat": "hat", "bar": "bar", "overline": "bar", "tilde": "tilde",
             "widetilde": "tilde", "dot": "dot", "ddot": "ddot", "vec": "vec", "check": "check"}
 _COMMAND_SIGNS = {"prime": "′", "ast": "∗", "star": "⋆", "dagger": "†", "ell": "ℓ", "partial": "∂",
@@ -123,41 +126,42 @@ class _TexReader:
         self.tokens = [m.groups() for m in _TOKEN.finditer(latex)]
         self.i = 0
 
-    def group(self, at: At, italic: bool | None) -> Label:
+    def group(self, at: At, mode: str) -> Label:
         """Atoms up to the closing brace (or the end)."""
         out: Label = ()
         while self.i < len(self.tokens) and self.tokens[self.i][2] != "}":
-            out += self.atom(at, italic)
+            out += self.atom(at, mode)
         self.i += 1  # the closing brace
         return out
 
-    def atom(self, at: At, italic: bool | None) -> Label:
-        """One token's runs; ``italic`` None is math mode (letters slant)."""
+    def atom(self, at: At, mode: str) -> Label:
+        """One token's runs (a group is one atom, as the argument of a command)."""
         if self.i >= len(self.tokens):
             return ()
         command, escaped, char = self.tokens[self.i]
         self.i += 1
         if char == "{":
-            return self.group(at, italic)
+            return self.group(at, mode)
         if char in ("_", "^"):
-            return self.atom(at.sub() if char == "_" else at.sup(), italic)
+            return self.atom(at.sub() if char == "_" else at.sup(), mode)
         if escaped is not None:
             return (at.run(_SPACES.get(escaped, escaped)),)
         if command is not None:
-            return self.command(command, at, italic)
+            return self.command(command, at, mode)
+        if mode == "text":
+            return (at.run(char),)
         if char == " ":
             return ()
-        slant = char.isalpha() if italic is None else italic
-        return (at.run(_sign(char), slant),)
+        return (at.run(_sign(char), char.isalpha() if mode == "math" else mode == "it"),)
 
-    def command(self, command: str, at: At, italic: bool | None) -> Label:
+    def command(self, command: str, at: At, mode: str) -> Label:
         if command in GREEK:
             letter = GREEK[command]
-            return (at.run(letter, _greek_italic(letter) if italic is None else italic),)
-        if command in _UPRIGHT or command == "mathit":
-            return self.atom(at, command == "mathit")
+            return (at.run(letter, _greek_italic(letter) if mode == "math" else mode == "it"),)
+        if command in _MODES:
+            return self.atom(at, _MODES[command])
         if command in _ACCENTS:
-            return tuple(dataclasses.replace(r, accent=_ACCENTS[command]) for r in self.atom(at, italic))
+            return tuple(dataclasses.replace(r, accent=_ACCENTS[command]) for r in self.atom(at, mode))
         return (at.run(_COMMAND_SIGNS.get(command, command)),)
 
 
@@ -166,5 +170,5 @@ def tex_runs(latex: str, at: At = At()) -> Label:
     reader = _TexReader(latex)
     out: Label = ()
     while reader.i < len(reader.tokens):
-        out += reader.atom(at, None)
+        out += reader.atom(at, "math")
     return out
