@@ -133,7 +133,7 @@ def _pieces(points) -> list[list[tuple[float, float]]]:
     """Points split where a value is missing, not a finite float in range, or
     skipped: the engine samples evenly, so a step wider than the usual one is a
     point it dropped (not real there), and the curve breaks instead of
-    bridging a pole."""
+    bridging a pole.  A lone point is kept as a dot."""
     points = [(x, y) for x, y in points if _drawable(x)]
     usual = min((b[0] - a[0] for a, b in zip(points, points[1:]) if b[0] > a[0]), default=0.0)
     out, piece, previous = [], [], 0.0
@@ -144,7 +144,8 @@ def _pieces(points) -> list[list[tuple[float, float]]]:
         if _drawable(y):
             piece.append((x, y))
         previous = x
-    return out + [piece] if piece else out
+    # a lone point doubled is a line of length zero, which round caps show as a dot
+    return [p if len(p) > 1 else p * 2 for p in (out + [piece] if piece else out)]
 
 
 def _power_label(power: int) -> Label:
