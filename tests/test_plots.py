@@ -70,7 +70,7 @@ def test_a_flat_curve_and_a_missing_value_still_make_axes():
     gap = layout(PlotData("x", "0", "1", {}, {"f": [(0.0, 1.0), (0.5, float("nan")), (1.0, 1.0)]}), {})
     assert len(gap.curves[0].pieces) == 2
     lone = layout(PlotData("x", "0", "1", {}, {"f": [(0.0, 1.0), (0.5, None), (1.0, 1.0)], "g": []}), {})
-    assert [len(set(p)) for p in lone.curves[0].pieces] == [1, 1] and lone.curves[1].pieces == ()
+    assert [(len(p), len(set(p))) for p in lone.curves[0].pieces] == [(2, 1), (2, 1)] and lone.curves[1].pieces == ()
 
 
 def test_a_long_line_of_fixed_values_wraps_within_the_figure():
