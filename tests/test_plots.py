@@ -298,7 +298,8 @@ def test_latex_typesets_the_labels_in_line_with_the_ticks_in_embedded_fonts(tmp_
     assert "a∗" in text and "curve2" in text and "N=4,γ=3" in text and "x)(\\<script>&" in text
     axis_name = next(w for w in words if w[0] == "z")
     words = [w for w in words if w[2] < axis_name[4]]  # the first figure's
-    # article's text width 345pt = 343.71bp; the picture is 0.8 of it over 340bp (LaTeX's article class)
+    # the article's \textwidth at 10pt is 345pt (LaTeX's size10.clo), 72.27pt to 72bp; the picture is
+    # 0.8 of it over the layout's 340bp
     scale = 0.8 * 345 / 72.27 * 72 / 340
     figure = layout(TWO, {"g": r"\gamma"})
     ticks_x = _ticks_x(figure)
