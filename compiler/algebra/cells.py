@@ -19,7 +19,7 @@ from fractions import Fraction
 import flint
 import sympy
 
-from . import budget
+from . import budget, surds
 from .critical import TOL, Implicit, shape, finite, is_real, numeric_sign
 from .sampling import SymbolSpec, evaluate
 
@@ -68,7 +68,7 @@ def _real_roots_in(poly, parameter) -> list:
     if not poly.has(parameter):
         return []
     roots = []
-    for factor, _ in sympy.factor_list(poly)[1]:
+    for factor, _ in (surds.factor_list(poly) or sympy.factor_list(poly))[1]:
         if not factor.has(parameter):
             continue
         q = sympy.Poly(factor, parameter)

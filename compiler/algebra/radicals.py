@@ -18,6 +18,7 @@ from sympy.polys.polyutils import _sort_gens
 from .region import Region, Relation
 from .sampling import SymbolSpec
 from .signs import SignOracle
+from . import surds
 from .surds import Surds, factored
 
 #: Above this many operations general simplification is skipped (it is slow).
@@ -59,17 +60,17 @@ def _rational_forms(expr) -> list:
     """In lowest terms on FLINT: p/q expanded with q's leading coefficient 1,
     (N^2 + N + 1/3)/(N^2 + N + 1), and for a monomial q the expanded sum
     of terms, -9*Nc^4/(16*Nf^2) + 3*Nc^2/8 - 3/16."""
-    surds = Surds(_sort_gens(expr.free_symbols))
-    found = surds.read(expr)
+    field = Surds(_sort_gens(expr.free_symbols))
+    found = field.read(expr)
     if found is None:
         return []
     num, _, den = found[0]
     if den.is_constant():
-        return [surds.expr(num / den)]
+        return [field.expr(num / den)]
     lc = den.leading_coefficient()
-    forms = [surds.expr(num / lc) / surds.expr(den / lc)]
+    forms = [field.expr(num / lc) / field.expr(den / lc)]
     if len(den.coeffs()) == 1:
-        forms.append(sympy.Add(*[t / surds.expr(den) for t in sympy.Add.make_args(surds.expr(num))]))
+        forms.append(sympy.Add(*[t / field.expr(den) for t in sympy.Add.make_args(field.expr(num))]))
     return forms
 
 
@@ -134,12 +135,12 @@ def _flint_parts(expr, num, den, r):
     polynomials over the rationals in the symbols and r."""
     if any(p.base == r.base and p.exp != r.exp for x in (num, den) for p in x.atoms(sympy.Pow)):
         return None   # R^(3/2) and the like
-    surds = Surds(_sort_gens(expr.free_symbols))
-    radicand = surds.parts(r.base, None)
+    field = Surds(_sort_gens(expr.free_symbols))
+    radicand = field.parts(r.base, None)
     if radicand is None or not radicand[1].is_zero() or not radicand[2].is_one():
         return None
     root = (r.base, radicand[0])
-    found = [surds.parts(x, root) for x in (num, den)]
+    found = [field.parts(x, root) for x in (num, den)]
     if None in found or not all(d.is_constant() for _, _, d in found):
         return None
     (a, b, dn), (da, db, dd) = found
@@ -153,7 +154,7 @@ def _flint_parts(expr, num, den, r):
     k = _sympy_gcd(a, b) if not b.is_zero() else a
     if k.is_zero():
         return sympy.Integer(0), None, None, None
-    return tuple(surds.expr(x) for x in (k, a / k, b / k, den))
+    return tuple(field.expr(x) for x in (k, a / k, b / k, den))
 
 
 def _sympy_gcd(f, g):
@@ -192,7 +193,7 @@ def _pull_squares(expr, signer):
     def pull(part):
         if part.is_number:
             return sympy.Integer(1), part
-        coeff, factors = sympy.factor_list(part)
+        coeff, factors = surds.factor_list(part) or sympy.factor_list(part)
         outside, inside = sympy.Integer(1), coeff
         for base, mult in factors:
             s = signer.sign(base) if mult >= 2 else None

@@ -26,6 +26,7 @@ import sympy
 
 from . import budget
 from .region import Region
+from . import surds
 from .surds import Surds
 
 _TESTS = {
@@ -103,7 +104,7 @@ class SignOracle:
         counts as > 0); None when a factor's sign is undecided.  Raises
         ValueError for a complex coefficient."""
         num, den = sympy.fraction(sympy.together(content))
-        (cn, fn), (cd, fd) = sympy.factor_list(num), sympy.factor_list(den)
+        (cn, fn), (cd, fd) = (surds.factor_list(x) or sympy.factor_list(x) for x in (num, den))
         coeff = cn / cd
         if not coeff.is_real:
             raise ValueError(f"complex coefficient {coeff}")
