@@ -131,7 +131,8 @@ class _Problem:
 
     def critical_points(self) -> tuple[list[_Candidate], list[Implicit]]:
         """Closed-form critical points (poles dropped) and implicit components."""
-        self.numerators = [sympy.numer(sympy.together(sympy.diff(self.g, v))) for v in self.vars]
+        first = [sympy.diff(self.g, v) for v in self.vars]
+        self.numerators = [sympy.numer(sympy.together(d)) for d in first]
         self.system = [sympy.Poly(p, *self.vars, *self.param_symbols) for p in self.numerators]
         bound = math.prod(max(sympy.Poly(p, *self.vars).total_degree(), 1) for p in self.numerators)
         if bound > MAX_CRITICAL_DEGREE:
@@ -144,7 +145,9 @@ class _Problem:
             raise ExtremizeError(f"the critical points of {self.name} form a continuous "
                                  f"family, so the Hessian is degenerate") from None
         self.denominator = sympy.denom(sympy.together(self.g))
-        hessian = sympy.hessian(self.g, self.vars)
+        n = len(self.vars)   # sympy's hessian, from the first derivatives at hand
+        hessian = sympy.Matrix([[first[min(i, j)].diff(self.vars[max(i, j)]) for j in range(n)]
+                                for i in range(n)])
         self.minor_exprs = [hessian[:k, :k].det() for k in range(1, len(self.vars) + 1)]
         gens = (*self.vars, *self.param_symbols)
         self.minor_functions = [RationalFunction(m, gens) for m in self.minor_exprs]
