@@ -35,12 +35,13 @@ def tidy(expr, specs: Sequence[SymbolSpec], relations: Sequence[Relation] = ()):
 def tidy_with(expr, oracle: SignOracle):
     """:func:`tidy` with the signs decided by ``oracle``.
 
-    General simplification (slow, and on radicals never shorter in the
-    bundled documents and tests) runs only where no targeted form applies:
-    a rational function is the shortest of its factored, expanded and
-    monic-denominator forms (the forms general simplification picked for
-    every rational value in the documents and tests), a value with one
-    square root also has its canonical K (A + B r) / D."""
+    General simplification is slow, so it runs only where no targeted form
+    applies: a rational function is the shortest of its factored, expanded
+    and monic-denominator forms, all read off FLINT (general simplification
+    picked the same on every rational value of the bundled documents and
+    tests, though not on every rational function); a value with one square
+    root also has its canonical K (A + B r) / D (general simplification was
+    never shorter there)."""
     if expr.is_Atom:
         return expr
     expr = _pull_squares(expr, oracle)
