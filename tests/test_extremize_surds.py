@@ -60,9 +60,9 @@ def test_gcds_are_normalized_as_sympys():
     field = surds.Surds([x, y])
     pairs = [(-2 * x - 2, 4 * x + 4), (x / 2 + sympy.Rational(1, 2), x + 1),
              (sympy.Rational(1, 2), sympy.Rational(1, 3)), (6 * x * y, -4 * y), (sympy.Integer(0), -3 * x - 3)]
-    for f, g in pairs:
-        got = radicals._sympy_gcd(field.parts(f, None)[0], field.parts(g, None)[0])
-        assert field.expr(got) == sympy.gcd(f, g)
+    for p, q in pairs:
+        got = radicals._sympy_gcd(field.parts(p, None)[0], field.parts(q, None)[0])
+        assert field.expr(got) == sympy.gcd(p, q)
 
 
 Ni, g = sympy.Symbol("N", integer=True, positive=True), sympy.Symbol("g", integer=True, positive=True)

@@ -120,8 +120,7 @@ class _Problem:
         self.tidied: dict = {}
 
     def tidy(self, expr):
-        """The shown form of ``expr``; a form already shown is kept as it is
-        (a critical point is tidied once, then listed and kept)."""
+        """The shown form of ``expr``; a form already shown is kept as it is."""
         if expr not in self.tidied:
             shown = self.tidied[expr] = tidy_with(expr, self.oracle)
             self.tidied.setdefault(shown, shown)
@@ -145,9 +144,8 @@ class _Problem:
             raise ExtremizeError(f"the critical points of {self.name} form a continuous "
                                  f"family, so the Hessian is degenerate") from None
         self.denominator = sympy.denom(sympy.together(self.g))
-        n = len(self.vars)   # sympy's hessian, from the first derivatives at hand
-        hessian = sympy.Matrix([[first[min(i, j)].diff(self.vars[max(i, j)]) for j in range(n)]
-                                for i in range(n)])
+        hessian = sympy.Matrix([[first[min(i, j)].diff(self.vars[max(i, j)]) for j in range(len(first))]
+                                for i in range(len(first))])   # sympy's hessian, reusing ``first``
         self.minor_exprs = [hessian[:k, :k].det() for k in range(1, len(self.vars) + 1)]
         gens = (*self.vars, *self.param_symbols)
         self.minor_functions = [RationalFunction(m, gens) for m in self.minor_exprs]
