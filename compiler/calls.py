@@ -18,7 +18,7 @@ from __future__ import annotations
 import itertools
 from dataclasses import dataclass
 
-import sympy
+from .algebra.lazysympy import sympy
 
 from . import expressions as ex, notation, precision
 from .errors import DocumentError, InternalError

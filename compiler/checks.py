@@ -14,7 +14,7 @@ import itertools
 from dataclasses import dataclass, field
 from functools import cached_property
 
-import sympy
+from .algebra.lazysympy import sympy
 
 from . import notation
 from .algebra.graded import Element
@@ -29,7 +29,6 @@ from .results import CheckResult, weakest
 SAMPLES = 24
 #: Sampled equalities agree to this many significant digits.
 DIGITS = 50
-_TOLERANCE = sympy.Rational(1, 10**DIGITS)
 
 
 @dataclass
@@ -171,7 +170,7 @@ def _sample_equal(left, right, difference, ctx: Context):
     for point in points:
         value = evaluate(difference, point, digits=DIGITS + 10)
         scale = 1 + abs(evaluate(left, point, digits=DIGITS + 10))
-        if not value.is_number or abs(value) > _TOLERANCE * scale:
+        if not value.is_number or abs(value) > sympy.Rational(1, 10**DIGITS) * scale:
             where = f"at {describe_point(point)}: " if point else ""
             return "failed", f"{where}left = {_approx(left, point)}, right = {_approx(right, point)}"
     if not symbols:

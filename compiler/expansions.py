@@ -10,7 +10,7 @@ The step's time limit bounds the work.
 """
 from __future__ import annotations
 
-import sympy
+from .algebra.lazysympy import sympy
 
 from . import expressions as ex, notation
 from .algebra.radicals import tidy

@@ -17,7 +17,7 @@ from contextlib import contextmanager
 from fractions import Fraction
 from typing import Union
 
-import sympy
+from .algebra.lazysympy import sympy
 
 from . import calls, expansions, functions, notation
 from .algebra import budget
@@ -27,7 +27,7 @@ from .errors import DocumentError, Location
 from .precision import Known, beyond, power, product, quotient, smallest, whole
 from .statements import expr_nodes as en
 
-Value = Union[Element, sympy.Expr]
+Value = Union[Element, "sympy.Expr"]
 
 
 class Missing:

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from typing import Callable
 
-import sympy
+from .algebra.lazysympy import sympy
 
 from . import constructions, expressions as ex, notation, representations
 from .algebra import genera

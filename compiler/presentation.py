@@ -18,11 +18,9 @@ from functools import lru_cache
 from math import gcd, lcm
 
 import flint
-import sympy
-from sympy.core.mul import _keep_coeff
-from sympy.polys.polyutils import _sort_gens
 
 from .algebra import printing
+from .algebra.lazysympy import sympy
 from .algebra.graded import Element
 
 #: Class-free sympy values with more operations than this are left as they
@@ -175,7 +173,7 @@ def _content(coeffs, poly) -> Fraction:
 def _leading(coeffs, poly) -> Fraction:
     """The leading coefficient in sympy's lexicographic order of the symbols,
     the one ``sympy.factor`` makes positive."""
-    rank = [coeffs.symbols.index(s) for s in _sort_gens(coeffs.symbols)]
+    rank = [coeffs.symbols.index(s) for s in sympy.polys.polyutils._sort_gens(coeffs.symbols)]
     exps, c = max(coeffs.items(poly), key=lambda t: tuple(t[0][i] for i in rank))
     return c
 
@@ -195,7 +193,7 @@ def _factored_fraction(coeffs, num, den):
             base = _poly_expr(coeffs, f, 1 / scale)
             coeff *= scale ** (int(e) * sign)
             factors.append(base ** (int(e) * sign))
-    return _keep_coeff(sympy.Rational(coeff.numerator, coeff.denominator), sympy.Mul(*factors))
+    return sympy.core.mul._keep_coeff(sympy.Rational(coeff.numerator, coeff.denominator), sympy.Mul(*factors))
 
 
 def _quotient_expr(coeffs, num, den):

@@ -13,7 +13,7 @@ from fractions import Fraction
 from functools import reduce
 from math import lcm
 
-import sympy
+from .lazysympy import sympy
 
 from .fibers import CrossCheck, Fiber, FiberError, integrate as integrate_model
 from .graded import Element, Ring

@@ -13,7 +13,7 @@ from __future__ import annotations
 from dataclasses import replace
 from typing import Sequence
 
-import sympy
+from .lazysympy import sympy
 
 from .fibers import Fiber, FiberError, Pairs
 from .graded import AlgebraError, Element, Ring

@@ -22,7 +22,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-import sympy
+from .lazysympy import sympy
 
 from .errors import AlgebraError
 from .fibers import CrossCheck, Fiber, FiberError

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from typing import Sequence
 
-import sympy
+from .lazysympy import sympy
 
 from .region import Region, Relation
 from .sampling import SymbolSpec

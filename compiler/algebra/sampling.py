@@ -17,7 +17,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Iterable
 
-import sympy
+from .lazysympy import sympy
 
 ASSUMPTIONS = ("integer", "positive", "nonnegative", "real", "nonzero")
 _OPS = (">=", ">", "<=", "<")

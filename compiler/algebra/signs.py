@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import itertools
 
-import sympy
+from .lazysympy import sympy
 
 from . import budget
 from .region import Region

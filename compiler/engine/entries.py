@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import dataclasses
 
-import sympy
+from ..algebra.lazysympy import sympy
 
 from ..algebra.graded import Element
 from ..expressions import Missing
@@ -121,7 +121,7 @@ def expr_to_data(expr: sympy.Expr):
     raise ValueError(f"cannot store {type(expr).__name__}")
 
 
-_BUILDERS = {"add": sympy.Add, "mul": sympy.Mul, "pow": sympy.Pow}
+_BUILDERS = {"add": "Add", "mul": "Mul", "pow": "Pow"}  # sympy class names
 
 
 def expr_from_data(data, symbols: dict) -> sympy.Expr:
@@ -131,7 +131,7 @@ def expr_from_data(data, symbols: dict) -> sympy.Expr:
     (kind, args), = data.items()
     if kind == "symbol":
         return symbols[args]
-    return _BUILDERS[kind](*[expr_from_data(a, symbols) for a in args])
+    return getattr(sympy, _BUILDERS[kind])(*[expr_from_data(a, symbols) for a in args])
 
 
 def value_to_data(value) -> dict:

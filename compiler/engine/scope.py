@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 from pathlib import Path
 
-import sympy
+from ..algebra.lazysympy import sympy
 
 from .. import names as names_pass, notation
 from ..algebra import bundles as bundles_mod

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import operator
 
-import sympy
+from ..algebra.lazysympy import sympy
 
 from ..algebra.region import Region, build_region
 from ..errors import DocumentError, Location

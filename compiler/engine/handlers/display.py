@@ -3,7 +3,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 
-import sympy
+from ...algebra.lazysympy import sympy
 
 from ... import notation
 from ...algebra import budget

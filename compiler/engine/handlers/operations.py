@@ -5,11 +5,10 @@ depends on nothing else, so the cache layer may replay it.
 """
 from __future__ import annotations
 
-import sympy
+from ...algebra.lazysympy import sympy
 
 from ... import notation
 from ...algebra import fibers as fibers_mod, localization
-from ...algebra.extremize import ExtremizeError, extremize
 from ...algebra.radicals import tidy
 from ...algebra.graded import Element
 from ...checks import free_symbols
@@ -201,6 +200,7 @@ def _written_monomial(scope, node) -> list:
 
 
 def _extremize(scope, s: n.Extremize, step: Step) -> None:
+    from ...algebra.extremize import ExtremizeError, extremize  # sympy's solver: imported when needed
     f = scope.read(s.target)
     if not is_class_free(f):
         classes = ", ".join(sorted(f.generator_keys()))

@@ -1,0 +1,28 @@
+"""sympy, imported on first use: a build whose algebra stays on FLINT never pays for it.
+
+Modules write ``from ..algebra.lazysympy import sympy`` and use ``sympy.X``
+as usual; the first attribute read imports sympy.  ``is_sympy`` tells a
+sympy object from our own values without importing anything.
+"""
+from __future__ import annotations
+
+import importlib
+import sys
+
+
+class _Sympy:
+    """Stands for the sympy module; reading an attribute imports it."""
+
+    __slots__ = ()
+
+    def __getattr__(self, name: str):
+        module = sys.modules.get("sympy") or importlib.import_module("sympy")
+        return getattr(module, name)
+
+
+sympy = _Sympy()
+
+
+def is_sympy(value) -> bool:
+    """Whether ``value`` is a sympy object (then sympy is already imported)."""
+    return (type(value).__module__ or "").startswith("sympy")
