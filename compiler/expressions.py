@@ -280,22 +280,18 @@ def unify(ring, left: Value, right: Value):
     return as_expr(left), as_expr(right)
 
 
-def _scalar(value: Value):
-    """The sympy number of a class-free value; None for a value with classes."""
-    if isinstance(value, Element):
-        return value.to_scalar() if value.is_class_free() else None
-    return value
-
-
 def integer_value(value: Value):
     """The Python int a value stands for, or None."""
-    value = _scalar(value)
+    if isinstance(value, Element):
+        q = value.rational()
+        return q.numerator if q is not None and q.denominator == 1 else None
     return int(value) if isinstance(value, sympy.Integer) else None
 
 
 def rational_value(value: Value):
     """The Fraction a value stands for, or None."""
-    value = _scalar(value)
+    if isinstance(value, Element):
+        return value.rational()
     if isinstance(value, sympy.Rational):
         return Fraction(int(value.p), int(value.q))
     return None

@@ -36,10 +36,11 @@ def _negative(expr) -> bool:
     return expr.could_extract_minus_sign()
 
 
-def _shorter_negated(terms) -> bool:
-    """Whether ``-(...)`` of the opposite terms needs fewer minus signs."""
-    negative = sum(_negative(t) for t in terms)
-    return len(terms) - negative + 1 < negative
+def _shorter_negated(negatives: list) -> bool:
+    """Whether ``-(...)`` of the opposite terms needs fewer minus signs
+    (``negatives``: which terms show one)."""
+    negative = sum(negatives)
+    return len(negatives) - negative + 1 < negative
 
 
 def _opposite(terms: list) -> list:
@@ -196,6 +197,28 @@ def _factored_fraction(coeffs, num, den):
     return sympy.core.mul._keep_coeff(sympy.Rational(coeff.numerator, coeff.denominator), sympy.Mul(*factors))
 
 
+def _fraction_tree(coeffs, num, den) -> list:
+    """num/den in display form; a number is written without sympy."""
+    if num.is_constant() and den.is_constant():
+        return _rational_tree(_number(num) / _number(den))
+    return _node(_factored_fraction(coeffs, num, den), _ordered)
+
+
+def _rational_tree(value: Fraction) -> list:
+    """A rational number as ``_node`` writes a sympy Rational."""
+    tree = ["int", abs(value.numerator)]
+    if value.denominator != 1:
+        tree = ["div", tree, ["int", value.denominator]]
+    return ["neg", tree] if value < 0 else tree
+
+
+def _quotient_negative(coeffs, num, den) -> bool:
+    """Whether num/den, written as ``sympy.cancel`` writes it, shows a minus sign."""
+    if num.is_constant() and den.is_constant():
+        return _number(num) / _number(den) < 0
+    return _negative(_quotient_expr(coeffs, num, den))
+
+
 def _quotient_expr(coeffs, num, den):
     """num/den as ``sympy.cancel`` writes it (a sum when den is a number)."""
     if den.is_constant():
@@ -283,22 +306,22 @@ def element_tree(value: Element) -> list:
         return ["int", 0]
     ring, coeffs = value.ring, value.ring.coeffs
     if len(fractions) == 1 and not fractions[0][0]:
-        return _node(_factored_fraction(coeffs, *fractions[0][1:]), _ordered)
+        return _fraction_tree(coeffs, *fractions[0][1:])
     if len(fractions) > COLLECT_LIMIT:
         return ["add", *(_term(_parts_tree(coeffs, num, den), _monomial(ring, pairs)) if pairs
                          else _parts_tree(coeffs, num, den) for pairs, num, den in fractions)]
     top, bottom = _common(coeffs, fractions)
     quotients = [_reduced(coeffs, num * bottom, den * top) for _, num, den in fractions]
-    if _shorter_negated([_quotient_expr(coeffs, *q) for q in quotients]):
+    if _shorter_negated([_quotient_negative(coeffs, *q) for q in quotients]):
         top, quotients = -top, [(-n, d) for n, d in quotients]
     body = []
     for (pairs, _, _), (num, den) in zip(fractions, quotients):
-        coef_tree = _node(_factored_fraction(coeffs, num, den), _ordered)
+        coef_tree = _fraction_tree(coeffs, num, den)
         body.append(_term(coef_tree, _monomial(ring, pairs)) if pairs else coef_tree)
     tree = body[0] if len(body) == 1 else ["add", *body]
     if top == bottom:
         return tree
-    return _term(_node(_factored_fraction(coeffs, top, bottom), _ordered), tree)
+    return _term(_fraction_tree(coeffs, top, bottom), tree)
 
 
 def _expanded(expr) -> list:

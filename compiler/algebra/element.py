@@ -10,6 +10,8 @@ from __future__ import annotations
 
 import math
 from fractions import Fraction
+
+import flint
 from typing import Mapping
 
 from . import budget, printing, serial
@@ -218,6 +220,40 @@ class Element:
                 / printing.prim_expr(Q, R.symbols)
             out.append((R.monos.pairs(m), coef))
         return out
+
+    def monomials(self) -> list[tuple[tuple[str, int], ...]]:
+        """The monomials of ``terms``, without their coefficients."""
+        a = self._fresh()
+        return [a._ring.monos.pairs(m) for m, _ in a._sorted()]
+
+    def as_monomial(self):
+        """The monomial pairs if the value is one monomial with coefficient 1, else None."""
+        a = self._fresh()
+        one = a._ring.coeffs.one
+        if len(a._t) != 1 or a._den != one:
+            return None
+        (m, c), = a._t.items()
+        return a._ring.monos.pairs(m) if c == one else None
+
+    def as_symbol(self):
+        """The ring's symbol if the value is exactly one declared symbol, else None."""
+        a = self._fresh()
+        if not a._d.is_constant() or len(a._p) != 1 or a._p.coeffs()[0] != 1:
+            return None
+        exps = [int(e) for e in a._p.monoms()[0]]
+        nsym = len(a._ring.symbols)
+        if sum(exps) != 1 or not any(exps[:nsym]):
+            return None
+        return a._ring.symbols[exps.index(1)]
+
+    def rational(self):
+        """The Fraction the value is, when it is a number; else None."""
+        a = self._fresh()
+        if not a._p.is_constant() or not a._d.is_constant():
+            return None
+        p, d = (x.coeffs()[0] if x else flint.fmpq(0) for x in (a._p, a._d))
+        q = p / d
+        return Fraction(int(q.p), int(q.q))
 
     def fractions(self) -> list:
         """(monomial, numerator, denominator) in normal-form order: the

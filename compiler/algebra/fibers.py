@@ -98,10 +98,10 @@ def _mono_text(pairs: Pairs) -> str:
 
 def single_generator(element: Element) -> str | None:
     """The key of an element that is exactly one generator, else None."""
-    terms = element.terms()
-    if len(terms) != 1 or len(terms[0][0]) != 1 or terms[0][0][0][1] != 1 or terms[0][1] != 1:
+    pairs = element.as_monomial()
+    if pairs is None or len(pairs) != 1 or pairs[0][1] != 1:
         return None
-    return terms[0][0][0][0]
+    return pairs[0][0]
 
 
 # -- surfaces -------------------------------------------------------------------

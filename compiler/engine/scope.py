@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 from pathlib import Path
 
-from ..algebra.lazysympy import sympy
+from ..algebra.lazysympy import is_sympy, sympy
 
 from .. import names as names_pass, notation
 from ..algebra import bundles as bundles_mod
@@ -141,7 +141,7 @@ class DocScope(Scope):
 
     def output(self, step, name: str, value: Value, line: int, exact_to: Precision = None) -> None:
         """Bind an output (exact up to degree ``exact_to``) and show it in the step."""
-        if isinstance(value, sympy.Expr):
+        if is_sympy(value):
             value = from_expr(self.ring, value)
         self.bind(name, "value", value, line, exact_to=exact_to)
         step.values.append(self.history[name][-1][1])

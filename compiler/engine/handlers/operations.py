@@ -75,9 +75,9 @@ def _replaced(scope, node, value: Element):
     key = fibers_mod.single_generator(value)
     if key is not None:
         return key
-    terms = value.terms()
-    if len(terms) == 1 and not terms[0][0] and terms[0][1].is_Symbol:
-        return terms[0][1]
+    symbol = value.as_symbol()
+    if symbol is not None:
+        return symbol
     raise scope.fail(node, f"the left side {value.to_text()} is not a single class or symbol")
 
 
@@ -169,7 +169,7 @@ def _coefficients(scope, s: n.Coefficients, step: Step) -> None:
         rest = rest - coefficient * monomial
         scope.output(step, name, coefficient, s.line)
     step.remainder = record("remainder", rest, unknown_above(known.exact_to, scope.ring.truncate))
-    terms = len(rest.terms())
+    terms = len(rest.monomials())
     step.checks.append(CheckResult(
         "every monomial read" if rest.is_zero else
         f"the rest has {terms} term{'s' if terms != 1 else ''} (shown as remainder)", "proven"))
@@ -192,9 +192,9 @@ def _written_monomial(scope, node) -> list:
             raise scope.fail(node.right, "a monomial has positive exponents")
         return [(key, e * k) for key, e in _written_monomial(scope, node.left)]
     value = element(scope, node, "coefficients")
-    terms = value.terms()
-    if len(terms) == 1 and terms[0][1] == 1 and len(terms[0][0]) == 1:
-        return list(terms[0][0])  # a class, or a power of one (p1 of a plane is e^2)
+    pairs = value.as_monomial()
+    if pairs is not None and len(pairs) == 1:
+        return list(pairs)  # a class, or a power of one (p1 of a plane is e^2)
     raise scope.fail(node, f"{value.to_text()} is not a single class: coefficients reads monomials "
                            "in the classes of the normal form")
 
