@@ -11,10 +11,12 @@ the check is an error.
 from __future__ import annotations
 
 import itertools
+import operator
 from dataclasses import dataclass, field
+from fractions import Fraction
 from functools import cached_property
 
-from .algebra.lazysympy import sympy
+from .algebra.lazysympy import sympy, sympy_symbol
 
 from . import notation
 from .algebra.graded import Element
@@ -22,7 +24,7 @@ from .algebra.radicals import tidy_with
 from .algebra.region import Region, Relation
 from .algebra.sampling import describe_point, evaluate
 from .algebra.signs import SignOracle
-from .expressions import Value, as_expr, is_class_free, unify
+from .expressions import Value, as_expr, is_class_free, rational_value, unify
 from .results import CheckResult, weakest
 
 #: How many points a sampled equality is tested at (the spec asks >= 20).
@@ -36,7 +38,7 @@ class Context:
     """What a check needs besides its two sides."""
 
     ring: object
-    specs: dict  # sympy Symbol -> SymbolSpec, in declaration order
+    specs: dict  # name -> SymbolSpec, in declaration order
     seed: str
     relations: tuple[Relation, ...] = field(default=())
 
@@ -56,17 +58,28 @@ class Context:
     def samples(self, symbols) -> list[dict]:
         """Sample points of the region restricted to ``symbols`` (and the
         symbols related to them)."""
+        symbols = [sympy_symbol(s) for s in symbols]
         return self.region.restrict(symbols).sample(SAMPLES, self.seed)
 
     def declared(self, symbols) -> bool:
-        return all(s in self.specs for s in symbols)
+        return all(s.name in self.specs for s in symbols)
 
     def at(self, point: dict) -> "Context":
-        """The context once ``point`` fixes some symbols (see ``Region.fixing``)."""
+        """The context once ``point`` fixes some symbols (see ``Region.fixing``;
+        without relations that only drops them)."""
         if not point:
             return self
-        left = self.region.fixing(point)
-        return Context(self.ring, {s.symbol: s for s in left.specs}, self.seed, left.relations)
+        if not self.relations:
+            fixed = {s.name for s in point}
+            return Context(self.ring, {k: s for k, s in self.specs.items() if k not in fixed}, self.seed)
+        left = self.region.fixing(sympy_point(point))
+        return Context(self.ring, {s.name: s for s in left.specs}, self.seed, left.relations)
+
+
+def sympy_point(point: dict) -> dict:
+    """A point (the ring's symbols or sympy's, exact values) as sympy reads it."""
+    return {sympy_symbol(s): sympy.Rational(v.numerator, v.denominator) if isinstance(v, Fraction) else v
+            for s, v in point.items()}
 
 
 def substitute(ring, value: Value, point: dict) -> Value:
@@ -75,7 +88,7 @@ def substitute(ring, value: Value, point: dict) -> Value:
         return value
     if isinstance(value, Element):
         return value.substitute({s: ring.scalar(v) for s, v in point.items()})
-    return value.subs(point)
+    return value.subs(sympy_point(point))
 
 
 def free_symbols(value: Value) -> set:
@@ -185,6 +198,9 @@ def _not_equal(left, right, ctx):
         if isinstance(left, Element) and isinstance(right, Element) and not (left - right).is_zero:
             return "proven", ""
         return "failed", f"both sides equal {show(left)}"
+    numbers = rational_value(left), rational_value(right)
+    if None not in numbers:  # two numbers: no sympy needed
+        return ("proven", "") if numbers[0] != numbers[1] else ("failed", f"both sides equal {show(left)}")
     difference = tidy_with(as_expr(left) - as_expr(right), ctx.oracle)
     if difference == 0:
         return "failed", f"both sides equal {show(left)}"
@@ -204,10 +220,18 @@ _SIGN_TESTS = {
 }
 
 
+_COMPARE = {"<": operator.lt, "<=": operator.le, ">": operator.gt, ">=": operator.ge}
+
+
 def _order(op: str):
     def decide(left: Value, right: Value, ctx: Context):
         if not (is_class_free(left) and is_class_free(right)):
             return "error", "inequalities compare class-free values only"
+        numbers = rational_value(left), rational_value(right)
+        if None not in numbers:  # two numbers: no sympy needed
+            if _COMPARE[op](*numbers):
+                return "proven", ""
+            return "failed", f"left = {show(left)}, right = {show(right)}"
         difference = sympy.simplify(as_expr(left) - as_expr(right))
         verdict = ctx.oracle.truth(op, difference)
         if verdict is True:

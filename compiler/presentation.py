@@ -161,7 +161,7 @@ def scalar_tree(expr) -> list:
 def _poly_expr(coeffs, poly, scale=Fraction(1)):
     """A FLINT polynomial of ``coeffs`` times ``scale`` as a sympy sum."""
     return sympy.Add(*[sympy.Rational(c.numerator, c.denominator) * sympy.Mul(
-        *[s ** e for s, e in zip(coeffs.symbols, exps) if e]) for exps, c in coeffs.items(poly * _q(scale))])
+        *[s ** e for s, e in zip(coeffs.sympy_symbols(), exps) if e]) for exps, c in coeffs.items(poly * _q(scale))])
 
 
 def _content(coeffs, poly) -> Fraction:

@@ -213,11 +213,12 @@ class Element:
         import sympy
         a = self._fresh()
         R = a._ring
+        symbols = R.coeffs.sympy_symbols()
         out = []
         for m, c in a._sorted():
             s, x, y, P, Q = printing.scalar_parts(R.coeffs, c, a._den)
-            coef = sympy.Integer(s) * sympy.Rational(x, y) * printing.prim_expr(P, R.symbols) \
-                / printing.prim_expr(Q, R.symbols)
+            coef = sympy.Integer(s) * sympy.Rational(x, y) * printing.prim_expr(P, symbols) \
+                / printing.prim_expr(Q, symbols)
             out.append((R.monos.pairs(m), coef))
         return out
 
@@ -336,7 +337,8 @@ class Element:
 
     # ---------------------------------------------------------- substitute
     def substitute(self, mapping: Mapping) -> "Element":
-        """Replace generators (by key) and/or symbols (sympy Symbols) simultaneously."""
+        """Replace generators (by key) and/or symbols (the ring's or their
+        sympy Symbols) simultaneously."""
         a = self._fresh()
         R, C = a._ring, a._ring.coeffs
         gen_vals: dict[int, Element] = {}
@@ -345,8 +347,8 @@ class Element:
             v = R._coerce(v)._fresh()
             if isinstance(k, str):
                 gen_vals[R.generator_info(k).index] = v
-            elif k in C.position:
-                sym_vals[C.position[k]] = v
+            elif C.index(k) is not None:
+                sym_vals[C.index(k)] = v
             elif type(k).__name__ == "Symbol":
                 raise AlgebraError(f"{k} is not a declared symbol")
             else:

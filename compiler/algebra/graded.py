@@ -98,7 +98,7 @@ class Ring:
         return Element(self, self.layout.ctx.constant(q), self.layout.one)
 
     def symbol(self, sym) -> "Element":
-        pos = self.coeffs.position.get(sym)
+        pos = self.coeffs.index(sym)
         if pos is None:
             raise AlgebraError(f"{sym} is not a declared symbol")
         return Element(self, self.layout.ctx.gen(pos), self.layout.one)

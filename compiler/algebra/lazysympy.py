@@ -26,3 +26,9 @@ sympy = _Sympy()
 def is_sympy(value) -> bool:
     """Whether ``value`` is a sympy object (then sympy is already imported)."""
     return (type(value).__module__ or "").startswith("sympy")
+
+
+def sympy_symbol(symbol):
+    """A ring symbol as a sympy Symbol: sympy's own as it is, the engine's
+    declared symbols by their ``sympy()``."""
+    return symbol if is_sympy(symbol) else symbol.sympy()

@@ -84,8 +84,9 @@ def _scalar_text(a, b, P, Q, symbols, alone: bool = False) -> str:
 
 
 def prim_expr(prim, symbols):
-    """A primitive polynomial as a sympy expression (for ``Element.terms``)."""
-    import sympy
+    """A primitive polynomial as a sympy expression (for ``Element.terms``),
+    in ``symbols`` (sympy Symbols)."""
+    from .lazysympy import sympy
     return sympy.Add(*[sympy.Integer(c) * sympy.Mul(*[s ** e for s, e in zip(symbols, exps)])
                        for exps, c in prim])
 

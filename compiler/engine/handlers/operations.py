@@ -206,7 +206,7 @@ def _extremize(scope, s: n.Extremize, step: Step) -> None:
         classes = ", ".join(sorted(f.generator_keys()))
         raise scope.fail(s.target, f"{s.mode} needs a class-free expression; this one still contains "
                                    f"{classes} (degrees {', '.join(map(str, f.degrees()))})")
-    variables = [(scope.symbols_by_name[v.name].symbol,
+    variables = [(scope.specs[v.name].symbol,
                   None if v.interval is None else (v.interval.low, v.interval.high))
                  for v in s.variables]
     try:
