@@ -18,8 +18,8 @@ import sys
 from support import DERIVATIONS, ROOT
 
 #: Bundled documents whose builds need no sympy (the others solve, expand in
-#: series or compute with radicals; general-fiber's fixed points still read
-#: their weights with sympy).
+#: series or compute with radicals; general-fiber has a tangent weight
+#: h*u1 + u2, whose integrality sympy's assumptions on h decide).
 NO_SYMPY = ["brane-inflow", "four-manifold-genera", "six-dimensional-gravity", "ten-dimensional-count",
             "tensor-multiplet", "gauge-traces"]
 

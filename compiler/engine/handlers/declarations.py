@@ -215,8 +215,7 @@ def _fixed_point(scope, s: n.FixedPointFiber, p: cn.FixedPointDecl) -> FixedPoin
     """A point's order, checked first (a weight may divide by it), and its
     weights as linear forms in the rotation parameters."""
     try:
-        order = fixed_points.checked_order(
-            s.name, p.label, 1 if p.order is None else as_expr(scope.evaluate(p.order)))
+        order = fixed_points.checked_order(s.name, p.label, 1 if p.order is None else scope.evaluate(p.order))
     except fibers_mod.FiberError as err:
         raise scope.fail(p.order or p, str(err)) from None
     weights = []
@@ -227,7 +226,7 @@ def _fixed_point(scope, s: n.FixedPointFiber, p: cn.FixedPointDecl) -> FixedPoin
                     scope.ring.zero()):
             raise scope.fail(node, f"a tangent weight is a combination of the rotation "
                                    f"parameters {', '.join(s.parameters)}, not {w.to_text()}")
-        weights.append(tuple(as_expr(c) for c in coefficients))
+        weights.append(coefficients)
     try:
         return fixed_points.checked_point(s.name, FixedPoint(p.label, tuple(weights), order),
                                           len(s.parameters), s.dimension // 2)
