@@ -8,23 +8,19 @@ status 2, and keeps Python tracebacks for anomark's own bugs (``--debug``).
 from __future__ import annotations
 
 import argparse
-import contextlib
-import dataclasses
 import os
 import re
 import signal
 import sys
-import tempfile
 import time
 import traceback
 from fractions import Fraction
 from pathlib import Path
 
 from . import __version__, usage
-from .engine import BuildOptions, build
-from .engine.cache import CODE, OutputRecord, digest
 from .errors import DocumentError, Location, shown
-from .render.tex import STYLES, plot_files, to_tex
+from .outputs import Record, write_whole
+from .render import TEX_STYLES
 from .results import STATUSES
 
 FORMATS = ("html", "json", "tex")
@@ -72,14 +68,14 @@ def parser() -> argparse.ArgumentParser:
         p.add_argument("-o", "--output", metavar="DIR",
                        help="output folder (default: the document's own folder)")
 
-    b = command("build", "compile a document into reports", usage.BUILD, usage.BUILD_EPILOG)
-    b.add_argument("file", metavar="FILE.md")
+    b = command("build", "compile documents into reports", usage.BUILD, usage.BUILD_EPILOG)
+    b.add_argument("files", nargs="+", metavar="FILE.md")
     output(b)
     b.add_argument("--format", default="html,json",
                    help="comma-separated, from html,json,tex (default: html,json)")
     b.add_argument("--standalone", action="store_true",
                    help="LaTeX as a whole article rather than a fragment to \\input")
-    b.add_argument("--tex-style", choices=STYLES, default="appendix",
+    b.add_argument("--tex-style", choices=TEX_STYLES, default="appendix",
                    help="appendix: results and claims for a paper (default); audit: every statement and check")
     common(b)
 
@@ -149,15 +145,21 @@ def say(args, line: str) -> None:
         print(line, file=sys.stderr)
 
 
-def print_warnings(source) -> None:
+def warning_lines(source) -> list[str]:
     """Located warnings a build carries (near-miss ``derive`` fences), as FILE:LINE:COL: warning: ...
 
     Read with getattr: reports and document errors without warnings have none.
     """
+    lines = []
     for warning in getattr(source, "warnings", ()) or ():
         location, message = getattr(warning, "location", None), getattr(warning, "message", None)
-        text = f"{location}: warning: {shown(message)}" if location is not None else shown(str(warning))
-        print(text, file=sys.stderr)
+        lines.append(f"{location}: warning: {shown(message)}" if location is not None else shown(str(warning)))
+    return lines
+
+
+def print_warnings(source) -> None:
+    for line in warning_lines(source):
+        print(line, file=sys.stderr)
 
 
 def print_problems(err: DocumentError) -> None:
@@ -173,17 +175,23 @@ def plural(n: int, word: str) -> str:
     return f"{n} {word}" if n == 1 else f"{n} {word}s"
 
 
-def summary(path: str, report, written=()) -> str:
-    """``doc.md: passed — 46 checks: 43 proven, 3 sampled (50 steps); wrote out/doc.html``."""
+def summary(path: str, report) -> str:
+    """``doc.md: passed — 46 checks: 43 proven, 3 sampled (50 steps)``."""
     total = sum(len(s.checks) for s in report.steps)
     counts = ", ".join(plural(report.count(s), s) if s == "error" else f"{report.count(s)} {s}"
                        for s in STATUSES if report.count(s))
     line = (f"{shown(path)}: {VERDICTS[status_of(report)]} \u2014 {plural(total, 'check')}"
             f"{': ' + counts if counts else ''} ({plural(len(report.steps), 'step')})")
-    return line + (f"; wrote {', '.join(shown(str(p)) for p in written)}" if written else "")
+    return line
 
 
-def options(args, path: str) -> BuildOptions:
+def files_note(verb: str, files) -> str:
+    """``; wrote out/doc.html, out/doc.json`` after a summary line."""
+    return f"; {verb} {', '.join(shown(str(p)) for p in files)}"
+
+
+def options(args, path: str):
+    from .engine import BuildOptions
     overrides = {}
     for item in args.set:
         name, sep, value = item.partition("=")
@@ -217,6 +225,8 @@ def progress_printer(args):
 
 
 def compile_file(args, path: str):
+    """Build the document at ``path``; print (and return) its warnings and diagnostics."""
+    from .engine import build  # the engine loads only when a document is compiled
     try:
         text = Path(path).read_text(encoding="utf-8")
     except (OSError, UnicodeDecodeError) as exc:
@@ -227,37 +237,15 @@ def compile_file(args, path: str):
     finally:
         if opts.progress is not None:
             opts.progress.finish()
-    print_warnings(report)
-    for line in report.diagnostics:
+    lines = warning_lines(report) + list(report.diagnostics)
+    for line in lines:
         print(line, file=sys.stderr)
-    return report
+    return report, lines
 
 
 def status_of(report) -> int:
     statuses = {s.status for s in report.steps}
     return 2 if "error" in statuses or report.prose_errors else 1 if "failed" in statuses else 0
-
-
-def write_whole(files: dict[Path, bytes]) -> None:
-    """Write every file to a temporary name first, then move them into place."""
-    staged = []
-    umask = os.umask(0)
-    os.umask(umask)
-    try:
-        for target, data in files.items():
-            target.parent.mkdir(parents=True, exist_ok=True)
-            fd, tmp = tempfile.mkstemp(dir=target.parent, prefix=f".{target.name}.")
-            staged.append((tmp, target))
-            with os.fdopen(fd, "wb") as handle:
-                handle.write(data)
-            os.chmod(tmp, 0o666 & ~umask)
-        while staged:
-            os.replace(*staged[0])
-            staged.pop(0)
-    finally:  # on any failure, no temporary file is left behind
-        for tmp, _ in staged:
-            with contextlib.suppress(OSError):
-                os.unlink(tmp)
 
 
 def cmd_build(args) -> int:
@@ -267,60 +255,74 @@ def cmd_build(args) -> int:
         print(f"anomark: unknown format {', '.join(unknown)} (choose from {', '.join(FORMATS)})",
               file=sys.stderr)
         return 2
-    return build_once(args, formats)
+    targets = [(output_folder(args, p).resolve(), Path(p).stem) for p in args.files]
+    twice = sorted({str(folder / stem) for folder, stem in targets if targets.count((folder, stem)) > 1})
+    if twice:
+        print(f"anomark: two documents would write the same reports {shown(twice[0])}.*; "
+              "build them into different folders", file=sys.stderr)
+        return 2
+    worst = 0
+    for path in args.files:
+        try:
+            status = build_once(args, formats, path)
+        except DocumentError as err:
+            print_problems(err)
+            status = 2
+        worst = max(worst, status)
+    return worst
 
 
-def output_folder(args) -> Path:
-    return Path(args.output) if args.output else Path(args.file).parent
+def output_folder(args, path: str) -> Path:
+    return Path(args.output) if args.output else Path(path).parent
 
 
-def build_once(args, formats) -> int:
-    """Compile ``args.file``, write its reports whole, and say what happened."""
-    out, source = output_folder(args), Path(args.file)
+def settings(args, formats, path: str) -> list:
+    """Every option the files and the verdict depend on, for the rebuild record."""
+    return [formats, getattr(args, "standalone", False), getattr(args, "tex_style", None), args.set,
+            args.allow_html, args.time_limit, args.build_time_limit,
+            str(output_folder(args, path).resolve()), path]
+
+
+def build_once(args, formats, path: str) -> int:
+    """Compile ``path``, write its reports whole, and say what happened; when
+    the last build had the same inputs and its files are untouched, only say."""
+    out, source = output_folder(args, path), Path(path)
     if out.exists() and not out.is_dir():
         print(f"anomark: {shown(str(out))}: not a folder (-o names the output folder)", file=sys.stderr)
         return 2
-    report = compile_file(args, args.file)
-    record = OutputRecord(args.file, not args.no_cache)
-    key = render_key(args, report, formats) if record.enabled else None
-    written = record.current(key)
-    if written is None:  # else the files on disk are what rendering would write
-        files = report_files(args, report, formats)
-        clash = [target for target in files if target.resolve() == source.resolve()]
-        if clash:
-            print(f"anomark: {shown(str(clash[0]))}: the output would overwrite the document itself; "
-                  "choose another folder with -o", file=sys.stderr)
-            return 2
-        try:
-            write_whole(files)
-        except OSError as exc:
-            print(f"anomark: cannot write into {shown(str(out))}: {exc.strerror or exc}", file=sys.stderr)
-            return 2
-        record.save(key, files)
-        written = list(files)
-    say(args, summary(args.file, report, written))
-    return status_of(report)
+    record = Record(path, settings(args, formats, path), not args.no_cache)
+    last = record.current()
+    if last is not None:
+        for line in last["lines"]:
+            print(line, file=sys.stderr)
+        say(args, last["summary"] + files_note("up to date:", last["files"]))
+        return last["status"]
+    report, lines = compile_file(args, path)
+    files = report_files(args, report, formats, path)
+    clash = [target for target in files if target.resolve() == source.resolve()]
+    if clash:
+        print(f"anomark: {shown(str(clash[0]))}: the output would overwrite the document itself; "
+              "choose another folder with -o", file=sys.stderr)
+        return 2
+    try:
+        write_whole(files)
+    except OSError as exc:
+        print(f"anomark: cannot write into {shown(str(out))}: {exc.strerror or exc}", file=sys.stderr)
+        return 2
+    status, line = status_of(report), summary(path, report)
+    if status != 2:  # an error may be a time limit: the next build tries again
+        record.save(files, report.sources, status, lines, line)
+    say(args, line + files_note("wrote", files))
+    return status
 
 
-def render_key(args, report, formats) -> str:
-    """Everything the report files depend on: the report less step timings,
-    the formats and options, where they go, the templates and anomark's code."""
-    from .render.templates import template_root
-    data = dataclasses.asdict(report)
-    for item in data["items"]:
-        item.pop("seconds", None)
-    templates = sorted((entry.name, entry.read_bytes().hex()) for entry in template_root().iterdir()
-                       if entry.is_file())
-    return digest(CODE, digest(templates), data, formats, getattr(args, "standalone", False),
-                  getattr(args, "tex_style", None), str(output_folder(args).resolve()), Path(args.file).stem)
-
-
-def report_files(args, report, formats) -> dict[Path, bytes]:
+def report_files(args, report, formats, path: str) -> dict[Path, bytes]:
     """Every output file of one build, by path: the reports and, for LaTeX, the plots."""
-    out, stem = output_folder(args), Path(args.file).stem
+    out, stem = output_folder(args, path), Path(path).stem
     files: dict[Path, bytes] = {}
     from .render.html import to_html  # the renderers load only when something is rendered
     from .render.json import to_json
+    from .render.tex import plot_files, to_tex
     if "html" in formats:
         files[out / f"{stem}.html"] = to_html(report).encode("utf-8")
     if "json" in formats:
@@ -336,7 +338,7 @@ def cmd_check(args) -> int:
     worst = 0
     for path in args.files:
         try:
-            report = compile_file(args, path)
+            report, _ = compile_file(args, path)
         except DocumentError as err:
             print_problems(err)
             worst = 2
@@ -363,11 +365,11 @@ def cmd_watch(args) -> int:
 
     def rebuild() -> None:
         try:
-            build_once(args, ["html"])
+            build_once(args, ["html"], args.file)
         except DocumentError as err:
             print_problems(err)
 
-    watch = Watch(source, output_folder(args) / f"{source.stem}.html", rebuild)
+    watch = Watch(source, output_folder(args, args.file) / f"{source.stem}.html", rebuild)
     try:
         url = watch.start(args.port)
     except OSError as exc:

@@ -168,6 +168,8 @@ class Report:
     cached_steps: int = 0
     #: How many ``@{NAME}`` in prose show a value beyond its known precision.
     prose_errors: int = 0
+    #: The documents it used, by key (a real path, or ``library/NAME``).
+    sources: list[str] = field(default_factory=list)
 
     @property
     def steps(self) -> list[Step]:

@@ -31,17 +31,22 @@ examples:
 'anomark COMMAND --help' describes each command."""
 
 BUILD = """\
-Compile FILE into report files named after it (FILE.md gives FILE.html,
+Compile each FILE into report files named after it (FILE.md gives FILE.html,
 FILE.json and, with tex, FILE.tex), each written whole or not at all.  A
 document with failed or error steps still writes its files; one that cannot
-be parsed writes none.  A summary line for the document is printed on standard
-error (--quiet silences it)."""
+be parsed writes none.  A summary line per document is printed on standard
+error (--quiet silences it).  When nothing a build reads has changed (the
+document, the documents it uses, the options, anomark itself) and its files
+are untouched, the rebuild repeats what the last build said ("up to date")
+without building."""
 
 BUILD_EPILOG = f"""\
 {BUILD_STATUS}
+  With several files the exit status is the worst of them.
 
 example:
   anomark build derivations/twisted-compactification.md -o out --format html,json,tex
+  anomark build derivations/*.md -o out
   anomark build derivations/brane-inflow.md -o after --set angular_integral=1"""
 
 CHECK = """\

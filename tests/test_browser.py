@@ -18,7 +18,7 @@ from support import DOCUMENTS, SCRIPT, make_report, missing_browser, start_brows
 if missing_browser():
     pytest.skip(missing_browser(), allow_module_level=True)
 
-from PIL import Image  # noqa: E402 - matplotlib's own dependency
+from PIL import Image  # noqa: E402 - Pillow, a test dependency
 from selenium.webdriver.support.ui import WebDriverWait  # noqa: E402
 
 from compiler.render.html import to_html  # noqa: E402

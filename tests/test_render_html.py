@@ -122,7 +122,8 @@ def test_remainder_table_plot_summary():
     assert "<mfrac><mn>53</mn><mn>24</mn></mfrac>" in table  # cells printed from their trees
     assert "<msub><mi>a</mi><mo>∗</mo></msub>" in table.split("</thead>")[0]  # a_star as a name
     figure = html.split('<figure class="plot">')[1].split("</figure>")[0]
-    assert figure.startswith("<svg") and "a_star" in figure
+    assert figure.startswith("<svg") and "<tspan font-style=\"italic\">a</tspan>" in figure  # a_star as a name
+    assert figure.count("<polyline") == 1
     assert "one curve, 11 points" in html
 
 

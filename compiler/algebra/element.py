@@ -19,7 +19,7 @@ from .errors import AlgebraError, LimitError
 from .monomials import Mono
 
 #: Most terms (over classes and symbols together) a product may have.
-MAX_TERMS = 20_000
+MAX_TERMS = 200_000
 #: Most term pairs multiplied in one product (after skipping truncated components).
 MAX_PRODUCT = 20_000_000
 #: Digits of the numerator or denominator of any number in a value, as for the
@@ -182,6 +182,13 @@ class Element:
     @property
     def is_zero(self) -> bool:
         return not self._fresh()._p
+
+    @property
+    def size(self) -> int:
+        """Terms over classes and symbols together: the text of the value
+        has at least two characters for each, so a value too large to show
+        is known before it is printed."""
+        return len(self._fresh()._p)
 
     def is_class_free(self) -> bool:
         a = self._fresh()

@@ -3,7 +3,15 @@
 ``run`` holds the loop, its limits and its error policy; ``scope`` the names
 and the algebra; ``handlers`` one function per statement kind, by family;
 ``layer``, ``cache`` and ``entries`` the build cache around the steps.
-"""
-from .run import BuildOptions, build, parse
 
+The run loop (and with it the algebra) is imported on first use, so that a
+rebuild with nothing to do, which reads only ``cache``, starts in a blink.
+"""
 __all__ = ["BuildOptions", "build", "parse"]
+
+
+def __getattr__(name: str):
+    if name in __all__:
+        from . import run
+        return getattr(run, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

@@ -132,44 +132,10 @@ class StepCache:
     def save(self) -> None:
         """Write the entries of this build whole, or leave the old file."""
         if self.enabled:
-            _write_json(self.file, {"format": FORMAT, "entries": self.new})
+            write_json(self.file, {"format": FORMAT, "entries": self.new})
 
 
-class OutputRecord:
-    """The report files the last build wrote, each with its hash, signed
-    under a key of everything they depend on (the command line makes it).
-    A rebuild under the same key whose files are all still there, untouched,
-    need not render or write them again."""
-
-    def __init__(self, document: str, enabled: bool):
-        path = Path(document)
-        self.file = path.parent / CACHE_DIR / f"{path.name}.outputs.json"
-        self.secret = signing_key() if enabled else None
-        self.enabled = self.secret is not None
-
-    def current(self, key: str) -> list[Path] | None:
-        """The files of the last build if it had this key and they are unchanged."""
-        if self.secret is None:
-            return None
-        try:
-            data = json.loads(self.file.read_text(encoding="utf-8"))
-            entry = data["entry"]
-            if not hmac.compare_digest(data["mac"], sign(self.secret, key, entry)):
-                return None
-            for name, hashed in entry.items():
-                if hashlib.sha256(Path(name).read_bytes()).hexdigest() != hashed:
-                    return None
-            return [Path(name) for name in entry] or None
-        except (OSError, ValueError, KeyError, TypeError, AttributeError, RecursionError):
-            return None
-
-    def save(self, key: str, files: dict[Path, bytes]) -> None:
-        if self.secret is not None:
-            entry = {str(path): hashlib.sha256(data).hexdigest() for path, data in files.items()}
-            _write_json(self.file, {"mac": sign(self.secret, key, entry), "entry": entry})
-
-
-def _write_json(file: Path, data: dict) -> None:
+def write_json(file: Path, data: dict) -> None:
     """Write whole or leave the old file; a read-only folder or a full disk
     just means no cache."""
     tmp = None

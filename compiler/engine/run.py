@@ -139,7 +139,10 @@ class Run:
         self.path = path
         self.document = document
         self.options = options
-        self.scope = DocScope(path, document, list(preambles.flatten(statements)), options.overrides)
+        flat = list(preambles.flatten(statements))
+        self.scope = DocScope(path, document, flat, options.overrides)
+        #: The documents this one uses, by key: a rebuild must read them again.
+        self.sources = sorted({s.module.key for s in flat if isinstance(s, n.UseDecl) and s.module is not None})
         self.cache = StepCache(path, options.use_cache)
         self.layer = CacheLayer(self.scope, self.cache, options.recompute)
         self.step_limit = _limit_name("step", options.time_limit, "--time-limit")
@@ -189,7 +192,8 @@ class Run:
             allow_html=self.options.allow_html, diagnostics=self._diagnostics(),
             warnings=list(self.document.warnings), cached_steps=self.layer.restored,
             prose_errors=self.prose_errors,
-            notation=dict(front.notation), headline=list(front.results))
+            notation=dict(front.notation), headline=list(front.results),
+            sources=self.sources)
 
     def _refs(self, part: ProsePart) -> dict[str, ValueRecord]:
         """Each @{NAME}: the binding in force at that line, else the first one.

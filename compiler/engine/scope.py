@@ -110,6 +110,9 @@ class DocScope(Scope):
     def bind(self, name: str, kind: str, value, line: int, shown: ValueRecord | None = None,
              key: str | None = None, exact_to: Precision = None) -> None:
         """Bind ``name``; ``key`` is its cache key when known (a restored value)."""
+        if shown is None and isinstance(value, Element) and self.shown + 2 * value.size > MAX_SHOWN:
+            raise AlgebraError(f"the values shown would pass {MAX_SHOWN} characters of text "
+                               f"(the limit on report size; '{name}' alone has {value.size} terms)")
         self.bindings[name] = Binding(kind, value, line, exact_to)
         self.keys[name] = key or self.value_key(name, kind, value, exact_to)
         if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):

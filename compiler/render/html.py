@@ -3,7 +3,7 @@
 Everything the document supplies (statement text, names, details, prose
 unless ``--allow-html``) reaches the page only through Jinja's autoescape or
 markdown-it's escaping renderer; the only markup we mark safe is what we
-generate ourselves (sanitized MathML, matplotlib SVG, the CSS).  The page
+generate ourselves (sanitized MathML, the plots' SVG, the CSS).  The page
 loads nothing: no scripts, fonts or images from anywhere.
 """
 from __future__ import annotations
@@ -18,12 +18,13 @@ from compiler.markdown import expand_refs, make_markdown
 from compiler.render.claims import extremum_rows
 from compiler.render.mathml import math_element, to_mathml
 from compiler.render.notation import name_tree
+from compiler.render.plotting.svg import plot_svg
 from compiler.render.printers import LatexPrinter, MathMLPrinter, lines
 
 _tex_width = LatexPrinter.measure
 from compiler.render.templates import loader
 from compiler.render.tex import degrees_text
-from compiler.results import STATUSES, PlotData, Report, Step, ValueRecord
+from compiler.results import STATUSES, Report, Step, ValueRecord
 
 GLYPHS = {"proven": "\u2713", "sampled": "\u2248", "failed": "\u2717", "error": "!"}
 
@@ -129,12 +130,6 @@ def _markdown(allow_html: bool):
 # ---------------------------------------------------------------- filters
 
 
-def _plot_svg(p: PlotData, notation: dict[str, str]) -> Markup:
-    from compiler.render.plots import plot_svg  # matplotlib loads only for documents with plots
-
-    return Markup(plot_svg(p, notation))
-
-
 def value_math(printer: MathMLPrinter, name: str, tree: list, trailing: str = "") -> Markup:
     """``name = value`` as display math, as an aligned table of lines when
     long (browsers do not break MathML lines); an empty name shows the value;
@@ -180,7 +175,7 @@ def _environment(report: Report) -> jinja2.Environment:
         name_math=lambda name: math_element(printer.doprint(name_tree(name, report.notation))),
         cell_math=lambda tree: math_element(printer.doprint(tree)),
         degrees=degrees_text,
-        svg=lambda p: _plot_svg(p, report.notation),
+        svg=lambda p: Markup(plot_svg(p, report.notation)),  # ours, every text escaped
         extremum=lambda c: _extremum(c, LatexPrinter(report.notation)),
     )
     env.globals.update(glyphs=GLYPHS)

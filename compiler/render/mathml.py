@@ -15,7 +15,6 @@ from __future__ import annotations
 import re
 from xml.etree.ElementTree import Element
 
-from latex2mathml.converter import convert_to_element
 from markupsafe import Markup, escape
 
 _ELEMENTS = frozenset(
@@ -49,6 +48,13 @@ def _write(node: Element, out: list[str]) -> None:
         _write(child, out)
         out.append(_text(child.tail))
     out.append(f"</{tag}>")
+
+
+def convert_to_element(latex: str, **options) -> Element:
+    """The converter's tree, the converter loaded on first use: most values
+    never pass through it, only an author's own math does."""
+    from latex2mathml.converter import convert_to_element as convert
+    return convert(latex, **options)
 
 
 def to_mathml(latex: str, display: bool = False) -> Markup:

@@ -32,6 +32,7 @@ class Printer:
 
     def __init__(self, notation: dict[str, str] | None = None):
         self.notation = notation or {}
+        self._names: dict[str, str] = {}  # a name recurs in every term of a long value
 
     def doprint(self, tree: list) -> str:
         return getattr(self, "_print_" + tree[0])(*tree[1:])
@@ -61,7 +62,10 @@ class Printer:
         return self.join_terms([self.minus + self.wrap(arg, 2)])
 
     def _print_sym(self, name: str) -> str:
-        return self.doprint(name_tree(name, self.notation))
+        out = self._names.get(name)
+        if out is None:
+            out = self._names[name] = self.doprint(name_tree(name, self.notation))
+        return out
 
     _print_cls = _print_sym
 

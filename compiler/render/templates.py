@@ -13,8 +13,6 @@ from importlib import resources
 from importlib.abc import Traversable
 from pathlib import Path
 
-import jinja2
-
 
 def template_root() -> Traversable:
     """The folder holding ``report.html.j2`` and its companions."""
@@ -24,8 +22,11 @@ def template_root() -> Traversable:
         return Path(__file__).resolve().parents[2] / "templates"
 
 
-def loader() -> jinja2.BaseLoader:
-    """A Jinja loader over the template folder, wherever it was installed."""
+def loader():
+    """A Jinja loader over the template folder, wherever it was installed
+    (jinja2 loads only when something is rendered)."""
+    import jinja2
+
     root = template_root()
 
     def load(name: str) -> str | None:

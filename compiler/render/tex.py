@@ -16,15 +16,17 @@ from pathlib import Path
 
 import jinja2
 
+from compiler.render import TEX_STYLES as STYLES
 from compiler.render.claims import claim_latex
 from compiler.render.notation import name_tree
+from compiler.render.plotting.pdf import plot_pdf
 from compiler.render.printers import LatexPrinter, lines
 from compiler.render.templates import loader
 from compiler.render.texprose import WIDTH, code_lines, escape_detail, escape_tex, prose_tex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 from compiler.texsafe import escape_code, file_name
 
-STYLES = ("appendix", "audit")
+
 #: Statements that only declare: the appendix leaves them out.
 DECLARATIONS = frozenset({"symbol", "convention", "bundle", "split", "fiber", "surface", "sphere"})
 
@@ -81,8 +83,6 @@ def _plots(report: Report) -> dict[int, PlotData]:
 
 def plot_files(report: Report) -> dict[str, bytes]:
     """The PDF of each plot, keyed by the name ``to_tex`` includes it under."""
-    from compiler.render.plots import plot_pdf
-
     return {plot_name(report, n): plot_pdf(p, report.notation)
             for n, p in enumerate(_plots(report).values(), start=1)}
 
