@@ -16,10 +16,9 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from functools import cached_property
 
-from .algebra.lazysympy import sympy, sympy_symbol
-
 from . import notation
 from .algebra.graded import Element
+from .algebra.lazysympy import sympy, sympy_symbol
 from .algebra.radicals import tidy_with
 from .algebra.region import Region, Relation
 from .algebra.sampling import describe_point, evaluate

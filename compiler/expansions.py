@@ -10,9 +10,8 @@ The step's time limit bounds the work.
 """
 from __future__ import annotations
 
-from .algebra.lazysympy import sympy
-
 from . import expressions as ex, notation
+from .algebra.lazysympy import sympy
 from .algebra.radicals import tidy
 from .precision import Known
 from .statements import expr_nodes as en

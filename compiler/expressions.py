@@ -17,12 +17,11 @@ from contextlib import contextmanager
 from fractions import Fraction
 from typing import Union
 
-from .algebra.lazysympy import sympy
-
 from . import calls, expansions, functions, notation
 from .algebra import budget
 from .algebra.errors import AlgebraError, NotRational
 from .algebra.graded import Element
+from .algebra.lazysympy import sympy
 from .errors import DocumentError, Location
 from .precision import Known, beyond, power, product, quotient, smallest, whole
 from .statements import expr_nodes as en

@@ -8,11 +8,10 @@ from __future__ import annotations
 
 from typing import Callable
 
-from .algebra.lazysympy import sympy
-
 from . import constructions, expressions as ex, notation, representations
 from .algebra import genera
 from .algebra.graded import Element
+from .algebra.lazysympy import sympy
 from .algebra.radicals import tidy
 from .precision import Known
 from .statements import expr_nodes as en

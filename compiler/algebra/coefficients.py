@@ -13,7 +13,7 @@ from fractions import Fraction
 import flint
 
 from .errors import AlgebraError, LimitError, NotRational
-from .lazysympy import is_sympy, sympy_symbol
+from .lazysympy import is_sympy, sympy, sympy_symbol
 
 
 class Coefficients:
@@ -50,10 +50,8 @@ class Coefficients:
             return flint.fmpq(value)
         if isinstance(value, Fraction):
             return flint.fmpq(value.numerator, value.denominator)
-        if type(value).__module__.startswith("sympy"):
-            import sympy
-            if isinstance(value, sympy.Rational):
-                return flint.fmpq(int(value.p), int(value.q))
+        if is_sympy(value) and isinstance(value, sympy.Rational):
+            return flint.fmpq(int(value.p), int(value.q))
         raise AlgebraError(f"not an exact rational number: {value!r}")
 
     def from_expr(self, expr):
@@ -61,7 +59,6 @@ class Coefficients:
 
         Read from the expression tree with FLINT arithmetic: sympy's own
         field conversion costs milliseconds per value."""
-        import sympy
         if not isinstance(expr, sympy.Expr) or expr.has(sympy.Float):
             raise NotRational(f"not an exact rational function of the declared symbols: {expr}")
         try:

@@ -16,6 +16,7 @@ from typing import Mapping
 
 from . import budget, printing, serial, substitution
 from .errors import AlgebraError, LimitError
+from .lazysympy import sympy
 from .monomials import Mono
 
 #: Most terms (over classes and symbols together) a product may have.
@@ -217,7 +218,6 @@ class Element:
         """(monomial, coefficient) in normal-form order: the monomial as
         ((generator key, exponent), ...) in printing order (base classes
         last), the coefficient a sympy expression in the ring's symbols."""
-        import sympy
         a = self._fresh()
         R = a._ring
         symbols = R.coeffs.sympy_symbols()
@@ -338,7 +338,6 @@ class Element:
         if not a.is_class_free():
             raise AlgebraError(f"{a.to_text()} contains classes")
         if not a._t:
-            import sympy
             return sympy.Integer(0)
         return a.terms()[0][1]
 

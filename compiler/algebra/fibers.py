@@ -15,6 +15,7 @@ from fractions import Fraction
 from typing import Sequence
 
 from .graded import AlgebraError, Element, Ring
+from .lazysympy import sympy
 
 
 class FiberError(ValueError):
@@ -111,8 +112,7 @@ def surface_fiber(name: str, ring: Ring, group: int, genus, tangent_euler: Eleme
 
     The engine registers e(TS) (through the bundle TS) in the fiber's group.
     """
-    import sympy   # the genus may be a symbol; sympy reads its assumptions
-    genus = sympy.Integer(genus) if isinstance(genus, int) else genus
+    genus = sympy.Integer(genus) if isinstance(genus, int) else genus  # a symbol: sympy reads its assumptions
     if genus.is_integer is False or genus.is_negative:
         raise FiberError(f"the genus of {name} must be a nonnegative integer, not {genus}")
     key = single_generator(tangent_euler)

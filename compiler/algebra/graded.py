@@ -25,6 +25,7 @@ from .coefficients import Coefficients
 from .element import Element
 from .errors import AlgebraError
 from .kernel import Layout
+from .lazysympy import is_sympy, sympy
 from .monomials import Generator, Mono, Monomials
 from .rewriting import Rewriter
 
@@ -227,8 +228,4 @@ class Ring:
 
 def _is_sympy_expr(value) -> bool:
     """True for a sympy expression that is not a plain Rational, without importing sympy."""
-    module = type(value).__module__ or ""
-    if not module.startswith("sympy"):
-        return False
-    import sympy
-    return isinstance(value, sympy.Expr) and not isinstance(value, sympy.Rational)
+    return is_sympy(value) and isinstance(value, sympy.Expr) and not isinstance(value, sympy.Rational)

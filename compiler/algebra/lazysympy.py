@@ -6,9 +6,6 @@ sympy object from our own values without importing anything.
 """
 from __future__ import annotations
 
-import importlib
-import sys
-
 
 class _Sympy:
     """Stands for the sympy module; reading an attribute imports it."""
@@ -16,8 +13,8 @@ class _Sympy:
     __slots__ = ()
 
     def __getattr__(self, name: str):
-        module = sys.modules.get("sympy") or importlib.import_module("sympy")
-        return getattr(module, name)
+        import sympy
+        return getattr(sympy, name)
 
 
 sympy = _Sympy()

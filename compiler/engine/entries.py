@@ -8,9 +8,8 @@ from __future__ import annotations
 
 import dataclasses
 
-from ..algebra.lazysympy import sympy
-
 from ..algebra.graded import Element
+from ..algebra.lazysympy import sympy
 from ..expressions import Missing
 from ..results import STATUSES, CheckResult, PlotData, TableData, ValueRecord, valid_tree
 

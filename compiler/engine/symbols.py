@@ -13,7 +13,6 @@ import operator
 from dataclasses import dataclass, field
 
 from ..algebra.lazysympy import sympy
-
 from ..algebra.region import Region, build_region
 from ..algebra.sampling import SymbolSpec
 from ..errors import DocumentError, Location

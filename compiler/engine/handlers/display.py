@@ -3,9 +3,8 @@ from __future__ import annotations
 
 from fractions import Fraction
 
-from ...algebra.lazysympy import sympy
-
 from ...algebra import budget
+from ...algebra.lazysympy import sympy
 from ...checks import free_symbols, show, substitute
 from ...expressions import as_expr, is_class_free
 from ...precision import unknown_above

@@ -5,10 +5,9 @@ depends on nothing else, so the cache layer may replay it.
 """
 from __future__ import annotations
 
-from ...algebra.lazysympy import sympy
-
 from ... import notation
 from ...algebra import fibers as fibers_mod, localization
+from ...algebra.lazysympy import sympy
 from ...algebra.radicals import tidy
 from ...algebra.graded import Element
 from ...checks import free_symbols
