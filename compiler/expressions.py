@@ -59,7 +59,7 @@ class Scope:
 
     ring = None  # graded.Ring
     bundles = None  # bundles.BundleTable
-    specs: dict = {}  # sympy Symbol -> SymbolSpec
+    specs: dict = {}  # name -> SymbolSpec
 
     def lookup(self, name: str, line: int, column: int):  # -> (kind, value)
         raise NotImplementedError

@@ -6,7 +6,12 @@ common denominator per element (``coefficients``).  Every element is kept in
 normal form: degrees above ``truncate`` are dropped as they arise, the ring's
 rewrite rules and fiber-degree limits are applied eagerly (``rewriting``), so
 equality is exact comparison of the maps.  Sympy expressions appear only at
-the edges (input of scalars, ``terms()`` for callers that want them).
+the edges (input of scalars, ``terms()`` for callers that want them); the
+symbols are sympy Symbols or any keys with a ``name`` and a ``sympy()``
+method (the engine's, so that a build need not import sympy).
+
+Sympy-free queries: ``monomials()``, ``as_monomial()``, ``as_symbol()``,
+``rational()`` and ``fractions()`` (coefficients as FLINT quotients).
 
 Term API, for printers and callers: ``Element.terms()`` lists
 ``(monomial, coefficient)`` in normal-form order, the monomial as
