@@ -19,10 +19,8 @@ from functools import cached_property
 from . import notation
 from .algebra.graded import Element
 from .algebra.lazysympy import sympy, sympy_symbol
-from .algebra.radicals import tidy_with
 from .algebra.region import Region, Relation
 from .algebra.sampling import describe_point, evaluate
-from .algebra.signs import SignOracle
 from .expressions import Value, as_expr, is_class_free, rational_value, unify
 from .results import CheckResult, weakest
 
@@ -51,7 +49,9 @@ class Context:
         return Region(tuple(specs), tuple(self.relations))
 
     @cached_property
-    def oracle(self) -> SignOracle:
+    def oracle(self):
+        """The sign oracle (``algebra.signs``: sympy, imported when a check first needs it)."""
+        from .algebra.signs import SignOracle
         return SignOracle(self.region)
 
     def samples(self, symbols) -> list[dict]:
@@ -145,12 +145,18 @@ def _equal(left: Value, right: Value, ctx: Context):
             return "proven", ""
         return "failed", _witness(left, right, difference, ctx)
     left, right = unify(ctx.ring, left, right)
-    difference = tidy_with(left - right, ctx.oracle)
+    difference = _tidied(left - right, ctx)
     if difference == 0:
         return "proven", ""
     if not difference.free_symbols and difference.is_zero is False:
         return "failed", f"left = {_approx(left)}, right = {_approx(right)}"
     return _sample_equal(left, right, difference, ctx)
+
+
+def _tidied(expr, ctx: Context):
+    """A difference of values off the ring, simplified with the region's signs."""
+    from .algebra.radicals import tidy_with  # sympy: imported when such a value is checked
+    return tidy_with(expr, ctx.oracle)
 
 
 def _approx(value: sympy.Expr, point=None) -> str:
@@ -200,7 +206,7 @@ def _not_equal(left, right, ctx):
     numbers = rational_value(left), rational_value(right)
     if None not in numbers:  # two numbers: no sympy needed
         return ("proven", "") if numbers[0] != numbers[1] else ("failed", f"both sides equal {show(left)}")
-    difference = tidy_with(as_expr(left) - as_expr(right), ctx.oracle)
+    difference = _tidied(as_expr(left) - as_expr(right), ctx)
     if difference == 0:
         return "failed", f"both sides equal {show(left)}"
     if ctx.oracle.truth("!=", difference):

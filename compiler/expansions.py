@@ -12,7 +12,6 @@ from __future__ import annotations
 
 from . import expressions as ex, notation
 from .algebra.lazysympy import sympy
-from .algebra.radicals import tidy
 from .precision import Known
 from .statements import expr_nodes as en
 
@@ -37,6 +36,7 @@ def expand(ev, node: en.Expansion):
     else:
         x0 = sympy.Rational(node.point.numerator, node.point.denominator)
         inner, back = x0 + t, x - x0
+    from .algebra.radicals import tidy  # sympy's series need it anyway
     specs = list(ev.scope.specs.values())
     terms = []
     try:

@@ -7,8 +7,7 @@ from __future__ import annotations
 
 from ... import notation
 from ...algebra import fibers as fibers_mod, localization
-from ...algebra.lazysympy import sympy
-from ...algebra.radicals import tidy
+from ...algebra.lazysympy import sympy, sympy_symbol
 from ...algebra.graded import Element
 from ...checks import free_symbols
 from ...expressions import as_expr, is_class_free
@@ -31,14 +30,14 @@ def _substitute(scope, s: n.Substitute, step: Step) -> None:
     target, exact_to = known.value, known.exact_to
     whole = target if isinstance(target, Element) else None
     present = whole.generator_keys() if whole is not None else set()
-    symbols = free_symbols(target)
+    names = {symbol.name for symbol in free_symbols(target)}  # the ring's symbols or sympy's
     mapping = {}
     for pair in s.pairs:
         lhs = element(scope, pair.lhs, "substitute")
         key = _replaced(scope, pair.lhs, lhs)
         if key in mapping:
             raise scope.fail(pair, f"{lhs.to_text()} is substituted twice")
-        if key not in present and key not in symbols:
+        if key not in present if isinstance(key, str) else key.name not in names:
             raise scope.fail(pair.lhs, f"{lhs.to_text()} does not occur in the expression (a typo?)")
         degree = lhs.degrees()[0]
         replacement = scope.evaluator.read(pair.rhs, degree)
@@ -57,9 +56,10 @@ def _substitute(scope, s: n.Substitute, step: Step) -> None:
         return
     if all(isinstance(v, Element) for v in mapping.values()) and whole is not None:
         result = whole.substitute(mapping)
-    elif is_class_free(target) and all(isinstance(k, sympy.Symbol) for k in mapping):
+    elif is_class_free(target) and not any(isinstance(k, str) for k in mapping):
         # An irrational value (an extremum) put into a class-free expression.
-        exact = as_expr(target).subs({k: as_expr(v) for k, v in mapping.items()})
+        from ...algebra.radicals import tidy  # sympy: imported for such values only
+        exact = as_expr(target).subs({sympy_symbol(k): as_expr(v) for k, v in mapping.items()})
         result = tidy(exact, list(scope.specs.values()))
         if result.has(sympy.I):
             raise scope.fail(s, f"the substitution makes the value complex: {notation.text(result)}")
