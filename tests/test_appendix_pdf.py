@@ -12,6 +12,7 @@ that does not exist, an unbalanced display or a plot file that is not where
 that the published results survive typesetting.  pdftotext breaks lines,
 splits fractions over two lines and turns ``_`` into a space, so every
 comparison is made on text with the whitespace (and ``_``) taken out.
+``pdffonts`` checks that every font of the result is embedded.
 """
 from __future__ import annotations
 
@@ -105,8 +106,8 @@ KEY = {
     ), texts=(
         # table row N = 4, g = 3: n_v = 166, n_h = 160 from the Gaiotto-Maldacena values above
         "166160",
-        # the legend of the a_star plot, a with a star: the plot PDF was found and embedded
-        "a∗",
+        # the x axis of the a_star plot, z from 1/2 to 3 in steps of 1/2: typeset by LaTeX over the plot
+        "0.51.01.52.02.53.0",
     )),
 }
 
@@ -151,6 +152,7 @@ class Appendix:
     audit: str  # the audit style, standalone
     in_paper: str  # the appendix fragment \\input into a plain article
     overfull: list[float]  # every overfull box of the three runs, in pt
+    fonts: list[str]  # pdffonts's rows for the three PDFs
 
 
 _BUILT: dict[str, Appendix] = {}
@@ -174,13 +176,16 @@ def appendix(path: Path, factory, folder: Path) -> Appendix:
         (out / "audit.tex").write_text(to_tex(report, standalone=True, style="audit"), encoding="utf-8")
         (out / "fragment.tex").write_text(to_tex(report), encoding="utf-8")
         (out / "paper.tex").write_text(PAPER % (path.stem, "fragment"), encoding="utf-8")
-        texts, overfull = {}, []
+        texts, overfull, fonts = {}, [], []
         for name in ("appendix", "audit", "paper"):
-            texts[name] = pdf_text(pdflatex(out / f"{name}.tex"))
+            pdf = pdflatex(out / f"{name}.tex")
+            texts[name] = pdf_text(pdf)
             log = (out / f"{name}.log").read_text(encoding="utf-8", errors="replace")
             overfull += [float(x) for x in _OVERFULL.findall(log)]
+            listing = subprocess.run(["pdffonts", pdf.name], cwd=out, capture_output=True, text=True, check=True)
+            fonts += listing.stdout.strip().splitlines()[2:]  # below the table's heading
         _BUILT[path.stem] = Appendix(to_record(report), texts["appendix"], texts["audit"], texts["paper"],
-                                     overfull)
+                                     overfull, fonts)
     return _BUILT[path.stem]
 
 
@@ -249,6 +254,17 @@ def test_nothing_sticks_out_of_the_text_block(path, appendix_of):
 
 
 @pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
+def test_every_font_is_embedded(path, appendix_of):
+    """Journals take only PDFs with embedded fonts; plot labels are TeX's own text,
+    so pdffonts lists TeX's fonts only, each embedded (its ``emb`` column)."""
+    fonts = appendix_of(path).fonts
+    assert fonts
+    for row in fonts:
+        emb = re.search(r"\s(yes|no)\s+(yes|no)\s+(yes|no)\s+\d+\s+\d+$", row).group(1)
+        assert emb == "yes", row
+
+
+@pytest.mark.parametrize("path", DERIVATIONS, ids=lambda p: p.stem)
 def test_no_literal_dollar_in_pdf(path, appendix_of):
     """No bundled document writes a literal dollar, so any "$" in the PDF is math
     that reached LaTeX as text (as ``$$...$$`` inside a paragraph once did)."""
@@ -274,4 +290,4 @@ def test_fragment_from_the_command_line_inside_a_minimal_article(tmp_path):
     flat_text = flat(text)
     assert words("Central charges of the (2,0) theory on a Riemann surface") in words(text)
     assert "By(" in flat_text and "By(??)" not in flat_text  # the reference resolved to a number
-    assert "a∗" in flat_text  # legend of the second plot
+    assert "0.51.01.52.02.53.0" in flat_text  # the x axis of the second plot, typeset by LaTeX

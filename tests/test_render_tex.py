@@ -130,7 +130,9 @@ def test_tables_and_plots():
     tex = to_tex(report)
     assert "\\begin{tabular}{ccc}" in tex and "$N$ & $g$ & $a_{*}$ \\\\" in tex
     assert "$2$ & $2$ & $\\frac{53}{24}$ \\\\" in tex
-    assert "\\begin{figure}[htbp]\n\\centering\n\\includegraphics[width=0.8\\linewidth]{twisted-plot-1.pdf}" in tex
+    assert "\\begin{figure}[htbp]\n\\centering\n\\resizebox{0.8\\linewidth}{!}" in tex
+    assert "\\put(0,0){\\includegraphics[width=340\\unitlength]{twisted-plot-1.pdf}}" in tex
+    assert "\\makebox(0,0)[bl]{$a_{*}$}" in tex  # the legend, typeset by LaTeX over the plot
     assert "\\caption{$a_{*}$ against $z$ from $1/2$ to $3$ at $N$~$= 4$, $g$~$= 3$.}" in tex
     assert "\\label{fig:twisted-plot-1}" in tex
     files = plot_files(report)

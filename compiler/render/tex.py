@@ -20,6 +20,7 @@ from compiler.render import TEX_STYLES as STYLES
 from compiler.render.claims import claim_latex
 from compiler.render.notation import name_tree
 from compiler.render.plotting.pdf import plot_pdf
+from compiler.render.plotting.texlabels import name_math, number_math, plot_picture
 from compiler.render.printers import LatexPrinter, lines
 from compiler.render.templates import loader
 from compiler.render.texprose import WIDTH, code_lines, escape_detail, escape_tex, prose_tex
@@ -89,17 +90,17 @@ def plot_files(report: Report) -> dict[str, bytes]:
 
 def _caption(plot: PlotData, printer: LatexPrinter) -> str:
     def name(n: str) -> str:
-        return f"${printer.doprint(name_tree(n, printer.notation))}$" if not n.startswith("curve ") else n
+        return f"${name_math(n, printer)}$" if not n.startswith("curve ") else escape_tex(n)
     curves = ", ".join(name(c) for c in plot.curves)
-    fixed = ", ".join(f"{name(k)}~$= {escape_tex(v)}$" for k, v in plot.fixed.items())
+    fixed = ", ".join(f"{name(k)}~$= {number_math(v)}$" for k, v in plot.fixed.items())
     at = f" at {fixed}" if fixed else ""
     return (f"{curves} against {name(plot.variable)} from ${escape_tex(plot.low)}$ "
             f"to ${escape_tex(plot.high)}${at}.")
 
 
-def _figure(report: Report, plot: PlotData, file: str, printer: LatexPrinter) -> str:
+def _figure(plot: PlotData, file: str, printer: LatexPrinter) -> str:
     label = f"fig:{Path(file).stem}"
-    return (f"\\begin{{figure}}[htbp]\n\\centering\n\\includegraphics[width=0.8\\linewidth]{{{file}}}\n"
+    return (f"\\begin{{figure}}[htbp]\n\\centering\n{plot_picture(plot, file, printer)}\n"
             f"\\caption{{{_caption(plot, printer)}}}\n\\label{{{label}}}\n\\end{{figure}}\n")
 
 
@@ -120,7 +121,7 @@ def _appendix_step(report: Report, step: Step, plot_file: str, printer: LatexPri
     if step.table is not None:
         out.append(_tabular(step, printer))
     if plot_file:
-        out.append(_figure(report, step.plot, plot_file, printer))
+        out.append(_figure(step.plot, plot_file, printer))
     loud = [c for c in step.notable_checks if step.kind != "check"]
     if loud:
         out.append(_check_list(loud, "small"))
@@ -189,7 +190,7 @@ def _audit_step(step: Step, plot_file: str, printer: LatexPrinter) -> dict:
         "remainder": display_value(printer, "", step.remainder.tree) if step.remainder is not None else "",
         "summary": escape_tex(step.summary),
         "table": _tabular(step, printer) if step.table is not None else "",
-        "plot": plot_file,
+        "plot": plot_picture(step.plot, plot_file, printer) if plot_file else "",
         "checks": _check_list(step.checks, "footnotesize") if step.checks else "",
     }
 

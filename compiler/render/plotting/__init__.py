@@ -1,5 +1,6 @@
-"""Plots drawn by hand: one layout (``layout``), drawn as inline SVG (``svg``) or a PDF (``pdf``).
+"""Plots drawn by hand: one layout (``layout``), drawn as inline SVG (``svg``), or as a
+text-free PDF (``pdf``) with the labels typeset over it by LaTeX (``texlabels``).
 
 No plotting library is loaded: the layout is a few boxes, ticks and
-polylines, and both backends are a page of code each.  Same data, same bytes.
+polylines, and each backend is a page of code.  Same data, same bytes.
 """

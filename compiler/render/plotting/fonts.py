@@ -1,7 +1,7 @@
-"""The three base-14 PDF fonts a plot uses, which one draws each character, and how wide it is.
+"""The Times metrics a plot's labels are measured with: which font has each character, and how wide it is.
 
-Every PDF viewer has Times-Roman, Times-Italic and Symbol, so the PDF needs
-no embedded font; the SVG names a Times-like family so both look alike.
+The SVG names a Times-like family, so its text takes the room measured here;
+the LaTeX appendix typesets the labels in the paper's fonts in the same room.
 Advance widths, in thousandths of the font size, are from Adobe's AFM files
 as shipped with TeX Live (fonts/afm/adobe/times/ptmr8a.afm, ptmri8a.afm and
 fonts/afm/adobe/symbol/psyr.afm), codes 32 to 126; for Times, code 39 is

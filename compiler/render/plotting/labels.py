@@ -5,7 +5,8 @@ A plot cannot hold MathML, so a name's presentation tree (the one rule of
 runs: italic letters, Greek as Unicode, subscripts and superscripts as
 smaller runs off the baseline, accents as a mark over a run.  An author's
 ``notation`` override is LaTeX of the checked subset, read here token by
-token into the same runs; nothing is evaluated.  Both backends draw runs.
+token into the same runs; nothing is evaluated.  The SVG draws runs; the
+LaTeX appendix typesets a label's parts itself (``texlabels``).
 """
 from __future__ import annotations
 
@@ -102,6 +103,29 @@ def name_label(name: str, notation: dict[str, str]) -> Label:
 def plain(text: str, at: At = At()) -> Label:
     """Text that is not a name (a value, an unnamed curve): upright, signs as in mathematics."""
     return (at.run(_sign(text)),)
+
+
+# ------------------------------------------------------- what a label says
+
+#: One piece of a label as (kind, text), kept beside its runs so that a
+#: backend that typesets (LaTeX) prints the same thing its own way.  Kinds:
+#: ``name`` a document name, ``number`` a number, ``equals`` `` = number``,
+#: ``power`` the unit ``×10^text``, ``text`` upright words and punctuation,
+#: ``gap`` a wide space.
+Part = tuple[str, str]
+_SPELLING = {
+    "name": name_label,
+    "number": lambda text, notation: plain(text),
+    "equals": lambda text, notation: plain(f" = {text}"),
+    "power": lambda text, notation: plain("×10") + plain(text, At().sup()),
+    "text": lambda text, notation: plain(text),
+    "gap": lambda text, notation: plain("    "),
+}
+
+
+def spell(parts: tuple[Part, ...], notation: dict[str, str]) -> Label:
+    """A label's parts as runs, names by the report's notation rule."""
+    return tuple(r for kind, text in parts for r in _SPELLING[kind](text, notation))
 
 
 # ------------------------------------------- the author's LaTeX subset

@@ -1,20 +1,22 @@
 """Where everything on a plot goes: axes box, nice ticks, grid, curves, legend, labels.
 
 Coordinates are points (1/72 inch) on a page of ``WIDTH`` by ``HEIGHT``,
-y downwards as in SVG (the PDF backend flips it).  Text is placed by anchor
-and measured with the base-14 Times metrics, which both backends draw with.
+y downwards as in SVG (the PDF and the LaTeX picture flip it).  Text is
+placed by anchor at its baseline and measured with Times metrics, which the
+SVG draws with; the LaTeX appendix typesets the same parts in the paper's
+fonts over the text-free PDF, in the room measured here.
 Numbers are only ever formatted from exact tick multiples, so the output is
 the same for the same data.
 """
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from decimal import Decimal
 from fractions import Fraction
 
 from compiler.render.plotting.fonts import glyph, width
-from compiler.render.plotting.labels import At, Label, name_label, plain
+from compiler.render.plotting.labels import Label, Part, spell
 from compiler.results import PlotData
 
 WIDTH, HEIGHT = 340.0, 210.0
@@ -47,8 +49,9 @@ class Line:
 class Text:
     x: float
     y: float  # baseline
-    label: Label
+    label: Label  # as the SVG draws it
     anchor: str  # "start", "middle" or "end"
+    parts: tuple[Part, ...]  # what it says, for the appendix to typeset
 
 
 @dataclass(frozen=True)
@@ -82,7 +85,7 @@ def measure(label: Label) -> float:
 @dataclass(frozen=True)
 class Ticks:
     values: tuple[float, ...]
-    labels: tuple[Label, ...]
+    labels: tuple[str, ...]  # ASCII numbers, ``-0.5``
     power: int  # labels are in units of 10**power (0: as they are)
 
 
@@ -107,7 +110,7 @@ def ticks(low: float, high: float, target: int) -> Ticks:
     top = max(abs(v) for v in exact) if any(exact) else Decimal(0)
     power = top.adjusted() if top and not -3 <= top.adjusted() < 5 else 0
     decimals = max(0, power - exponent)
-    labels = tuple(plain(f"{v.scaleb(-power):.{decimals}f}") for v in exact)
+    labels = tuple(f"{v.scaleb(-power):.{decimals}f}" for v in exact)
     return Ticks(tuple(float(v) for v in exact), labels, power)
 
 
@@ -148,11 +151,6 @@ def _pieces(points) -> list[list[tuple[float, float]]]:
     return [p if len(p) > 1 else p * 2 for p in (out + [piece] if piece else out)]
 
 
-def _power_label(power: int) -> Label:
-    """``×10⁻³``: the unit of a tick labels' numbers."""
-    return plain("×10") + plain(str(power), At().sup())
-
-
 def _number(text: str) -> float | None:
     """An interval end as the engine wrote it (``-1``, ``1/2``), None if it is not one."""
     try:
@@ -161,11 +159,12 @@ def _number(text: str) -> float | None:
         return None
 
 
-def _legend(entries: list[tuple[tuple, Label]], box, points) -> tuple[list[Line], list[Text]]:
-    """Legend in the inside corner its box covers fewest curve points of."""
+def _legend(entries: list[tuple[tuple, Text]], box, points) -> tuple[list[Line], list[Text]]:
+    """Legend in the inside corner its box covers fewest curve points of;
+    ``entries`` are colours and unplaced texts."""
     left, top, right, bottom = box
     sample, gap, pad, row = 16.0, 4.0, 6.0, SIZE * 1.35
-    w = sample + gap + max(measure(label) for _, label in entries) * _SLACK
+    w = sample + gap + max(measure(text.label) for _, text in entries) * _SLACK
     h = row * len(entries)
     corners = [(right - pad - w, top + pad), (left + pad, top + pad),
                (right - pad - w, bottom - pad - h), (left + pad, bottom - pad - h)]
@@ -176,10 +175,10 @@ def _legend(entries: list[tuple[tuple, Label]], box, points) -> tuple[list[Line]
 
     x, y = min(corners, key=covered)  # ties: the first, upper right as is usual
     lines, texts = [], []
-    for i, (color, label) in enumerate(entries):
+    for i, (color, text) in enumerate(entries):
         mid = y + row * (i + 0.5)
         lines.append(Line(x, mid, x + sample, mid, color, 1.4))
-        texts.append(Text(x + sample + gap, mid + SIZE * 0.32, label, "start"))
+        texts.append(replace(text, x=x + sample + gap, y=mid + SIZE * 0.32))
     return lines, texts
 
 
@@ -193,8 +192,12 @@ def layout(plot: PlotData, notation: dict[str, str]) -> Layout:
     y0, y1 = _limits(ys)
     xt, yt = ticks(x0, x1, 7), ticks(y0, y1, 7)
 
+    def text(x: float, y: float, parts: tuple[Part, ...], anchor: str) -> Text:
+        return Text(x, y, spell(parts, notation), anchor, parts)
+
+    ylabels = [text(0, 0, (("number", n),), "end") for n in yt.labels]
     right = WIDTH - 10
-    left = 6 + max(map(measure, yt.labels)) * _SLACK + 7
+    left = 6 + max(measure(t.label) for t in ylabels) * _SLACK + 7
     heading = _heading(plot, notation, yt.power, right - left)
     top = 8 + SIZE * 1.35 * len(heading) + (SIZE * 0.3 if heading else 0)
     bottom = HEIGHT - (SIZE * 3.4 + 8)
@@ -211,17 +214,17 @@ def layout(plot: PlotData, notation: dict[str, str]) -> Layout:
     lines += [Line(left, top, left, bottom, INK, 0.8), Line(left, bottom, right, bottom, INK, 0.8)]
     lines += [Line(px(v), bottom, px(v), bottom + 3.5, INK, 0.8) for v in xt.values]
     lines += [Line(left - 3.5, py(v), left, py(v), INK, 0.8) for v in yt.values]
-    texts = [Text(px(v), bottom + 5 + SIZE, label, "middle") for v, label in zip(xt.values, xt.labels)]
-    texts += [Text(left - 6, py(v) + SIZE * 0.32, label, "end") for v, label in zip(yt.values, yt.labels)]
-    texts.append(Text((left + right) / 2, HEIGHT - 8, name_label(plot.variable, notation), "middle"))
-    texts += [Text(left, top - SIZE * (0.6 + 1.35 * (len(heading) - 1 - i)), line, "start")
+    texts = [text(px(v), bottom + 5 + SIZE, (("number", n),), "middle") for v, n in zip(xt.values, xt.labels)]
+    texts += [replace(t, x=left - 6, y=py(v) + SIZE * 0.32) for v, t in zip(yt.values, ylabels)]
+    texts.append(text((left + right) / 2, HEIGHT - 8, (("name", plot.variable),), "middle"))
+    texts += [text(left, top - SIZE * (0.6 + 1.35 * (len(heading) - 1 - i)), line, "start")
               for i, line in enumerate(heading)]
     if xt.power:
-        texts.append(Text(right, bottom + 5 + SIZE * 2.4, _power_label(xt.power), "end"))
+        texts.append(text(right, bottom + 5 + SIZE * 2.4, (("power", str(xt.power)),), "end"))
 
     drawn = [Curve(COLORS[i % len(COLORS)], tuple(tuple((px(x), py(y)) for x, y in piece) for piece in pieces))
              for i, pieces in enumerate(curves.values())]
-    entries = [(c.color, _curve_label(name, notation)) for c, name in zip(drawn, curves)]
+    entries = [(c.color, text(0, 0, (_curve_part(name),), "start")) for c, name in zip(drawn, curves)]
     if entries:
         points = [p for c in drawn for piece in c.pieces for p in piece]
         legend_lines, legend_texts = _legend(entries, box, points)
@@ -230,21 +233,21 @@ def layout(plot: PlotData, notation: dict[str, str]) -> Layout:
     return Layout(WIDTH, HEIGHT, tuple(lines), tuple(drawn), tuple(texts))
 
 
-def _curve_label(name: str, notation: dict[str, str]) -> Label:
-    """A named curve's label by the notation rule; an unnamed one as numbered."""
-    return plain(name) if name.startswith("curve ") else name_label(name, notation)
+def _curve_part(name: str) -> Part:
+    """A named curve by the notation rule; an unnamed one as numbered."""
+    return ("text", name) if name.startswith("curve ") else ("name", name)
 
 
-def _heading(plot: PlotData, notation: dict[str, str], power: int, width: float) -> list[Label]:
+def _heading(plot: PlotData, notation: dict[str, str], power: int, width: float) -> list[tuple[Part, ...]]:
     """The lines above the axes: the y unit (``×10⁷``) if any, then the fixed
     values ``N = 3, g = 2``, wrapped after a comma to fit ``width``."""
-    parts = [name_label(name, notation) + plain(f" = {value}") for name, value in plot.fixed.items()]
-    lines, current = [], _power_label(power) + plain("    ") if power else ()
-    for i, part in enumerate(parts):
-        comma = plain(", ") if i else ()
-        if i and measure(current + comma + part) * _SLACK > width:
-            lines.append(current + plain(","))
-            current = part
+    pieces = [(("name", name), ("equals", value)) for name, value in plot.fixed.items()]
+    lines, current = [], (("power", str(power)), ("gap", "")) if power else ()
+    for i, piece in enumerate(pieces):
+        comma = (("text", ", "),) if i else ()
+        if i and measure(spell(current + comma + piece, notation)) * _SLACK > width:
+            lines.append(current + (("text", ","),))
+            current = piece
         else:
-            current += comma + part
+            current += comma + piece
     return lines + [current] if current else lines
