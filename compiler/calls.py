@@ -18,9 +18,8 @@ from __future__ import annotations
 import itertools
 from dataclasses import dataclass
 
-import sympy
-
 from . import expressions as ex, notation, precision
+from .algebra.lazysympy import sympy
 from .errors import DocumentError, InternalError
 from .statements import expr_nodes as en
 

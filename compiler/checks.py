@@ -11,25 +11,23 @@ the check is an error.
 from __future__ import annotations
 
 import itertools
+import operator
 from dataclasses import dataclass, field
+from fractions import Fraction
 from functools import cached_property
-
-import sympy
 
 from . import notation
 from .algebra.graded import Element
-from .algebra.radicals import tidy_with
+from .algebra.lazysympy import sympy, sympy_symbol
 from .algebra.region import Region, Relation
 from .algebra.sampling import describe_point, evaluate
-from .algebra.signs import SignOracle
-from .expressions import Value, as_expr, is_class_free, unify
+from .expressions import Value, as_expr, is_class_free, rational_value, unify
 from .results import CheckResult, weakest
 
 #: How many points a sampled equality is tested at (the spec asks >= 20).
 SAMPLES = 24
 #: Sampled equalities agree to this many significant digits.
 DIGITS = 50
-_TOLERANCE = sympy.Rational(1, 10**DIGITS)
 
 
 @dataclass
@@ -37,7 +35,7 @@ class Context:
     """What a check needs besides its two sides."""
 
     ring: object
-    specs: dict  # sympy Symbol -> SymbolSpec, in declaration order
+    specs: dict  # name -> SymbolSpec, in declaration order
     seed: str
     relations: tuple[Relation, ...] = field(default=())
 
@@ -51,23 +49,36 @@ class Context:
         return Region(tuple(specs), tuple(self.relations))
 
     @cached_property
-    def oracle(self) -> SignOracle:
+    def oracle(self):
+        """The sign oracle (``algebra.signs``: sympy, imported when a check first needs it)."""
+        from .algebra.signs import SignOracle
         return SignOracle(self.region)
 
     def samples(self, symbols) -> list[dict]:
         """Sample points of the region restricted to ``symbols`` (and the
         symbols related to them)."""
+        symbols = [sympy_symbol(s) for s in symbols]
         return self.region.restrict(symbols).sample(SAMPLES, self.seed)
 
     def declared(self, symbols) -> bool:
-        return all(s in self.specs for s in symbols)
+        return all(s.name in self.specs for s in symbols)
 
     def at(self, point: dict) -> "Context":
-        """The context once ``point`` fixes some symbols (see ``Region.fixing``)."""
+        """The context once ``point`` fixes some symbols (see ``Region.fixing``;
+        without relations that only drops them)."""
         if not point:
             return self
-        left = self.region.fixing(point)
-        return Context(self.ring, {s.symbol: s for s in left.specs}, self.seed, left.relations)
+        if not self.relations:
+            fixed = {s.name for s in point}
+            return Context(self.ring, {k: s for k, s in self.specs.items() if k not in fixed}, self.seed)
+        left = self.region.fixing(sympy_point(point))
+        return Context(self.ring, {s.name: s for s in left.specs}, self.seed, left.relations)
+
+
+def sympy_point(point: dict) -> dict:
+    """A point (the ring's symbols or sympy's, exact values) as sympy reads it."""
+    return {sympy_symbol(s): sympy.Rational(v.numerator, v.denominator) if isinstance(v, Fraction) else v
+            for s, v in point.items()}
 
 
 def substitute(ring, value: Value, point: dict) -> Value:
@@ -76,7 +87,7 @@ def substitute(ring, value: Value, point: dict) -> Value:
         return value
     if isinstance(value, Element):
         return value.substitute({s: ring.scalar(v) for s, v in point.items()})
-    return value.subs(point)
+    return value.subs(sympy_point(point))
 
 
 def free_symbols(value: Value) -> set:
@@ -134,12 +145,18 @@ def _equal(left: Value, right: Value, ctx: Context):
             return "proven", ""
         return "failed", _witness(left, right, difference, ctx)
     left, right = unify(ctx.ring, left, right)
-    difference = tidy_with(left - right, ctx.oracle)
+    difference = _tidied(left - right, ctx)
     if difference == 0:
         return "proven", ""
     if not difference.free_symbols and difference.is_zero is False:
         return "failed", f"left = {_approx(left)}, right = {_approx(right)}"
     return _sample_equal(left, right, difference, ctx)
+
+
+def _tidied(expr, ctx: Context):
+    """A difference of values off the ring, simplified with the region's signs."""
+    from .algebra.radicals import tidy_with  # sympy: imported when such a value is checked
+    return tidy_with(expr, ctx.oracle)
 
 
 def _approx(value: sympy.Expr, point=None) -> str:
@@ -171,7 +188,7 @@ def _sample_equal(left, right, difference, ctx: Context):
     for point in points:
         value = evaluate(difference, point, digits=DIGITS + 10)
         scale = 1 + abs(evaluate(left, point, digits=DIGITS + 10))
-        if not value.is_number or abs(value) > _TOLERANCE * scale:
+        if not value.is_number or abs(value) > sympy.Rational(1, 10**DIGITS) * scale:
             where = f"at {describe_point(point)}: " if point else ""
             return "failed", f"{where}left = {_approx(left, point)}, right = {_approx(right, point)}"
     if not symbols:
@@ -186,7 +203,10 @@ def _not_equal(left, right, ctx):
         if isinstance(left, Element) and isinstance(right, Element) and not (left - right).is_zero:
             return "proven", ""
         return "failed", f"both sides equal {show(left)}"
-    difference = tidy_with(as_expr(left) - as_expr(right), ctx.oracle)
+    numbers = rational_value(left), rational_value(right)
+    if None not in numbers:  # two numbers: no sympy needed
+        return ("proven", "") if numbers[0] != numbers[1] else ("failed", f"both sides equal {show(left)}")
+    difference = _tidied(as_expr(left) - as_expr(right), ctx)
     if difference == 0:
         return "failed", f"both sides equal {show(left)}"
     if ctx.oracle.truth("!=", difference):
@@ -205,10 +225,18 @@ _SIGN_TESTS = {
 }
 
 
+_COMPARE = {"<": operator.lt, "<=": operator.le, ">": operator.gt, ">=": operator.ge}
+
+
 def _order(op: str):
     def decide(left: Value, right: Value, ctx: Context):
         if not (is_class_free(left) and is_class_free(right)):
             return "error", "inequalities compare class-free values only"
+        numbers = rational_value(left), rational_value(right)
+        if None not in numbers:  # two numbers: no sympy needed
+            if _COMPARE[op](*numbers):
+                return "proven", ""
+            return "failed", f"left = {show(left)}, right = {show(right)}"
         difference = sympy.simplify(as_expr(left) - as_expr(right))
         verdict = ctx.oracle.truth(op, difference)
         if verdict is True:

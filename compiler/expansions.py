@@ -10,10 +10,8 @@ The step's time limit bounds the work.
 """
 from __future__ import annotations
 
-import sympy
-
 from . import expressions as ex, notation
-from .algebra.radicals import tidy
+from .algebra.lazysympy import sympy
 from .precision import Known
 from .statements import expr_nodes as en
 
@@ -38,6 +36,7 @@ def expand(ev, node: en.Expansion):
     else:
         x0 = sympy.Rational(node.point.numerator, node.point.denominator)
         inner, back = x0 + t, x - x0
+    from .algebra.radicals import tidy  # sympy's series need it anyway
     specs = list(ev.scope.specs.values())
     terms = []
     try:

@@ -17,17 +17,16 @@ from contextlib import contextmanager
 from fractions import Fraction
 from typing import Union
 
-import sympy
-
 from . import calls, expansions, functions, notation
 from .algebra import budget
 from .algebra.errors import AlgebraError, NotRational
 from .algebra.graded import Element
+from .algebra.lazysympy import sympy
 from .errors import DocumentError, Location
 from .precision import Known, beyond, power, product, quotient, smallest, whole
 from .statements import expr_nodes as en
 
-Value = Union[Element, sympy.Expr]
+Value = Union[Element, "sympy.Expr"]
 
 
 class Missing:
@@ -60,7 +59,7 @@ class Scope:
 
     ring = None  # graded.Ring
     bundles = None  # bundles.BundleTable
-    specs: dict = {}  # sympy Symbol -> SymbolSpec
+    specs: dict = {}  # name -> SymbolSpec
 
     def lookup(self, name: str, line: int, column: int):  # -> (kind, value)
         raise NotImplementedError
@@ -280,22 +279,18 @@ def unify(ring, left: Value, right: Value):
     return as_expr(left), as_expr(right)
 
 
-def _scalar(value: Value):
-    """The sympy number of a class-free value; None for a value with classes."""
-    if isinstance(value, Element):
-        return value.to_scalar() if value.is_class_free() else None
-    return value
-
-
 def integer_value(value: Value):
     """The Python int a value stands for, or None."""
-    value = _scalar(value)
+    if isinstance(value, Element):
+        q = value.rational()
+        return q.numerator if q is not None and q.denominator == 1 else None
     return int(value) if isinstance(value, sympy.Integer) else None
 
 
 def rational_value(value: Value):
     """The Fraction a value stands for, or None."""
-    value = _scalar(value)
+    if isinstance(value, Element):
+        return value.rational()
     if isinstance(value, sympy.Rational):
         return Fraction(int(value.p), int(value.q))
     return None

@@ -8,12 +8,10 @@ from __future__ import annotations
 
 from typing import Callable
 
-import sympy
-
 from . import constructions, expressions as ex, notation, representations
 from .algebra import genera
 from .algebra.graded import Element
-from .algebra.radicals import tidy
+from .algebra.lazysympy import sympy
 from .precision import Known
 from .statements import expr_nodes as en
 
@@ -98,6 +96,7 @@ def _sqrt(ev, node):
         raise ev.fail(node, "sqrt() of a value with classes")
     if ex.as_expr(value).is_negative:
         raise ev.fail(node, f"sqrt() of a negative value: {notation.text(ex.as_expr(value))}")
+    from .algebra.radicals import tidy  # sympy: imported for radicals only
     root = tidy(sympy.sqrt(ex.as_expr(value)), list(ev.scope.specs.values()))
     return Known(ex.from_expr(ev.scope.ring, root), exact_to)
 

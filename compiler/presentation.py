@@ -18,12 +18,11 @@ from functools import lru_cache
 from math import gcd, lcm
 
 import flint
-import sympy
-from sympy.core.mul import _keep_coeff
-from sympy.polys.polyutils import _sort_gens
 
 from .algebra import printing
 from .algebra.graded import Element
+from .algebra.lazysympy import sympy
+from .spelling import Spelling, opposite, product, shorter_negated
 
 #: Class-free sympy values with more operations than this are left as they
 #: are: sympy's factor costs more on them than a reader gains from it.
@@ -38,25 +37,12 @@ def _negative(expr) -> bool:
     return expr.could_extract_minus_sign()
 
 
-def _shorter_negated(terms) -> bool:
-    """Whether ``-(...)`` of the opposite terms needs fewer minus signs."""
-    negative = sum(_negative(t) for t in terms)
-    return len(terms) - negative + 1 < negative
-
-
-def _opposite(terms: list) -> list:
-    """The terms of the opposite sum (trees only: no sympy arithmetic, which
-    would cost more than the whole display on a large value)."""
-    return [t[1] if t[0] == "neg" else ["neg", t] for t in terms]
-
-
 def _sum(expr, order) -> list:
     """An Add as a tree, its terms in a fixed order; a sum is written as the
     negative of its opposite when that needs fewer minus signs."""
     terms = [_node(t, order) for t in order(expr)]
-    negative = sum(t[0] == "neg" for t in terms)
-    if len(terms) - negative + 1 < negative:
-        return ["neg", ["add", *_opposite(terms)]]
+    if shorter_negated([t[0] == "neg" for t in terms]):
+        return ["neg", ["add", *opposite(terms)]]
     return ["add", *terms]
 
 
@@ -71,10 +57,6 @@ def _power(base, exp, order) -> list:
     return ["pow", _node(base, order), int(exp)]
 
 
-def _product(factors: list) -> list:
-    return factors[0] if len(factors) == 1 else ["mul", *factors]
-
-
 def _mul(expr, order) -> list:
     """num/den with the number first; a negative factor's sign goes out front."""
     coeff, rest = expr.as_coeff_mul()
@@ -87,7 +69,7 @@ def _mul(expr, order) -> list:
         exp = -exp if exp.is_negative else exp
         if isinstance(base, sympy.Add) and exp.is_integer and _negative(base):
             tree = _sum(base, order)  # written with its sign outside: (1 - z) is -(z - 1)
-            tree = ["add", *_opposite(tree[1:])] if tree[0] == "add" else tree[1]
+            tree = ["add", *opposite(tree[1:])] if tree[0] == "add" else tree[1]
             sign ^= bool(exp % 2)
             target.append(tree if exp == 1 else ["pow", tree, int(exp)])
             continue
@@ -96,9 +78,9 @@ def _mul(expr, order) -> list:
         num.insert(0, ["int", int(coeff.p)])
     if coeff.q != 1:
         den.insert(0, ["int", int(coeff.q)])
-    tree = _product(num)
+    tree = product(num)
     if den:
-        tree = ["div", tree, _product(den)]
+        tree = ["div", tree, product(den)]
     return ["neg", tree] if sign else tree
 
 
@@ -159,10 +141,10 @@ def scalar_tree(expr) -> list:
     return _node(_factored(_basic(expr)), _ordered)
 
 
-def _poly_expr(coeffs, poly, scale=Fraction(1)):
-    """A FLINT polynomial of ``coeffs`` times ``scale`` as a sympy sum."""
+def _poly_expr(coeffs, poly):
+    """A FLINT polynomial of ``coeffs`` as a sympy sum."""
     return sympy.Add(*[sympy.Rational(c.numerator, c.denominator) * sympy.Mul(
-        *[s ** e for s, e in zip(coeffs.symbols, exps) if e]) for exps, c in coeffs.items(poly * _q(scale))])
+        *[s ** e for s, e in zip(coeffs.sympy_symbols(), exps) if e]) for exps, c in coeffs.items(poly)])
 
 
 def _content(coeffs, poly) -> Fraction:
@@ -172,36 +154,32 @@ def _content(coeffs, poly) -> Fraction:
     return Fraction(gcd(*(c.numerator * (den // c.denominator) for c in values)), den)
 
 
-def _leading(coeffs, poly) -> Fraction:
-    """The leading coefficient in sympy's lexicographic order of the symbols,
-    the one ``sympy.factor`` makes positive."""
-    rank = [coeffs.symbols.index(s) for s in _sort_gens(coeffs.symbols)]
-    exps, c = max(coeffs.items(poly), key=lambda t: tuple(t[0][i] for i in rank))
-    return c
-
-
-def _factored_fraction(coeffs, num, den):
-    """num/den (FLINT polynomials) factored on FLINT, written as
-    ``sympy.factor`` writes it: a rational times integer primitive factors,
-    each with a positive leading coefficient."""
+def _fraction_tree(spelling: Spelling, coeffs, num, den) -> list:
+    """num/den (FLINT polynomials) factored on FLINT, shown as ``sympy.factor``
+    writes it: a rational times integer primitive factors, each with a
+    positive leading coefficient (see ``spelling``)."""
     coeff, factors = Fraction(1), []
     for poly, sign in ((num, 1), (den, -1)):
         content, parts = poly.factor()
         coeff *= Fraction(int(content.p), int(content.q)) ** sign
         for f, e in parts:
-            scale = _content(coeffs, f)
-            if _leading(coeffs, f) < 0:
-                scale = -scale
-            base = _poly_expr(coeffs, f, 1 / scale)
+            terms = coeffs.items(f)
+            scale = _content(coeffs, f) * (-1 if spelling.leading(terms) < 0 else 1)
             coeff *= scale ** (int(e) * sign)
-            factors.append(base ** (int(e) * sign))
-    return _keep_coeff(sympy.Rational(coeff.numerator, coeff.denominator), sympy.Mul(*factors))
+            factors.append(([(exps, c / scale) for exps, c in terms], int(e) * sign))
+    return spelling.factored_tree(coeff, factors)
+
+
+def _quotient_negative(spelling: Spelling, coeffs, num, den) -> bool:
+    """Whether num/den, written as ``sympy.cancel`` writes it, shows a minus
+    sign (sympy spells it when the denominator has symbols)."""
+    if den.is_constant():
+        return spelling.negative([(exps, c / _number(den)) for exps, c in coeffs.items(num)])
+    return _negative(_quotient_expr(coeffs, num, den))
 
 
 def _quotient_expr(coeffs, num, den):
-    """num/den as ``sympy.cancel`` writes it (a sum when den is a number)."""
-    if den.is_constant():
-        return _poly_expr(coeffs, num, 1 / _number(den))
+    """num/den as ``sympy.cancel`` writes it."""
     return sympy.cancel(_poly_expr(coeffs, num) / _poly_expr(coeffs, den))
 
 
@@ -245,8 +223,8 @@ def _parts_tree(coeffs, num, den) -> list:
     top = [] if a == 1 and not printing.is_one(P) else [["int", a]]
     top += [] if printing.is_one(P) else [_prim_tree(P, coeffs.symbols)]
     bottom = ([] if b == 1 else [["int", b]]) + ([] if printing.is_one(Q) else [_prim_tree(Q, coeffs.symbols)])
-    tree = _product(top)
-    tree = ["div", tree, _product(bottom)] if bottom else tree
+    tree = product(top)
+    tree = ["div", tree, product(bottom)] if bottom else tree
     return ["neg", tree] if s < 0 else tree
 
 
@@ -257,7 +235,7 @@ def _prim_tree(prim, symbols) -> list:
                    for s, e in zip(symbols, exps) if e]
         if abs(c) != 1 or not factors:
             factors.insert(0, ["int", abs(c)])
-        term = _product(factors)
+        term = product(factors)
         terms.append(["neg", term] if c < 0 else term)
     return terms[0] if len(terms) == 1 else ["add", *terms]
 
@@ -265,7 +243,7 @@ def _prim_tree(prim, symbols) -> list:
 def _monomial(ring, pairs) -> list:
     factors = [["cls", key] if e == 1 else
                ["pow", ["cls", key], e] for key, e in pairs]
-    return _product(factors)
+    return product(factors)
 
 
 def _term(coef_tree: list, mono: list) -> list:
@@ -284,23 +262,24 @@ def element_tree(value: Element) -> list:
     if not fractions:
         return ["int", 0]
     ring, coeffs = value.ring, value.ring.coeffs
+    spelling = Spelling(s.name for s in coeffs.symbols)
     if len(fractions) == 1 and not fractions[0][0]:
-        return _node(_factored_fraction(coeffs, *fractions[0][1:]), _ordered)
+        return _fraction_tree(spelling, coeffs, *fractions[0][1:])
     if len(fractions) > COLLECT_LIMIT:
         return ["add", *(_term(_parts_tree(coeffs, num, den), _monomial(ring, pairs)) if pairs
                          else _parts_tree(coeffs, num, den) for pairs, num, den in fractions)]
     top, bottom = _common(coeffs, fractions)
     quotients = [_reduced(coeffs, num * bottom, den * top) for _, num, den in fractions]
-    if _shorter_negated([_quotient_expr(coeffs, *q) for q in quotients]):
+    if shorter_negated([_quotient_negative(spelling, coeffs, *q) for q in quotients]):
         top, quotients = -top, [(-n, d) for n, d in quotients]
     body = []
     for (pairs, _, _), (num, den) in zip(fractions, quotients):
-        coef_tree = _node(_factored_fraction(coeffs, num, den), _ordered)
+        coef_tree = _fraction_tree(spelling, coeffs, num, den)
         body.append(_term(coef_tree, _monomial(ring, pairs)) if pairs else coef_tree)
     tree = body[0] if len(body) == 1 else ["add", *body]
     if top == bottom:
         return tree
-    return _term(_node(_factored_fraction(coeffs, top, bottom), _ordered), tree)
+    return _term(_fraction_tree(spelling, coeffs, top, bottom), tree)
 
 
 def _expanded(expr) -> list:

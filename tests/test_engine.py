@@ -474,3 +474,15 @@ def test_declarations_are_steps_with_positions(tmp_path):
     report = compile_doc(tmp_path, "symbol N", "let a = N + \\", "    1", "let! a = 2")
     kinds = [(s.kind, s.line, s.column, s.end_line, s.rebind) for s in report.steps]
     assert kinds == [("symbol", 2, 1, 2, False), ("let", 3, 1, 4, False), ("let", 5, 1, 5, True)]
+
+
+# ---------------------------------------------------------------- substitution of irrational values
+
+def test_an_extremum_is_substituted_into_a_class_free_value(tmp_path):
+    # N x - x^3 is largest at x = sqrt(N/3) for x real (common practice, no source);
+    # the symbol substituted is the ring's own, the value a radical sympy holds
+    report = compile_doc(tmp_path, "symbol x: real", "symbol N: integer, positive",
+                         "let f = N*x - x^3", "maximize f over x -> x0, f0",
+                         "let g = N*x^2 + x", "substitute g: x = x0 -> g0",
+                         "check g0 == N*x0^2 + x0", "check 3*x0^2 == N")
+    assert report.passed, [(s.source, s.checks) for s in report.steps if s.status != "proven"]

@@ -27,7 +27,7 @@ def test_sampling_draws_inside_the_window(tmp_path):
     # the conformal window of SQCD (Seiberg, "Electric-magnetic duality in
     # supersymmetric non-Abelian gauge theories", 1994)
     scope = scope_of(tmp_path, *WINDOW)
-    nc, nf = scope.symbols_by_name["Nc"].symbol, scope.symbols_by_name["Nf"].symbol
+    nc, nf = scope.specs["Nc"].symbol, scope.specs["Nf"].symbol
     points = scope.context(7).samples({nf})
     assert len(points) >= 20
     assert all(p[nc] >= 2 and p[nc] < p[nf] < 3 * p[nc] for p in points)
@@ -76,7 +76,7 @@ def test_a_declaration_no_point_satisfies_is_located(tmp_path):
 def test_relations_are_linear_forms_of_the_symbols(tmp_path):
     scope = scope_of(tmp_path, "symbol a: real", "symbol b: real, 2*a - 1/2 < b")
     (relation,) = scope.region.relations
-    a, b = (scope.symbols_by_name[x].symbol for x in "ab")
+    a, b = (scope.specs[x].symbol for x in "ab")
     assert sympy.expand(relation.expr - (b - 2 * a + sympy.Rational(1, 2))) == 0
     assert relation.strict
 

@@ -17,7 +17,7 @@ import math
 from fractions import Fraction
 
 import flint
-import sympy
+from .lazysympy import sympy
 
 from . import budget, surds
 from .critical import TOL, Implicit, shape, finite, is_real, numeric_sign

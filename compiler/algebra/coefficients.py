@@ -13,6 +13,7 @@ from fractions import Fraction
 import flint
 
 from .errors import AlgebraError, LimitError, NotRational
+from .lazysympy import is_sympy, sympy, sympy_symbol
 
 
 class Coefficients:
@@ -24,6 +25,21 @@ class Coefficients:
         self.one = self.ctx.constant(1)
         self.zero = self.ctx.constant(0)
         self.position = {s: i for i, s in enumerate(self.symbols)}
+        self._sympy_position = None
+
+    def sympy_symbols(self) -> list:
+        """The symbols as sympy Symbols (made on first use: see ``lazysympy``)."""
+        return [sympy_symbol(s) for s in self.symbols]
+
+    def index(self, symbol):
+        """The position of a symbol given as the ring's own or as its sympy
+        Symbol; None if it is not declared."""
+        i = self.position.get(symbol)
+        if i is None and is_sympy(symbol):
+            if self._sympy_position is None:
+                self._sympy_position = {s: i for i, s in enumerate(self.sympy_symbols())}
+            i = self._sympy_position.get(symbol)
+        return i
 
     @staticmethod
     def rational(value) -> flint.fmpq:
@@ -34,10 +50,8 @@ class Coefficients:
             return flint.fmpq(value)
         if isinstance(value, Fraction):
             return flint.fmpq(value.numerator, value.denominator)
-        if type(value).__module__.startswith("sympy"):
-            import sympy
-            if isinstance(value, sympy.Rational):
-                return flint.fmpq(int(value.p), int(value.q))
+        if is_sympy(value) and isinstance(value, sympy.Rational):
+            return flint.fmpq(int(value.p), int(value.q))
         raise AlgebraError(f"not an exact rational number: {value!r}")
 
     def from_expr(self, expr):
@@ -45,7 +59,6 @@ class Coefficients:
 
         Read from the expression tree with FLINT arithmetic: sympy's own
         field conversion costs milliseconds per value."""
-        import sympy
         if not isinstance(expr, sympy.Expr) or expr.has(sympy.Float):
             raise NotRational(f"not an exact rational function of the declared symbols: {expr}")
         try:
@@ -61,8 +74,8 @@ class Coefficients:
         """(numerator, denominator) of one node, or NotRational."""
         if e.is_Rational:
             return self.ctx.constant(flint.fmpq(int(e.p), int(e.q))), self.one
-        if e.is_Symbol and e in self.position:
-            return self.ctx.gen(self.position[e]), self.one
+        if e.is_Symbol and self.index(e) is not None:
+            return self.ctx.gen(self.index(e)), self.one
         if e.is_Add or e.is_Mul:
             num, den = self._read(e.args[0])
             for arg in e.args[1:]:

@@ -24,7 +24,7 @@ from typing import Sequence
 
 import flint
 import mpmath
-import sympy
+from .lazysympy import sympy
 
 from . import surds
 

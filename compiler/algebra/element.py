@@ -10,10 +10,13 @@ from __future__ import annotations
 
 import math
 from fractions import Fraction
+
+import flint
 from typing import Mapping
 
-from . import budget, printing, serial
+from . import budget, printing, serial, substitution
 from .errors import AlgebraError, LimitError
+from .lazysympy import sympy
 from .monomials import Mono
 
 #: Most terms (over classes and symbols together) a product may have.
@@ -215,16 +218,50 @@ class Element:
         """(monomial, coefficient) in normal-form order: the monomial as
         ((generator key, exponent), ...) in printing order (base classes
         last), the coefficient a sympy expression in the ring's symbols."""
-        import sympy
         a = self._fresh()
         R = a._ring
+        symbols = R.coeffs.sympy_symbols()
         out = []
         for m, c in a._sorted():
             s, x, y, P, Q = printing.scalar_parts(R.coeffs, c, a._den)
-            coef = sympy.Integer(s) * sympy.Rational(x, y) * printing.prim_expr(P, R.symbols) \
-                / printing.prim_expr(Q, R.symbols)
+            coef = sympy.Integer(s) * sympy.Rational(x, y) * printing.prim_expr(P, symbols) \
+                / printing.prim_expr(Q, symbols)
             out.append((R.monos.pairs(m), coef))
         return out
+
+    def monomials(self) -> list[tuple[tuple[str, int], ...]]:
+        """The monomials of ``terms``, without their coefficients."""
+        a = self._fresh()
+        return [a._ring.monos.pairs(m) for m, _ in a._sorted()]
+
+    def as_monomial(self):
+        """The monomial pairs if the value is one monomial with coefficient 1, else None."""
+        a = self._fresh()
+        one = a._ring.coeffs.one
+        if len(a._t) != 1 or a._den != one:
+            return None
+        (m, c), = a._t.items()
+        return a._ring.monos.pairs(m) if c == one else None
+
+    def as_symbol(self):
+        """The ring's symbol if the value is exactly one declared symbol, else None."""
+        a = self._fresh()
+        if not a._d.is_constant() or len(a._p) != 1 or a._p.coeffs()[0] != 1:
+            return None
+        exps = [int(e) for e in a._p.monoms()[0]]
+        nsym = len(a._ring.symbols)
+        if sum(exps) != 1 or not any(exps[:nsym]):
+            return None
+        return a._ring.symbols[exps.index(1)]
+
+    def rational(self):
+        """The Fraction the value is, when it is a number; else None."""
+        a = self._fresh()
+        if not a._p.is_constant() or not a._d.is_constant():
+            return None
+        p, d = (x.coeffs()[0] if x else flint.fmpq(0) for x in (a._p, a._d))
+        q = p / d
+        return Fraction(int(q.p), int(q.q))
 
     def fractions(self) -> list:
         """(monomial, numerator, denominator) in normal-form order: the
@@ -301,74 +338,13 @@ class Element:
         if not a.is_class_free():
             raise AlgebraError(f"{a.to_text()} contains classes")
         if not a._t:
-            import sympy
             return sympy.Integer(0)
         return a.terms()[0][1]
 
-    # ---------------------------------------------------------- substitute
     def substitute(self, mapping: Mapping) -> "Element":
-        """Replace generators (by key) and/or symbols (sympy Symbols) simultaneously."""
-        a = self._fresh()
-        R, C = a._ring, a._ring.coeffs
-        gen_vals: dict[int, Element] = {}
-        sym_vals: dict[int, Element] = {}
-        for k, v in mapping.items():
-            v = R._coerce(v)._fresh()
-            if isinstance(k, str):
-                gen_vals[R.generator_info(k).index] = v
-            elif k in C.position:
-                sym_vals[C.position[k]] = v
-            elif type(k).__name__ == "Symbol":
-                raise AlgebraError(f"{k} is not a declared symbol")
-            else:
-                raise AlgebraError(f"cannot substitute for {k!r}")
-        powers: dict[tuple[str, int, int], Element] = {}
-
-        def power(kind, i, e, base):
-            key = (kind, i, e)
-            if key not in powers:
-                powers[key] = base if e == 1 else power(kind, i, e - 1, base) * base
-            return powers[key]
-
-        def scalar(poly) -> Element:
-            if not sym_vals:
-                return R._make({(): poly}, C.one)
-            total = R.zero()
-            for exps, c in C.items(poly):
-                rest = [0] * len(exps)
-                term = R.scalar(c)
-                for j, e in enumerate(exps):
-                    if e and j in sym_vals:
-                        term = term * power("s", j, e, sym_vals[j])
-                    else:
-                        rest[j] = e
-                if any(rest):
-                    term = term * R._make({(): C.from_items({tuple(rest): Fraction(1)})}, C.one)
-                total = total + term
-            return total
-
-        den = scalar(R.layout.symbols_part(a._d))  # not a._den: that unpacks every term
-        if not den.is_class_free() or den.is_zero:
-            raise AlgebraError("the substitution makes a denominator vanish or contain classes")
-        # Terms sharing the powers of the replaced generators are summed first,
-        # so each product of replacements is built and multiplied once.
-        L = R.layout
-        if sym_vals or any(R.monos.gens[i].degree % 2 for i in gen_vals):
-            groups: dict[tuple, object] = {}
-            for m, c in a._t.items():
-                budget.check()
-                replaced = tuple((i, e) for i, e in m if i in gen_vals)
-                kept = R._make({tuple((i, e) for i, e in m if i not in gen_vals): C.one}, C.one)
-                groups[replaced] = groups.get(replaced, R.zero()) + scalar(c) * kept
-        else:  # split by FLINT divisions, no unpacking
-            groups = {f: Element(R, q, L.one) for f, q in L.split(a._p, list(gen_vals))}
-        result = R.zero()
-        for replaced, part in groups.items():
-            factor = R.one()
-            for i, e in replaced:
-                factor = factor * power("g", i, e, gen_vals[i])
-            result = result + factor * part
-        return result / den
+        """Replace generators (by key) and/or symbols (the ring's or their
+        sympy Symbols) simultaneously (``substitution``)."""
+        return substitution.substitute(self, mapping)
 
     # ------------------------------------------------------------ printing
     def _printed_terms(self):

@@ -16,7 +16,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Sequence
 
-import sympy
+from .lazysympy import sympy
 
 from . import budget, cells
 from . import extremize_report as report

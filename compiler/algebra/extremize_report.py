@@ -5,7 +5,7 @@ as the algorithm; each function takes the problem and says what it found.
 """
 from __future__ import annotations
 
-import sympy
+from .lazysympy import sympy
 
 from .sampling import describe_point, evaluate, spelled
 

@@ -17,6 +17,7 @@ from itertools import product
 
 from .element import Element
 from .errors import AlgebraError
+from .lazysympy import sympy
 
 #: Most ways of grouping the irreducible factors that are tried.
 MAX_CHOICES = 100_000
@@ -34,7 +35,6 @@ class Factorization:
 
 
 def _to_poly(value: Element):
-    import sympy
     keys = sorted(value.generator_keys())
     variables = {key: sympy.Dummy(f"g{i}") for i, key in enumerate(keys)}
     expr = sympy.Integer(0)
@@ -48,7 +48,6 @@ def _to_poly(value: Element):
 
 def _from_poly(ring, expr, variables, degree_of) -> tuple[Element, int]:
     """A sympy polynomial in the generator variables back into the ring, with its form degree."""
-    import sympy
     back = {v: key for key, v in variables.items()}
     gens = [v for v in variables.values() if expr.has(v)]
     if not gens:
@@ -71,7 +70,6 @@ def _from_poly(ring, expr, variables, degree_of) -> tuple[Element, int]:
 
 def factorize(value: Element, degrees: tuple[int, ...]) -> Factorization:
     """Write a homogeneous value as a product of factors of the given form degrees."""
-    import sympy
     ring = value.ring
     have = value.degrees()
     if len(have) != 1:

@@ -15,6 +15,7 @@ from fractions import Fraction
 from typing import Sequence
 
 from .graded import AlgebraError, Element, Ring
+from .lazysympy import sympy
 
 
 class FiberError(ValueError):
@@ -98,10 +99,10 @@ def _mono_text(pairs: Pairs) -> str:
 
 def single_generator(element: Element) -> str | None:
     """The key of an element that is exactly one generator, else None."""
-    terms = element.terms()
-    if len(terms) != 1 or len(terms[0][0]) != 1 or terms[0][0][0][1] != 1 or terms[0][1] != 1:
+    pairs = element.as_monomial()
+    if pairs is None or len(pairs) != 1 or pairs[0][1] != 1:
         return None
-    return terms[0][0][0][0]
+    return pairs[0][0]
 
 
 # -- surfaces -------------------------------------------------------------------
@@ -111,8 +112,7 @@ def surface_fiber(name: str, ring: Ring, group: int, genus, tangent_euler: Eleme
 
     The engine registers e(TS) (through the bundle TS) in the fiber's group.
     """
-    import sympy   # the genus may be a symbol; sympy reads its assumptions
-    genus = sympy.Integer(genus) if isinstance(genus, int) else genus
+    genus = sympy.Integer(genus) if isinstance(genus, int) else genus  # a symbol: sympy reads its assumptions
     if genus.is_integer is False or genus.is_negative:
         raise FiberError(f"the genus of {name} must be a nonnegative integer, not {genus}")
     key = single_generator(tangent_euler)

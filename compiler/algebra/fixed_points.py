@@ -13,11 +13,10 @@ from fractions import Fraction
 from functools import reduce
 from math import lcm
 
-import sympy
-
 from .fibers import CrossCheck, Fiber, FiberError, integrate as integrate_model
 from .graded import Element, Ring
-from .localization import FixedPoint, LocalizedFiber, linear_form
+from .lazysympy import is_sympy, sympy
+from .localization import FixedPoint, LocalizedFiber, is_integer, linear_form, nonzero
 
 
 def localized_fiber(name: str, ring: Ring, group: int, dimension: int, parameters,
@@ -61,11 +60,12 @@ def localized_fiber(name: str, ring: Ring, group: int, dimension: int, parameter
                           points=points, restrictions=table, identify=identify)
 
 
-def checked_order(fiber: str, label: str, order) -> sympy.Expr:
+def checked_order(fiber: str, label: str, order):
     """The orbifold order of a fixed point, provably a positive integer."""
     where = f"the order of fixed point {label} of {fiber}"
     order = _scalar(order, where)
-    if order.is_integer is not True or order.is_positive is not True:
+    positive = order > 0 if isinstance(order, Fraction) else order.is_positive
+    if is_integer(order) is not True or positive is not True:
         raise FiberError(f"{where} must be a positive integer, not {_text(order)}")
     return order
 
@@ -80,7 +80,7 @@ def checked_point(fiber: str, point: FixedPoint, rank: int, k: int) -> FixedPoin
         raise FiberError(f"{where} has {len(weights)} tangent weights; a fiber of dimension "
                          f"{2 * k} needs {k}")
     for w in weights:
-        if not any(c.is_zero is False for c in w):
+        if not any(nonzero(c) for c in w):
             raise FiberError(f"a tangent weight at {where} is zero (or not provably nonzero): "
                              f"{_form_text(w)}; fixed points must be isolated")
     return FixedPoint(point.name, weights, order)
@@ -172,7 +172,7 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
     ring, k = fiber.ring, fiber.dimension // 2
     checks = []
     for p in fiber.points:
-        bad = [c for w in p.weights for c in w if (p.order * c).is_integer is not True]
+        bad = [c for w in p.weights for c in w if is_integer(p.order * c) is not True]
         checks.append(CrossCheck(
             f"tangent weights at {p.name} are integral up to its order {fiber.text(p.order)}",
             not bad, f"order * weight is not provably an integer for the component(s) "
@@ -193,14 +193,16 @@ def consistency_checks(fiber: LocalizedFiber) -> list[CrossCheck]:
         if poles:
             continue
         degree = _constant(top)
-        scaled = sympy.cancel(degree * lcm_orders)
+        scaled = degree * lcm_orders
+        integral = scaled.rational()
+        integral = is_integer(integral if integral is not None else sympy.cancel(scaled.to_scalar()))
         checks.append(CrossCheck(
             f"the degree of {_power_text(info.key, k)} over {fiber.name} is integral up to the orders",
-            scaled.is_integer is True,
+            integral is True,
             f"degree {fiber.text(degree)}, lcm of the orders {fiber.text(lcm_orders)}, "
             f"product {fiber.text(scaled)}"
-            + ("" if scaled.is_integer is not None else " (not decided for all values of "
-                                                          "the symbols)")))
+            + ("" if integral is not None else " (not decided for all values of "
+                                               "the symbols)")))
     return checks
 
 
@@ -229,7 +231,7 @@ def model_agreement(fiber: LocalizedFiber, model: Fiber, classes: dict) -> Cross
                   for i in range(len(fiber.points))]
         total, poles = fiber.localize(values)
         found = _constant(total)
-        if poles or sympy.cancel(found - expected) != 0:
+        if poles or found != expected:
             return CrossCheck(f"localization over {fiber.name} agrees with {model.name}", False,
                               f"on {text}: ∫ over {model.name} = {fiber.text(expected)}, by "
                               + (f"localization poles {' + '.join(poles)}" if poles else
@@ -248,9 +250,9 @@ def _top_monomials(ring: Ring, keys: list, dimension: int) -> list:
             for rest in _top_monomials(ring, keys[1:], dimension - e * degree)]
 
 
-def _constant(x: Element) -> sympy.Expr:
+def _constant(x: Element) -> Element:
     """The part of ``x`` free of every class (degree 0)."""
-    return sum((c for pairs, c in x.terms() if not pairs), sympy.Integer(0))
+    return x.coefficient([])
 
 
 def _vanishing(fiber: LocalizedFiber, values, what: str) -> CrossCheck:
@@ -262,28 +264,28 @@ def _vanishing(fiber: LocalizedFiber, values, what: str) -> CrossCheck:
     return CrossCheck(f"∫ {what} over {fiber.name} vanishes (below its dimension)", ok, detail)
 
 
-def _scalar(value, what: str) -> sympy.Expr:
-    """A number or rational function of the symbols as a sympy expression."""
+def _scalar(value, what: str):
+    """A number as a Fraction, a rational function of the symbols as a sympy
+    expression (its sign and integrality then come from the assumptions)."""
     if isinstance(value, Element):
         if not value.is_class_free():
             raise FiberError(f"{what} must be a number, not {value.to_text()}")
-        return value.to_scalar()
+        number = value.rational()
+        return number if number is not None else value.to_scalar()
     if isinstance(value, bool):
         raise FiberError(f"{what} must be a number, not {value!r}")
-    if isinstance(value, int):
-        return sympy.Integer(value)
-    if isinstance(value, Fraction):
-        return sympy.Rational(value.numerator, value.denominator)
-    if isinstance(value, sympy.Expr) and not value.has(sympy.Float):
-        return value
+    if isinstance(value, (int, Fraction)):
+        return Fraction(value)
+    if is_sympy(value) and isinstance(value, sympy.Expr) and not value.has(sympy.Float):
+        return Fraction(int(value.p), int(value.q)) if value.is_Rational else value
     raise FiberError(f"{what} must be an exact number, not {value!r}")
 
 
-def _lcm(orders) -> sympy.Expr:
+def _lcm(orders):
     """lcm of numeric orders; with symbolic orders the product of the distinct
     ones (a multiple of the lcm, so the integrality check is weaker there)."""
-    if all(o.is_Integer for o in orders):
-        return sympy.Integer(lcm(*(int(o) for o in orders)))
+    if all(isinstance(o, Fraction) for o in orders):
+        return Fraction(lcm(*(o.numerator for o in orders)))
     return sympy.Mul(*set(orders))
 
 
@@ -295,6 +297,6 @@ def _form_text(form: tuple) -> str:
     return "(" + ", ".join(map(_text, form)) + ")"
 
 
-def _text(value: sympy.Expr) -> str:
+def _text(value) -> str:
     """For messages about data that never reached the ring: powers as ^."""
     return str(value).replace("**", "^")

@@ -292,7 +292,7 @@ class BundleValue:
             return BundleValue(0, one.ring.zero())
         if k > MAX_POWER:
             raise AlgebraError(f"{what}(V, {k}): k is limited to {MAX_POWER}")
-        pairs = k * (k + 1) // 2 * len(self.ch.terms()) ** 2
+        pairs = k * (k + 1) // 2 * len(self.ch.monomials()) ** 2
         if pairs > MAX_POWER_PAIRS:
             raise AlgebraError(f"{what}(V, {k}) would multiply about {pairs} term pairs (the limit "
                                f"is {MAX_POWER_PAIRS}); lower k or truncate")

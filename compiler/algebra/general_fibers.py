@@ -13,8 +13,6 @@ from __future__ import annotations
 from dataclasses import replace
 from typing import Sequence
 
-import sympy
-
 from .fibers import Fiber, FiberError, Pairs
 from .graded import AlgebraError, Element, Ring
 
@@ -59,7 +57,7 @@ def general_fiber(name: str, ring: Ring, group: int, dimension: int,
     fiber = Fiber(name, ring, group, dimension, {})
     standard = _top_standard_monomials(ring, group, dimension)
     seen: set[Pairs] = set()
-    rows, values = [], []
+    echelon = _Echelon(ring, len(standard))
     for i, (pairs, value) in enumerate(written):
         degree = fiber.fiber_degree(pairs)
         if degree != dimension:
@@ -69,26 +67,24 @@ def general_fiber(name: str, ring: Ring, group: int, dimension: int,
         if canonical in seen:
             raise FiberError(f"the integral of {_pairs_text(ring, pairs)} over {name} is given twice", i)
         seen.add(canonical)
-        row = _row(ring, group, dimension, pairs, standard)
-        implied = _implied(rows, values, row)
-        if implied is None:
-            rows.append(row)
-            values.append(value.to_scalar())
-        elif sympy.cancel(implied - value.to_scalar()) != 0:
+        rest, implied = echelon.reduce(_row(ring, group, pairs, standard))
+        if any(not c.is_zero for c in rest):
+            echelon.add(rest, value - implied)
+        elif implied != value:
             raise FiberError(
                 f"inconsistent integrals over {name}: {_pairs_text(ring, pairs)} is given "
                 f"{value.to_text()}, but the integrals before it (with the relations) give "
-                f"{ring.from_scalar_expr(implied).to_text()}", i)
-    return replace(fiber, integrals=_solve(ring, name, standard, rows, values))
+                f"{implied.to_text()}", i)
+    return replace(fiber, integrals=_solve(ring, name, standard, echelon))
 
 
 def _written(ring: Ring, group: int, name: str, i: int, monomial: Element, value: Element):
     """An integral as written: (monomial pairs, class-free value)."""
-    terms = monomial.terms()
-    if len(terms) != 1 or terms[0][1] != 1 or not terms[0][0]:
+    pairs = monomial.as_monomial()
+    if not pairs:
         raise FiberError(f"an integral over {name} must be of a monomial in its classes, "
                          f"not of {monomial.to_text()}", i)
-    pairs = tuple(terms[0][0])
+    pairs = tuple(pairs)
     foreign = [k for k, _ in pairs if ring.generator_info(k).group != group]
     if foreign:
         raise FiberError(f"{', '.join(foreign)} is not a class of the fiber {name}", i)
@@ -103,7 +99,7 @@ def _install(ring: Ring, group: int, name: str, dimension: int, relations) -> No
         if relation.is_zero:
             continue
         lead, coefficient = relation.leading_term()
-        if not any(ring.generator_info(k).group == group for k, _ in lead.terms()[0][0]):
+        if not any(ring.generator_info(k).group == group for k, _ in lead.monomials()[0]):
             raise FiberError(f"the relation {relation.to_text()} = 0 of {name} does not "
                              f"involve the fiber's classes")
         try:
@@ -113,46 +109,70 @@ def _install(ring: Ring, group: int, name: str, dimension: int, relations) -> No
     ring.vanish_above(group, dimension)
 
 
-def _row(ring: Ring, group: int, dimension: int, pairs: Pairs, standard: list[Pairs]) -> list:
+def _row(ring: Ring, group: int, pairs: Pairs, standard: list[Pairs]) -> list[Element]:
     """The normal form of a top-degree monomial as coefficients of the standard ones."""
     monomial = ring.one()
     for key, exp in pairs:
         monomial = monomial * _generator(ring, key) ** exp
-    row = [sympy.Integer(0)] * len(standard)
+    row = [ring.zero()] * len(standard)
     for fiber_pairs, coefficient in monomial.by_group(group):
         if tuple(fiber_pairs) in standard:
-            row[standard.index(tuple(fiber_pairs))] = coefficient.to_scalar()
+            row[standard.index(tuple(fiber_pairs))] = coefficient
     return row
 
 
-def _implied(rows: list, values: list, row: list):
-    """What the earlier equations say about ``row``'s integral (None: nothing)."""
-    if not rows:
-        return None if any(row) else sympy.Integer(0)
-    earlier = sympy.Matrix(rows).T
-    try:
-        weights, free = earlier.gauss_jordan_solve(sympy.Matrix(row))
-    except ValueError:  # not a combination of the earlier monomials
-        return None
-    weights = weights.subs({t: 0 for t in free})
-    return sympy.cancel(sum(w * v for w, v in zip(weights, values)))
+class _Echelon:
+    """The integrals given so far as linear equations in the standard ones,
+    in reduced row echelon form: rows ``(pivot, coefficients, value)`` of
+    class-free ring elements, sorted by pivot."""
+
+    def __init__(self, ring: Ring, width: int):
+        self.ring, self.width, self.rows = ring, width, []
+
+    def reduce(self, row: list):
+        """(what the equations leave of ``row``, the value they give the part they cover)."""
+        value = self.ring.zero()
+        for pivot, coefficients, given in self.rows:
+            c = row[pivot]
+            if not c.is_zero:
+                row = [a - c * b for a, b in zip(row, coefficients)]
+                value = value + c * given
+        return row, value
+
+    def add(self, rest: list, value: Element) -> None:
+        """A new equation, already reduced by the others."""
+        pivot = next(j for j, c in enumerate(rest) if not c.is_zero)
+        lead = rest[pivot]
+        rest, value = [c / lead for c in rest], value / lead
+        for k, (p, coefficients, given) in enumerate(self.rows):
+            c = coefficients[pivot]
+            if not c.is_zero:
+                self.rows[k] = (p, [a - c * b for a, b in zip(coefficients, rest)], given - c * value)
+        self.rows = sorted(self.rows + [(pivot, rest, value)], key=lambda r: r[0])
+
+    def undetermined(self) -> list[int]:
+        """The columns of the null space's basis vectors (one per free column,
+        in order) with a nonzero entry, in that order."""
+        pivots = {p: coefficients for p, coefficients, _ in self.rows}
+        out = []
+        for free in (j for j in range(self.width) if j not in pivots):
+            out += [j for j in range(self.width)
+                    if j == free or (j in pivots and not pivots[j][free].is_zero)]
+        return out
 
 
-def _solve(ring: Ring, name: str, standard: list[Pairs], rows: list, values: list) -> dict:
+def _solve(ring: Ring, name: str, standard: list[Pairs], echelon: _Echelon) -> dict:
     """The integral of every standard top monomial, or the error naming the undetermined ones."""
-    matrix = sympy.Matrix(rows) if rows else sympy.zeros(0, len(standard))
-    undetermined = [standard[j] for vector in matrix.nullspace()
-                    for j, entry in enumerate(vector) if sympy.cancel(entry) != 0]
+    undetermined = [standard[j] for j in echelon.undetermined()]
     if undetermined:
         shown = list(dict.fromkeys(_pairs_text(ring, p) for p in undetermined))
-        missing = len(standard) - len(rows)
+        missing = len(standard) - len(echelon.rows)
         if missing == len(shown):
             raise FiberError(f"the fiber {name} needs the integral of " + ", ".join(shown))
         raise FiberError(f"the fiber {name} needs the integral of {missing} more top-degree "
                          f"monomial{'s' if missing > 1 else ''}: the integrals given leave "
                          + ", ".join(shown) + " undetermined")
-    solution, _ = matrix.gauss_jordan_solve(sympy.Matrix(values))
-    return {p: ring.from_scalar_expr(sympy.cancel(v)) for p, v in zip(standard, solution)}
+    return {standard[p]: value for p, _, value in echelon.rows}
 
 
 def _pairs_text(ring: Ring, pairs: Pairs) -> str:
@@ -192,7 +212,7 @@ def _in_ring_order(ring: Ring, found: list[Pairs]) -> list[Pairs]:
     out = []
     for pairs in found:
         element = ring.monomial(pairs)
-        canonical = tuple(element.terms()[0][0])
+        canonical = tuple(element.monomials()[0])
         if canonical not in out:
             out.append(canonical)
     return out

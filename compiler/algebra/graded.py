@@ -6,7 +6,12 @@ common denominator per element (``coefficients``).  Every element is kept in
 normal form: degrees above ``truncate`` are dropped as they arise, the ring's
 rewrite rules and fiber-degree limits are applied eagerly (``rewriting``), so
 equality is exact comparison of the maps.  Sympy expressions appear only at
-the edges (input of scalars, ``terms()`` for callers that want them).
+the edges (input of scalars, ``terms()`` for callers that want them); the
+symbols are sympy Symbols or any keys with a ``name`` and a ``sympy()``
+method (the engine's, so that a build need not import sympy).
+
+Sympy-free queries: ``monomials()``, ``as_monomial()``, ``as_symbol()``,
+``rational()`` and ``fractions()`` (coefficients as FLINT quotients).
 
 Term API, for printers and callers: ``Element.terms()`` lists
 ``(monomial, coefficient)`` in normal-form order, the monomial as
@@ -25,6 +30,7 @@ from .coefficients import Coefficients
 from .element import Element
 from .errors import AlgebraError
 from .kernel import Layout
+from .lazysympy import is_sympy, sympy
 from .monomials import Generator, Mono, Monomials
 from .rewriting import Rewriter
 
@@ -98,7 +104,7 @@ class Ring:
         return Element(self, self.layout.ctx.constant(q), self.layout.one)
 
     def symbol(self, sym) -> "Element":
-        pos = self.coeffs.position.get(sym)
+        pos = self.coeffs.index(sym)
         if pos is None:
             raise AlgebraError(f"{sym} is not a declared symbol")
         return Element(self, self.layout.ctx.gen(pos), self.layout.one)
@@ -227,8 +233,4 @@ class Ring:
 
 def _is_sympy_expr(value) -> bool:
     """True for a sympy expression that is not a plain Rational, without importing sympy."""
-    module = type(value).__module__ or ""
-    if not module.startswith("sympy"):
-        return False
-    import sympy
-    return isinstance(value, sympy.Expr) and not isinstance(value, sympy.Rational)
+    return is_sympy(value) and isinstance(value, sympy.Expr) and not isinstance(value, sympy.Rational)

@@ -21,12 +21,12 @@ division (``identify``).  Declaring such a fiber and checking its data is
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-
-import sympy
+from fractions import Fraction
 
 from .errors import AlgebraError
 from .fibers import CrossCheck, Fiber, FiberError
 from .graded import Element, Ring
+from .lazysympy import sympy
 
 
 @dataclass(frozen=True)
@@ -36,7 +36,8 @@ class FixedPoint:
     A weight is a tuple of coefficients, one per equivariant parameter; with
     one parameter a bare number may stand for the 1-tuple.  Coefficients and
     the order are ints, Fractions, sympy expressions in the document's
-    symbols, or class-free elements.
+    symbols, or class-free elements; ``fixed_points.checked_point`` makes
+    each a Fraction, or a sympy expression when it holds symbols.
     """
 
     name: str
@@ -51,7 +52,7 @@ class LocalizedFiber(Fiber):
     parameters)."""
 
     parameters: tuple = ()      # generator keys of the equivariant parameters
-    points: tuple = ()          # FixedPoint with sympy coefficients and order
+    points: tuple = ()          # checked FixedPoints (Fraction or sympy numbers)
     restrictions: dict = field(default_factory=dict)   # class key -> Elements, one per point
     identify: dict = field(default_factory=dict)       # parameter key -> Element it stands for
 
@@ -103,7 +104,7 @@ class LocalizedFiber(Fiber):
 
     def text(self, value) -> str:
         """A number or rational function of the symbols, printed as values are."""
-        return self.ring.scalar(value).to_text()
+        return (value if isinstance(value, Element) else self.ring.scalar(value)).to_text()
 
     def contributions(self, values) -> str:
         """Each fixed point's term, for the report of a failed check."""
@@ -183,11 +184,11 @@ def _denominators(fiber: LocalizedFiber) -> tuple[list, list]:
         s = p.order
         point_forms = []
         for w in p.weights:
-            pivot = next(c for c in w if c.is_zero is False)
-            point_forms.append(tuple(sympy.cancel(c / pivot) for c in w))
+            pivot = next(c for c in w if nonzero(c))
+            point_forms.append(tuple(cancel(c / pivot) for c in w))
             s = s * pivot
         forms.append(point_forms)
-        scale.append(fiber.ring.scalar(sympy.cancel(s)))
+        scale.append(fiber.ring.scalar(cancel(s)))
     return forms, scale
 
 
@@ -207,14 +208,30 @@ def _divide(ring: Ring, parameters: tuple, x: Element, form: tuple) -> tuple[Ele
 def _powers(ring: Ring, x: Element, v: str) -> dict[int, Element]:
     """x = Σ_n x_n v^n with each x_n free of the generator v: {n: x_n}."""
     powers: dict[int, Element] = {}
-    for pairs, coefficient in x.terms():
+    for pairs in x.monomials():
         exponents = dict(pairs)
         n = exponents.pop(v, 0)
-        term = ring.scalar(coefficient)
+        term = x.coefficient(pairs)
         for key, e in exponents.items():
             term = term * ring.gen(key) ** e
         powers[n] = powers.get(n, ring.zero()) + term
     return powers
+
+
+# -- numbers of the data: Fractions, or sympy expressions when they hold symbols ----
+
+def nonzero(c) -> bool:
+    """Provably nonzero (for a symbolic value, by sympy's assumptions)."""
+    return c != 0 if isinstance(c, Fraction) else c.is_zero is False
+
+
+def is_integer(c):
+    """True, False, or None (a symbolic value not decided by the assumptions)."""
+    return c.denominator == 1 if isinstance(c, Fraction) else c.is_integer
+
+
+def cancel(c):
+    return c if isinstance(c, Fraction) else sympy.cancel(c)
 
 
 def linear_form(ring: Ring, parameters: tuple, form: tuple) -> Element:

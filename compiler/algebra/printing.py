@@ -9,6 +9,8 @@ from __future__ import annotations
 from fractions import Fraction
 from math import gcd, lcm
 
+from .lazysympy import sympy
+
 
 def poly_order(items):
     """(exponents, coefficient) pairs, highest total degree first, then lexicographic."""
@@ -84,8 +86,8 @@ def _scalar_text(a, b, P, Q, symbols, alone: bool = False) -> str:
 
 
 def prim_expr(prim, symbols):
-    """A primitive polynomial as a sympy expression (for ``Element.terms``)."""
-    import sympy
+    """A primitive polynomial as a sympy expression (for ``Element.terms``),
+    in ``symbols`` (sympy Symbols)."""
     return sympy.Add(*[sympy.Integer(c) * sympy.Mul(*[s ** e for s, e in zip(symbols, exps)])
                        for exps, c in prim])
 

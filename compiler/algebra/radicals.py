@@ -12,14 +12,14 @@ from math import gcd, lcm
 from typing import Sequence
 
 import flint
-import sympy
-from sympy.polys.polyutils import _sort_gens
 
+from .lazysympy import sympy
+
+from . import surds
 from .region import Region, Relation
 from .sampling import SymbolSpec
 from .signs import SignOracle
-from . import surds
-from .surds import Surds, factored
+from .surds import Surds, factored, sympy_order
 
 #: Above this many operations general simplification is skipped (it is slow).
 SIMPLIFY_LIMIT = 200
@@ -61,7 +61,7 @@ def _rational_forms(expr) -> list:
     """In lowest terms on FLINT: p/q expanded with q's leading coefficient 1,
     (N^2 + N + 1/3)/(N^2 + N + 1), and for a monomial q the expanded sum
     of terms, -9*Nc^4/(16*Nf^2) + 3*Nc^2/8 - 3/16."""
-    field = Surds(_sort_gens(expr.free_symbols))
+    field = Surds(sympy_order(expr.free_symbols))
     found = field.read(expr)
     if found is None:
         return []
@@ -136,7 +136,7 @@ def _flint_parts(expr, num, den, r):
     polynomials over the rationals in the symbols and r."""
     if any(p.base == r.base and p.exp != r.exp for x in (num, den) for p in x.atoms(sympy.Pow)):
         return None   # R^(3/2) and the like
-    field = Surds(_sort_gens(expr.free_symbols))
+    field = Surds(sympy_order(expr.free_symbols))
     radicand = field.parts(r.base, None)
     if radicand is None or not radicand[1].is_zero() or not radicand[2].is_one():
         return None

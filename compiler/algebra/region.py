@@ -17,7 +17,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Iterable, Sequence
 
-import sympy
+from .lazysympy import sympy
 
 from .sampling import SymbolSpec, rng_for, spelled
 

@@ -17,17 +17,37 @@ from dataclasses import dataclass
 from fractions import Fraction
 from typing import Iterable
 
-import sympy
+from .lazysympy import sympy
 
 ASSUMPTIONS = ("integer", "positive", "nonnegative", "real", "nonzero")
 _OPS = (">=", ">", "<=", "<")
+
+
+class _SymbolField:
+    """The ``symbol`` field: a sympy Symbol, or the name it is made from on
+    first read (with the assumptions the declaration gives), so declaring a
+    symbol does not import sympy."""
+
+    def __set_name__(self, owner, name):
+        self.slot = "_" + name
+
+    def __get__(self, spec, owner=None):
+        if spec is None:
+            raise AttributeError(self.slot)  # the field has no default
+        value = spec.__dict__[self.slot]
+        if isinstance(value, str):
+            value = spec.__dict__[self.slot] = spec._sympy_symbol()
+        return value
+
+    def __set__(self, spec, value):
+        spec.__dict__[self.slot] = value
 
 
 @dataclass(frozen=True)
 class SymbolSpec:
     """A declared symbol: a real number, maybe integer, in an interval."""
 
-    symbol: sympy.Symbol
+    symbol: sympy.Symbol = _SymbolField()
     integer: bool = False
     lower: Fraction | None = None
     upper: Fraction | None = None
@@ -37,12 +57,13 @@ class SymbolSpec:
 
     @property
     def name(self) -> str:
-        return self.symbol.name
+        value = self.__dict__["_symbol"]
+        return value if isinstance(value, str) else value.name
 
     @classmethod
     def declare(cls, name: str, assumptions: Iterable[str] = (),
                 bounds: Iterable[tuple[str, Fraction]] = ()) -> "SymbolSpec":
-        """Build the spec and a sympy Symbol carrying matching assumptions.
+        """Build the spec; its sympy Symbol, with matching assumptions, is made on first use.
 
         Raises ValueError for an unknown assumption or operator and for a
         declaration no number satisfies.
@@ -80,10 +101,9 @@ class SymbolSpec:
                 raise_lower(value, op == ">")
             else:
                 cap_upper(value, op == "<")
-        spec = cls(sympy.Symbol(name), integer, lo, hi, lo_strict, hi_strict,
-                   "nonzero" in assumptions)
+        spec = cls(name, integer, lo, hi, lo_strict, hi_strict, "nonzero" in assumptions)
         spec._require_satisfiable()
-        return dataclasses.replace(spec, symbol=spec._sympy_symbol())
+        return spec
 
     # -- the admissible set -------------------------------------------------
 
@@ -165,7 +185,7 @@ class SymbolSpec:
 
     def admits_zero_by_bounds(self) -> bool:
         """Whether 0 lies in the interval (so ``nonzero`` says something)."""
-        return SymbolSpec(self.symbol, False, self.lower, self.upper,
+        return SymbolSpec(self.name, False, self.lower, self.upper,
                           self.lower_strict, self.upper_strict).admits(0)
 
     # -- drawing values -----------------------------------------------------

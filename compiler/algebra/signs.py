@@ -22,11 +22,10 @@ from __future__ import annotations
 
 import itertools
 
-import sympy
+from .lazysympy import sympy
 
-from . import budget
+from . import budget, surds
 from .region import Region
-from . import surds
 from .surds import Surds
 
 _TESTS = {

@@ -15,9 +15,8 @@ from math import gcd, lcm
 from typing import Sequence
 
 import flint
-import sympy
-from sympy.core.mul import _keep_coeff
-from sympy.polys.polyutils import _sort_gens
+
+from .lazysympy import sympy
 
 Parts = tuple  # (a, b, d): FLINT polynomials, the value (a + b r) / d
 
@@ -119,7 +118,7 @@ def factor_list(expr) -> tuple[sympy.Rational, list] | None:
     such polynomial."""
     if expr.is_Rational:
         return expr, []
-    surds = Surds(_sort_gens(expr.free_symbols))
+    surds = Surds(sympy_order(expr.free_symbols))
     parts = surds.parts(expr, None)
     if parts is None or not parts[2].is_constant():
         return None
@@ -129,12 +128,20 @@ def factor_list(expr) -> tuple[sympy.Rational, list] | None:
 def factored(expr) -> sympy.Expr | None:
     """``sympy.factor(expr)`` for a rational function over QQ, from FLINT's
     factorizations of its numerator and denominator; None for anything else."""
-    surds = Surds(_sort_gens(expr.free_symbols))
+    surds = Surds(sympy_order(expr.free_symbols))
     parts = surds.parts(expr, None)
     if parts is None:
         return None
     (cn, fn), (cd, fd) = surds.factor_list(parts[0]), surds.factor_list(parts[2])
+    from sympy.core.mul import _keep_coeff   # how sympy.factor joins the coefficient
     return _keep_coeff(cn / cd, sympy.Mul(*[f ** e for f, e in fn], *[f ** -e for f, e in fd]))
+
+
+def sympy_order(symbols) -> list:
+    """``symbols`` in sympy's order of generators, so that leading terms and
+    leading coefficients are the ones sympy's polynomials have."""
+    from sympy.polys.polyutils import _sort_gens
+    return _sort_gens(symbols)
 
 
 def _plus(x: Parts, y: Parts) -> Parts:

@@ -38,7 +38,7 @@ class SymbolicRank:
 
     name: str
     real: bool
-    symbol: object  # the declared sympy Symbol N
+    symbol: object  # the ring's symbol N
 
 
 def key(name: str, k: int) -> str:

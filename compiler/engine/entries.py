@@ -8,9 +8,8 @@ from __future__ import annotations
 
 import dataclasses
 
-import sympy
-
 from ..algebra.graded import Element
+from ..algebra.lazysympy import sympy
 from ..expressions import Missing
 from ..results import STATUSES, CheckResult, PlotData, TableData, ValueRecord, valid_tree
 
@@ -121,17 +120,18 @@ def expr_to_data(expr: sympy.Expr):
     raise ValueError(f"cannot store {type(expr).__name__}")
 
 
-_BUILDERS = {"add": sympy.Add, "mul": sympy.Mul, "pow": sympy.Pow}
+_BUILDERS = {"add": "Add", "mul": "Mul", "pow": "Pow"}  # sympy class names
 
 
-def expr_from_data(data, symbols: dict) -> sympy.Expr:
+def expr_from_data(data, specs: dict) -> sympy.Expr:
+    """The sympy value of ``expr_to_data`` output; ``specs`` gives the declared symbols by name."""
     if isinstance(data, str):
         num, _, den = data.partition("/")
         return sympy.Rational(int(num), int(den or 1))
     (kind, args), = data.items()
     if kind == "symbol":
-        return symbols[args]
-    return _BUILDERS[kind](*[expr_from_data(a, symbols) for a in args])
+        return specs[args].symbol
+    return getattr(sympy, _BUILDERS[kind])(*[expr_from_data(a, specs) for a in args])
 
 
 def value_to_data(value) -> dict:
@@ -143,12 +143,12 @@ def value_to_data(value) -> dict:
     return {"expr": expr_to_data(value)}
 
 
-def value_from_data(ring, name: str, line: int, data, symbols: dict):
+def value_from_data(ring, name: str, line: int, data, specs: dict):
     (kind, payload), = _dict(data).items()
     if kind == "missing":
         return Missing(name, line)
     if kind == "element":
         return ring.from_data(payload)
     if kind == "expr":
-        return expr_from_data(payload, symbols)
+        return expr_from_data(payload, specs)
     raise ValueError(f"unknown cached value kind {kind!r}")

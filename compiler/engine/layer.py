@@ -61,8 +61,7 @@ class CacheLayer:
             outputs, keys = entry["outputs"], entry["keys"]
             if not isinstance(outputs, dict) or set(outputs) != set(step.outputs):
                 return False
-            symbols = {spec.symbol.name: spec.symbol for spec in scope.specs.values()}
-            values = {name: value_from_data(scope.ring, name, step.line, data, symbols)
+            values = {name: value_from_data(scope.ring, name, step.line, data, scope.specs)
                       for name, data in outputs.items()}
             exact_to = {name: precision(entry["exact_to"][name]) for name in outputs}
             if (not isinstance(keys, dict) or set(keys) != set(outputs)

@@ -22,7 +22,6 @@ from typing import Callable, Optional
 
 from .. import __version__, names as names_pass, preambles
 from ..algebra import budget, fibers as fibers_mod
-from ..algebra.extremize import ExtremizeError
 from ..algebra.graded import AlgebraError
 from ..document import Block, ProsePart, read_document
 from ..errors import DocumentError, Location, Problem
@@ -273,7 +272,7 @@ class Run:
             if exc.limit != self.step_limit:  # the build's own limit: the rest cannot run
                 self.out_of_time = s.line
             self._step_error(step, s, Problem(where, f"{exc.limit} exceeded"))
-        except (AlgebraError, ExtremizeError, fibers_mod.FiberError, ValueError, ZeroDivisionError) as exc:
+        except (AlgebraError, fibers_mod.FiberError, ValueError, ZeroDivisionError) as exc:
             self._step_error(step, s, Problem(where, str(exc)))
         except RecursionError:
             self._step_error(step, s, Problem(where, "expression too deeply nested"))

@@ -13,14 +13,14 @@ from dataclasses import dataclass
 from fractions import Fraction
 from pathlib import Path
 
-import sympy
+from ..algebra.lazysympy import is_sympy
 
 from .. import names as names_pass, notation
 from ..algebra import bundles as bundles_mod
 from ..algebra.errors import AlgebraError
 from ..algebra.graded import Element, Ring
 from ..algebra.sampling import SymbolSpec, describe_point
-from ..checks import Context
+from ..checks import Context, sympy_point
 from ..errors import DocumentError, Location
 from ..expressions import Evaluator, Missing, MissingValue, Scope, Value, from_expr, rational_value
 from ..precision import Known, Precision, unknown_above
@@ -29,7 +29,7 @@ from ..presentation import display_tree
 from ..statements import nodes as n
 from .cache import digest
 from .entries import value_to_data
-from .symbols import document_region
+from .symbols import DeclaredSymbol, document_region
 
 #: Most points a ``for`` list may expand to (every combination is computed).
 MAX_POINTS = 10_000
@@ -59,9 +59,10 @@ class DocScope(Scope):
         self.conventions = _conventions(path, document, statements, overrides)
         #: The declared symbols and the relations between them.
         self.region = document_region(path, statements)
-        self.specs: dict[sympy.Symbol, SymbolSpec] = {s.symbol: s for s in self.region.specs}
-        self.symbols_by_name: dict[str, SymbolSpec] = {s.name: s for s in self.region.specs}
-        self.ring = Ring(list(self.specs), document.front.truncate)
+        self.specs: dict[str, SymbolSpec] = {s.name: s for s in self.region.specs}
+        #: The symbols as the ring keys them (by name: no sympy).
+        self.symbols = {name: DeclaredSymbol(name, spec) for name, spec in self.specs.items()}
+        self.ring = Ring(list(self.symbols.values()), document.front.truncate)
         self.bundles = bundles_mod.BundleTable(self.ring)
         self.groups = 0
         self.bindings: dict[str, Binding] = {}
@@ -93,7 +94,7 @@ class DocScope(Scope):
         if isinstance(binding.value, Missing):
             raise MissingValue(Location(self.path, line, column), name, binding.value.line)
         if binding.kind == "symbol":
-            return "symbol", self.ring.symbol(binding.value.symbol)
+            return "symbol", self.ring.symbol(binding.value)
         return binding.kind, binding.value
 
     def exact_to(self, name: str) -> Precision:
@@ -117,7 +118,7 @@ class DocScope(Scope):
         if kind in ("value", "convention", "class", "symbol") and not isinstance(value, Missing):
             computed = shown is None
             if computed:
-                shown = record(name, self.ring.symbol(value.symbol) if kind == "symbol" else value,
+                shown = record(name, self.ring.symbol(value) if kind == "symbol" else value,
                                unknown_above(exact_to, self.ring.truncate))
             self.shown += len(shown.text)
             if computed and self.shown > MAX_SHOWN:
@@ -144,7 +145,7 @@ class DocScope(Scope):
 
     def output(self, step, name: str, value: Value, line: int, exact_to: Precision = None) -> None:
         """Bind an output (exact up to degree ``exact_to``) and show it in the step."""
-        if isinstance(value, sympy.Expr):
+        if is_sympy(value):
             value = from_expr(self.ring, value)
         self.bind(name, "value", value, line, exact_to=exact_to)
         step.values.append(self.history[name][-1][1])
@@ -194,7 +195,7 @@ class DocScope(Scope):
         """Every combination of a ``for`` list, checked against assumptions."""
         axes = []
         for c in clauses:
-            spec = self.symbols_by_name[c.name]
+            spec = self.specs[c.name]
             if c.range is not None:
                 low, high = c.range
                 if high - low >= MAX_POINTS:
@@ -211,16 +212,16 @@ class DocScope(Scope):
                 if not spec.admits(v):
                     raise self.fail(c, f"{c.name} = {fraction_text(v)} breaks its declaration "
                                        f"({spec.describe()})")
-            axes.append([(spec.symbol, sympy.Rational(v.numerator, v.denominator)) for v in values])
+            axes.append([(self.symbols[c.name], v) for v in values])
         total = math.prod(len(axis) for axis in axes)
         if total > MAX_POINTS:
             raise self.fail(clauses[0], f"the for ranges give {total} points; "
                                         f"at most {MAX_POINTS} are checked")
         points = [dict(combo) for combo in itertools.product(*axes)] if axes else []
-        for point in points:
-            broken = self.region.violations(point)
+        for point in points if self.region.relations else ():  # else each value was checked above
+            broken = self.region.violations(sympy_point(point))
             try:
-                self.region.fixing(point)
+                self.region.fixing(sympy_point(point))
             except ValueError as exc:  # it leaves another symbol no value
                 broken.append(f"at {describe_point(point)}, {exc}")
             if broken:

@@ -10,10 +10,11 @@ a ``for`` point lies inside it.
 from __future__ import annotations
 
 import operator
+from dataclasses import dataclass, field
 
-import sympy
-
+from ..algebra.lazysympy import sympy
 from ..algebra.region import Region, build_region
+from ..algebra.sampling import SymbolSpec
 from ..errors import DocumentError, Location
 from ..statements import clause_nodes as cn, expr_nodes as en, nodes as n
 
@@ -33,6 +34,23 @@ def linear_form(node) -> sympy.Expr:
         return _LINEAR[node.op](linear_form(node.left), linear_form(node.right))
     raise DocumentError(Location("", node.line, node.column),
                         "a relation between symbols is linear in them")
+
+
+@dataclass(frozen=True)
+class DeclaredSymbol:
+    """A declared symbol as the ring, the scope and the checks key it: equal
+    by name, so nothing needs sympy until an edge (radicals, solving,
+    series, sampling) asks for ``sympy()``, the Symbol with the declared
+    assumptions."""
+
+    name: str
+    spec: SymbolSpec = field(compare=False, repr=False)
+
+    def __str__(self) -> str:
+        return self.name
+
+    def sympy(self):
+        return self.spec.symbol
 
 
 def _latest(names, relation: cn.Relation) -> str:
@@ -59,6 +77,9 @@ def document_region(path: str, statements) -> Region:
             entries.append((str(name), s.assumptions, bounds, relations))
             sites.append((s, mine))
     try:
+        if not any(relations for *_, relations in entries):  # no sympy needed
+            return Region(tuple(SymbolSpec.declare(name, assumptions, bounds)
+                                for name, assumptions, bounds, _ in entries))
         return build_region(entries)
     except ValueError as exc:
         raise _located(path, entries, sites, exc) from None

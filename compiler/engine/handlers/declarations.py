@@ -20,8 +20,8 @@ from .common import element, relation
 
 def _symbol(scope, s: n.SymbolDecl, step: Step) -> None:
     for name in s.names:
-        scope.bind(name, "symbol", scope.symbols_by_name[name], s.line)
-    step.summary = ", ".join(s.names) + ": " + scope.symbols_by_name[s.names[0]].describe()
+        scope.bind(name, "symbol", scope.symbols[name], s.line)
+    step.summary = ", ".join(s.names) + ": " + scope.specs[s.names[0]].describe()
 
 
 def _convention(scope, s: n.ConventionDecl, step: Step) -> None:
@@ -44,13 +44,13 @@ def _bundle(scope, s: n.BundleDecl, step: Step) -> None:
 
 def _symbolic_bundle(scope, s: n.BundleDecl, step: Step) -> None:
     """``bundle V: complex, rank N``: the rank symbol must be a nonnegative integer."""
-    spec = scope.symbols_by_name[s.rank]
+    spec = scope.specs[s.rank]
     nonnegative = spec.lower is not None and (spec.lower >= 0 or (spec.lower_strict and spec.lower > -1))
     if not (spec.integer and nonnegative):
         raise scope.fail(s.rank, f"the rank {s.rank} must be a symbol declared integer and "
                             f"nonnegative, as in 'symbol {s.rank}: integer, positive'")
     for name in s.names:
-        scope.bundles.declare_symbolic(name, s.bundle_kind, spec.symbol)
+        scope.bundles.declare_symbolic(name, s.bundle_kind, scope.symbols[s.rank])
         scope.bind(name, "bundle", name, s.line)
     plural = "s" if len(s.names) > 1 else ""
     step.summary = (f"{', '.join(s.names)}: {s.bundle_kind} bundle{plural}, rank {s.rank}; "
@@ -215,8 +215,7 @@ def _fixed_point(scope, s: n.FixedPointFiber, p: cn.FixedPointDecl) -> FixedPoin
     """A point's order, checked first (a weight may divide by it), and its
     weights as linear forms in the rotation parameters."""
     try:
-        order = fixed_points.checked_order(
-            s.name, p.label, 1 if p.order is None else as_expr(scope.evaluate(p.order)))
+        order = fixed_points.checked_order(s.name, p.label, 1 if p.order is None else scope.evaluate(p.order))
     except fibers_mod.FiberError as err:
         raise scope.fail(p.order or p, str(err)) from None
     weights = []
@@ -227,7 +226,7 @@ def _fixed_point(scope, s: n.FixedPointFiber, p: cn.FixedPointDecl) -> FixedPoin
                     scope.ring.zero()):
             raise scope.fail(node, f"a tangent weight is a combination of the rotation "
                                    f"parameters {', '.join(s.parameters)}, not {w.to_text()}")
-        weights.append(tuple(as_expr(c) for c in coefficients))
+        weights.append(coefficients)
     try:
         return fixed_points.checked_point(s.name, FixedPoint(p.label, tuple(weights), order),
                                           len(s.parameters), s.dimension // 2)

@@ -3,10 +3,8 @@ from __future__ import annotations
 
 from fractions import Fraction
 
-import sympy
-
-from ... import notation
 from ...algebra import budget
+from ...algebra.lazysympy import sympy
 from ...checks import free_symbols, show, substitute
 from ...expressions import as_expr, is_class_free
 from ...precision import unknown_above
@@ -26,9 +24,9 @@ def _label(node) -> str:
 def _show(scope, s: n.Show, step: Step) -> None:
     symbol = None
     if s.symbol is not None:
-        if s.symbol not in scope.symbols_by_name:
+        if s.symbol not in scope.specs:
             raise scope.fail(s.symbol, f"'{s.symbol}' is not a declared symbol")
-        symbol = scope.symbols_by_name[s.symbol].symbol
+        symbol = scope.specs[s.symbol].symbol
     for node in s.exprs:
         known = scope.known(node)
         try:
@@ -47,16 +45,16 @@ def _table(scope, s: n.Table, step: Step) -> None:
     for point in points or [{}]:
         budget.check()
         cells = [substitute(scope.ring, v, point) for v in values]
-        coords = [point[scope.symbols_by_name[p].symbol] for p in params]
+        coords = [scope.ring.scalar(point[scope.symbols[p]]) for p in params]
         rows.append([display_tree(c) for c in coords] + [record("", c).tree for c in cells])
-        text_rows.append([notation.text(c) for c in coords] + [show(c) for c in cells])
+        text_rows.append([show(c) for c in coords + cells])
     names = params + [_label(node) for node in s.exprs]
     step.table = TableData(names=names, cells=rows, text_rows=text_rows)
 
 
 def _plot(scope, s: n.Plot, step: Step) -> None:
     values = [scope.read(node) for node in s.exprs]
-    var = scope.symbols_by_name[s.variable]
+    var = scope.specs[s.variable]
     points = scope.points(s.clauses)
     if len(points) > 1:
         raise scope.fail(s, "plot takes one value for each parameter after for")
@@ -72,7 +70,7 @@ def _plot(scope, s: n.Plot, step: Step) -> None:
         if not is_class_free(value):
             raise scope.fail(node, "plot draws class-free values only")
         expr = as_expr(value)
-        left = free_symbols(value) - {var.symbol}
+        left = {x for x in free_symbols(value) if x.name != var.name}
         if left:
             raise scope.fail(node, "give values for " + ", ".join(sorted(x.name for x in left))
                                    + " after for")
@@ -84,7 +82,7 @@ def _plot(scope, s: n.Plot, step: Step) -> None:
                 samples.append((float(x), float(y)))
         curves[_label(node) or f"curve {len(curves) + 1}"] = samples
     step.plot = PlotData(variable=s.variable, low=fraction_text(low), high=fraction_text(high),
-                         fixed={sym.name: notation.text(v) for sym, v in fixed.items()}, curves=curves)
+                         fixed={sym.name: fraction_text(v) for sym, v in fixed.items()}, curves=curves)
 
 
 HANDLERS = {n.Show: _show, n.Table: _table, n.Plot: _plot}

@@ -25,11 +25,11 @@ def _group(scope, s: n.GaugeDecl) -> tuple[groups.Group, object]:
         groups.group(s.family)  # an unknown name gets its suggestion first
         raise GroupError(f"{s.family} has a fixed rank; a symbolic rank ({s.rank_name}) "
                          f"exists for SU(N), SO(N) and Sp(N) only")
-    spec = scope.symbols_by_name[s.rank_name]
+    spec = scope.specs[s.rank_name]
     if not spec.integer:
         raise GroupError(f"the rank {s.rank_name} must be a symbol declared integer "
                          f"(symbol {s.rank_name}: integer, {s.rank_name} >= 2)")
-    return groups.group(s.family), scope.ring.symbol(spec.symbol)
+    return groups.group(s.family), scope.ring.symbol(scope.symbols[s.rank_name])
 
 
 def _gauge(scope, s: n.GaugeDecl, step: Step) -> None:

@@ -5,12 +5,9 @@ depends on nothing else, so the cache layer may replay it.
 """
 from __future__ import annotations
 
-import sympy
-
 from ... import notation
 from ...algebra import fibers as fibers_mod, localization
-from ...algebra.extremize import ExtremizeError, extremize
-from ...algebra.radicals import tidy
+from ...algebra.lazysympy import sympy, sympy_symbol
 from ...algebra.graded import Element
 from ...checks import free_symbols
 from ...expressions import as_expr, is_class_free
@@ -33,14 +30,14 @@ def _substitute(scope, s: n.Substitute, step: Step) -> None:
     target, exact_to = known.value, known.exact_to
     whole = target if isinstance(target, Element) else None
     present = whole.generator_keys() if whole is not None else set()
-    symbols = free_symbols(target)
+    names = {symbol.name for symbol in free_symbols(target)}  # the ring's symbols or sympy's
     mapping = {}
     for pair in s.pairs:
         lhs = element(scope, pair.lhs, "substitute")
         key = _replaced(scope, pair.lhs, lhs)
         if key in mapping:
             raise scope.fail(pair, f"{lhs.to_text()} is substituted twice")
-        if key not in present and key not in symbols:
+        if key not in present if isinstance(key, str) else key.name not in names:
             raise scope.fail(pair.lhs, f"{lhs.to_text()} does not occur in the expression (a typo?)")
         degree = lhs.degrees()[0]
         replacement = scope.evaluator.read(pair.rhs, degree)
@@ -59,9 +56,10 @@ def _substitute(scope, s: n.Substitute, step: Step) -> None:
         return
     if all(isinstance(v, Element) for v in mapping.values()) and whole is not None:
         result = whole.substitute(mapping)
-    elif is_class_free(target) and all(isinstance(k, sympy.Symbol) for k in mapping):
+    elif is_class_free(target) and not any(isinstance(k, str) for k in mapping):
         # An irrational value (an extremum) put into a class-free expression.
-        exact = as_expr(target).subs({k: as_expr(v) for k, v in mapping.items()})
+        from ...algebra.radicals import tidy  # sympy: imported for such values only
+        exact = as_expr(target).subs({sympy_symbol(k): as_expr(v) for k, v in mapping.items()})
         result = tidy(exact, list(scope.specs.values()))
         if result.has(sympy.I):
             raise scope.fail(s, f"the substitution makes the value complex: {notation.text(result)}")
@@ -76,9 +74,9 @@ def _replaced(scope, node, value: Element):
     key = fibers_mod.single_generator(value)
     if key is not None:
         return key
-    terms = value.terms()
-    if len(terms) == 1 and not terms[0][0] and terms[0][1].is_Symbol:
-        return terms[0][1]
+    symbol = value.as_symbol()
+    if symbol is not None:
+        return symbol
     raise scope.fail(node, f"the left side {value.to_text()} is not a single class or symbol")
 
 
@@ -170,7 +168,7 @@ def _coefficients(scope, s: n.Coefficients, step: Step) -> None:
         rest = rest - coefficient * monomial
         scope.output(step, name, coefficient, s.line)
     step.remainder = record("remainder", rest, unknown_above(known.exact_to, scope.ring.truncate))
-    terms = len(rest.terms())
+    terms = len(rest.monomials())
     step.checks.append(CheckResult(
         "every monomial read" if rest.is_zero else
         f"the rest has {terms} term{'s' if terms != 1 else ''} (shown as remainder)", "proven"))
@@ -193,20 +191,21 @@ def _written_monomial(scope, node) -> list:
             raise scope.fail(node.right, "a monomial has positive exponents")
         return [(key, e * k) for key, e in _written_monomial(scope, node.left)]
     value = element(scope, node, "coefficients")
-    terms = value.terms()
-    if len(terms) == 1 and terms[0][1] == 1 and len(terms[0][0]) == 1:
-        return list(terms[0][0])  # a class, or a power of one (p1 of a plane is e^2)
+    pairs = value.as_monomial()
+    if pairs is not None and len(pairs) == 1:
+        return list(pairs)  # a class, or a power of one (p1 of a plane is e^2)
     raise scope.fail(node, f"{value.to_text()} is not a single class: coefficients reads monomials "
                            "in the classes of the normal form")
 
 
 def _extremize(scope, s: n.Extremize, step: Step) -> None:
+    from ...algebra.extremize import ExtremizeError, extremize  # sympy's solver: imported when needed
     f = scope.read(s.target)
     if not is_class_free(f):
         classes = ", ".join(sorted(f.generator_keys()))
         raise scope.fail(s.target, f"{s.mode} needs a class-free expression; this one still contains "
                                    f"{classes} (degrees {', '.join(map(str, f.degrees()))})")
-    variables = [(scope.symbols_by_name[v.name].symbol,
+    variables = [(scope.specs[v.name].symbol,
                   None if v.interval is None else (v.interval.low, v.interval.high))
                  for v in s.variables]
     try:
