@@ -26,6 +26,7 @@ from .lazysympy import sympy
 
 from . import budget, surds
 from .region import Region
+from .sampling import spelled
 from .surds import Surds
 
 _TESTS = {
@@ -106,7 +107,7 @@ class SignOracle:
         (cn, fn), (cd, fd) = (surds.factor_list(x) or sympy.factor_list(x) for x in (num, den))
         coeff = cn / cd
         if not coeff.is_real:
-            raise ValueError(f"complex coefficient {coeff}")
+            raise ValueError(f"complex coefficient {spelled(coeff)}")
         total = 1 if coeff > 0 else -1
         for base, mult in fn + fd:
             if self.truth(">=", base):
