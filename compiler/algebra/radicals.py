@@ -3,7 +3,10 @@
 Extremization, checks and expressions produce values such as
 ``sqrt(4*N**2*(g - 1)**2 + ...)/(...)``; the forms shown to the author pull
 square factors out of radicals (using the declared signs) and write a single
-radical as ``K (A + B sqrt(R)) / D``.
+radical as ``K (A + B sqrt(R)) / D``.  The arithmetic behind those forms
+runs on FLINT polynomials (``surds.py``), normalized as sympy normalizes
+(gcds, factor lists), so the forms are the ones sympy would write, found
+without sympy's general simplification.
 """
 from __future__ import annotations
 
