@@ -13,7 +13,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from fractions import Fraction
 from typing import Sequence
 
 from .lazysympy import sympy
@@ -23,7 +22,7 @@ from . import extremize_report as report
 from .critical import (TOL, Closed, FamilyError, Implicit, RationalFunction, critical_components,
                        finite, is_real, numeric_sign, numeric_value, split_content)
 from .radicals import tidy_with
-from .region import Region, Relation
+from .region import Region, Relation, variable_domain
 from .sampling import SymbolSpec, describe_point, evaluate
 from .signs import SignOracle
 
@@ -92,7 +91,10 @@ class _Problem:
         if len(set(self.vars)) != len(self.vars):
             raise ExtremizeError("a variable is listed twice")
         by_symbol = {s.symbol: s for s in specs}
-        self.domains = [_domain(v, interval, by_symbol.get(v)) for v, interval in variables]
+        try:
+            self.domains = [variable_domain(v, interval, by_symbol.get(v)) for v, interval in variables]
+        except ValueError as exc:
+            raise ExtremizeError(str(exc)) from None
         for v in self.vars:
             if v.is_integer:
                 raise ExtremizeError(f"cannot {mode} over the integer symbol {v}")
@@ -393,22 +395,3 @@ class _Problem:
                        f"or the closed forms are singular, e.g. {describe_point(skipped[0])})")
         return coords, None, reason, used
 
-
-# -- helpers ------------------------------------------------------------------
-
-def _domain(v, interval, spec):
-    """(lo, lo_strict, hi, hi_strict) from a range and the variable's declaration."""
-    lo = hi = None
-    lo_strict = hi_strict = False
-    if spec is not None:
-        lo, lo_strict, hi, hi_strict = spec.lower, spec.lower_strict, spec.upper, spec.upper_strict
-    if interval is not None:
-        a, b = (None if x is None else Fraction(str(x)) for x in interval)
-        if a is not None and b is not None and a >= b:
-            raise ExtremizeError(f"the range ({a}, {b}) for {v} is empty")
-        if a is not None and (lo is None or a >= lo):
-            lo, lo_strict = a, True
-        if b is not None and (hi is None or b <= hi):
-            hi, hi_strict = b, True
-    to_sympy = (lambda x: None if x is None else sympy.Rational(x.numerator, x.denominator))
-    return to_sympy(lo), lo_strict, to_sympy(hi), hi_strict

@@ -272,3 +272,22 @@ def build_region(declarations: Iterable[tuple[str, Sequence[str], Sequence[tuple
             expr = expr.xreplace({s: by_name[s.name] for s in expr.free_symbols})
             relations.append(Relation(expr, strict, text))
     return Region(tuple(specs), tuple(relations))
+
+
+def variable_domain(v, interval, spec):
+    """(lo, lo_strict, hi, hi_strict) of a variable of extremization, from its
+    range and its declaration; ValueError for an empty range."""
+    lo = hi = None
+    lo_strict = hi_strict = False
+    if spec is not None:
+        lo, lo_strict, hi, hi_strict = spec.lower, spec.lower_strict, spec.upper, spec.upper_strict
+    if interval is not None:
+        a, b = (None if x is None else Fraction(str(x)) for x in interval)
+        if a is not None and b is not None and a >= b:
+            raise ValueError(f"the range ({a}, {b}) for {v} is empty")
+        if a is not None and (lo is None or a >= lo):
+            lo, lo_strict = a, True
+        if b is not None and (hi is None or b <= hi):
+            hi, hi_strict = b, True
+    to_sympy = (lambda x: None if x is None else _rational(x))
+    return to_sympy(lo), lo_strict, to_sympy(hi), hi_strict
