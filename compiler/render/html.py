@@ -22,7 +22,7 @@ from compiler.render.plotting.svg import plot_svg
 from compiler.render.printers import LatexPrinter, MathMLPrinter, lines
 
 _tex_width = LatexPrinter.measure
-from compiler.render.templates import loader
+from compiler.render.templates import environment
 from compiler.render.tex import degrees_text
 from compiler.results import STATUSES, Report, Step, ValueRecord
 
@@ -160,8 +160,7 @@ def _extremum(check, printer: LatexPrinter) -> Markup:
 
 
 def _environment(report: Report) -> jinja2.Environment:
-    env = jinja2.Environment(
-        loader=loader(),
+    env = environment(
         autoescape=True,
         trim_blocks=True,
         lstrip_blocks=True,
