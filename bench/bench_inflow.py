@@ -33,7 +33,6 @@ from __future__ import annotations
 
 import argparse
 import math
-import os
 import resource
 import subprocess
 import sys
@@ -44,6 +43,7 @@ from pathlib import Path
 
 import sympy
 
+from checkouts import command
 from compiler.engine import BuildOptions, parse
 from compiler.engine.run import Run
 from compiler.render.html import to_html
@@ -152,12 +152,11 @@ def whole_process(k: int, folder: Path, codes: list[Path], runs: int) -> list[tu
     each checkout in ``codes`` (runs interleaved, so a busy machine slows all alike)."""
     path = folder / f"inflow-{k}.md"
     path.write_text(document(k), encoding="utf-8")
-    argv = [sys.executable, "-m", "compiler", "build", path.name, "-o", "out", "--no-cache", "--quiet"]
+    args = ["-m", "compiler", "build", path.name, "-o", "out", "--no-cache", "--quiet"]
     best = [(math.inf, math.inf)] * len(codes)
     for _ in range(runs):
         for i, code in enumerate(codes):
-            env = dict(os.environ, PYTHONPATH=str(code))
-            env.pop("PYTHONDONTWRITEBYTECODE", None)   # as installed: compiled modules are kept
+            argv, env = command(code, args)
             start, cpu = time.perf_counter(), _children_cpu()
             done = subprocess.run(argv, cwd=folder, env=env, capture_output=True, text=True)
             now = (time.perf_counter() - start, _children_cpu() - cpu)

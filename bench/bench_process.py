@@ -24,7 +24,6 @@ ratios are printed.  The documents are this checkout's.
 from __future__ import annotations
 
 import argparse
-import os
 import resource
 import shutil
 import subprocess
@@ -32,6 +31,8 @@ import sys
 import tempfile
 import time
 from pathlib import Path
+
+from checkouts import command
 
 ROOT = Path(__file__).resolve().parent.parent
 
@@ -52,8 +53,7 @@ def _children_cpu() -> float:
 
 def timed(argv: list[str], cwd: Path, code: Path) -> float:
     """Seconds of one process run with anomark from ``code`` (see ``CPU``)."""
-    env = dict(os.environ, PYTHONPATH=str(code))
-    env.pop("PYTHONDONTWRITEBYTECODE", None)   # as installed: compiled modules are kept
+    argv, env = command(code, argv[1:])
     start, cpu = time.perf_counter(), _children_cpu()
     done = subprocess.run(argv, cwd=cwd, env=env, capture_output=True, text=True)
     seconds = _children_cpu() - cpu if CPU else time.perf_counter() - start

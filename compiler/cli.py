@@ -8,6 +8,7 @@ status 2, and keeps Python tracebacks for anomark's own bugs (``--debug``).
 from __future__ import annotations
 
 import argparse
+import contextlib
 import os
 import re
 import signal
@@ -19,7 +20,7 @@ from pathlib import Path
 
 from . import __version__, usage
 from .errors import DocumentError, Location, shown
-from .outputs import Record, write_whole
+from .outputs import Record, template_store, write_whole
 from .render import TEX_STYLES
 from .results import STATUSES
 
@@ -318,11 +319,18 @@ def build_once(args, formats, path: str) -> int:
 
 def report_files(args, report, formats, path: str) -> dict[Path, bytes]:
     """Every output file of one build, by path: the reports and, for LaTeX, the plots."""
-    out, stem = output_folder(args, path), Path(path).stem
-    files: dict[Path, bytes] = {}
-    from .render.html import to_html  # the renderers load only when something is rendered
+    from .render.templates import keep_compiled  # the renderers load only when something is rendered
+    store = template_store()
+    with keep_compiled(*store) if store is not None else contextlib.nullcontext():
+        return render_files(args, report, formats, path)
+
+
+def render_files(args, report, formats, path: str) -> dict[Path, bytes]:
+    from .render.html import to_html
     from .render.json import to_json
     from .render.tex import plot_files, to_tex
+    out, stem = output_folder(args, path), Path(path).stem
+    files: dict[Path, bytes] = {}
     if "html" in formats:
         files[out / f"{stem}.html"] = to_html(report).encode("utf-8")
     if "json" in formats:

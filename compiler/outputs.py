@@ -23,7 +23,7 @@ import sys
 import tempfile
 from pathlib import Path
 
-from .engine.cache import CACHE_DIR, CODE, digest, sign, signing_key, write_json
+from .engine.cache import CACHE_DIR, CODE, digest, key_folder, sign, signing_key, write_json
 from .render.templates import template_root
 
 LIBRARY_KEY = "library/"
@@ -91,6 +91,13 @@ class Record:
         entry = {"files": {str(p): hashlib.sha256(data).hexdigest() for p, data in files.items()},
                  "sources": list(sources), "status": status, "lines": lines, "summary": summary}
         write_json(self.file, {"mac": sign(self.secret, key, entry), "entry": entry})
+
+
+def template_store() -> tuple[Path, bytes] | None:
+    """Where compiled report templates are kept and the secret that signs
+    them: this user's own anomark folder, beside the key (None: no key)."""
+    secret = signing_key()
+    return (key_folder() / "templates", secret) if secret is not None else None
 
 
 def write_whole(files: dict[Path, bytes]) -> None:

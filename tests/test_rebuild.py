@@ -102,3 +102,43 @@ def test_two_documents_with_one_stem_into_one_folder_are_refused(anomark, tmp_pa
     proc = anomark("build", str(one), str(two), "-o", str(tmp_path / "out"))
     assert proc.returncode == 2 and "same reports" in proc.stderr
     assert not (tmp_path / "out").exists()
+
+
+# ---------------------------------------------------------------- compiled templates
+
+def forge_compiled_templates(folder, secret: bytes) -> int:
+    """Replace every kept compiled template by one that renders FORGED, signed with ``secret``."""
+    import hashlib
+    import hmac
+    import io
+    import pickle
+
+    import jinja2
+    from jinja2.bccache import Bucket, bc_magic
+
+    env = jinja2.Environment()
+    code = env.compile("FORGED", "forged", None)
+    forged = 0
+    for path in folder.glob("*.template"):
+        body = io.BytesIO(path.read_bytes()[32:])
+        assert body.read(len(bc_magic)) == bc_magic
+        bucket = Bucket(env, path.stem, pickle.load(body))  # the real template's checksum
+        bucket.code = code
+        data = bucket.bytecode_to_string()
+        path.write_bytes(hmac.new(secret, data, hashlib.sha256).digest() + data)
+        forged += 1
+    return forged
+
+
+@pytest.mark.parametrize("own_key", [True, False])
+def test_only_compiled_templates_signed_with_the_users_key_are_loaded(anomark, tmp_path, key_folder, own_key):
+    # a compiled template is code: one this user's builds did not sign is compiled again from
+    # the template; the control (own key) shows that a signed one is indeed what gets loaded
+    doc = write(tmp_path, "passes.md", PASSES)
+    assert anomark("build", str(doc), "--no-cache").returncode == 0
+    honest = (tmp_path / "passes.html").read_text()
+    secret = bytes.fromhex((key_folder / "key").read_text().strip()) if own_key else b"someone else"
+    assert forge_compiled_templates(key_folder / "templates", secret) >= 1
+    assert anomark("build", str(doc), "--no-cache").returncode == 0
+    html = (tmp_path / "passes.html").read_text()
+    assert (html == "FORGED") if own_key else (html == honest)

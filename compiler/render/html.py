@@ -18,11 +18,10 @@ from compiler.markdown import expand_refs, make_markdown
 from compiler.render.claims import extremum_rows
 from compiler.render.mathml import math_element, to_mathml
 from compiler.render.notation import name_tree
-from compiler.render.plotting.svg import plot_svg
 from compiler.render.printers import LatexPrinter, MathMLPrinter, lines
 
 _tex_width = LatexPrinter.measure
-from compiler.render.templates import loader
+from compiler.render.templates import environment
 from compiler.render.tex import degrees_text
 from compiler.results import STATUSES, Report, Step, ValueRecord
 
@@ -159,9 +158,14 @@ def _extremum(check, printer: LatexPrinter) -> Markup:
     return Markup(f'<ul class="extremum">{items}</ul>')
 
 
+def _plot(plot, notation) -> Markup:
+    """A plot as inline SVG (ours, every text escaped); the drawing code loads for plots only."""
+    from compiler.render.plotting.svg import plot_svg
+    return Markup(plot_svg(plot, notation))
+
+
 def _environment(report: Report) -> jinja2.Environment:
-    env = jinja2.Environment(
-        loader=loader(),
+    env = environment(
         autoescape=True,
         trim_blocks=True,
         lstrip_blocks=True,
@@ -175,7 +179,7 @@ def _environment(report: Report) -> jinja2.Environment:
         name_math=lambda name: math_element(printer.doprint(name_tree(name, report.notation))),
         cell_math=lambda tree: math_element(printer.doprint(tree)),
         degrees=degrees_text,
-        svg=lambda p: Markup(plot_svg(p, report.notation)),  # ours, every text escaped
+        svg=lambda p: _plot(p, report.notation),
         extremum=lambda c: _extremum(c, LatexPrinter(report.notation)),
     )
     env.globals.update(glyphs=GLYPHS)

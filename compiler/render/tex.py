@@ -22,7 +22,7 @@ from compiler.render.notation import name_tree
 from compiler.render.plotting.pdf import plot_pdf
 from compiler.render.plotting.texlabels import name_math, number_math, plot_picture
 from compiler.render.printers import LatexPrinter, lines
-from compiler.render.templates import loader
+from compiler.render.templates import environment
 from compiler.render.texprose import WIDTH, code_lines, escape_detail, escape_tex, prose_tex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
 from compiler.texsafe import escape_code, file_name
@@ -173,8 +173,7 @@ def _verification(report: Report) -> str:
 
 def _environment() -> jinja2.Environment:
     """Jinja with delimiters that cannot clash with TeX braces; we escape ourselves."""
-    return jinja2.Environment(
-        loader=loader(),
+    return environment(
         block_start_string="((*", block_end_string="*))",
         variable_start_string="(((", variable_end_string=")))",
         comment_start_string="((=", comment_end_string="=))",
