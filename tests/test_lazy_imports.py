@@ -53,7 +53,11 @@ def _inflow_document(k: int) -> str:
     """The wide inflow cube of bench/bench_inflow.py with ``k`` flavour fields."""
     spec = importlib.util.spec_from_file_location("bench_inflow", ROOT / "bench" / "bench_inflow.py")
     module = importlib.util.module_from_spec(spec)
-    spec.loader.exec_module(module)
+    sys.path.insert(0, str(ROOT / "bench"))  # the bench's own helpers, as when it runs
+    try:
+        spec.loader.exec_module(module)
+    finally:
+        sys.path.remove(str(ROOT / "bench"))
     return module.document(k)
 
 
