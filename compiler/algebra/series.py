@@ -9,9 +9,10 @@ coefficients polynomials in the other symbols; then
 
 and sqrt(1 + u), 1/(1 + e) follow from recurrences on those coefficients
 (the binomial and geometric series), with denominators powers of r0 and d0.
-So every coefficient is p + q sqrt(r0), p and q rational functions, exact.
-Values of another kind, and the few whose square root has a terminating
-expansion, are left to the caller (sympy).
+So every coefficient is p + q sqrt(r0), p and q rational functions, exact,
+written as sympy's own series writes it, so that the display forms made from
+the terms are the ones sympy's terms give.  Where that could differ (see
+``terms``), and for values of another kind, the caller uses sympy's series.
 """
 from __future__ import annotations
 
@@ -31,7 +32,10 @@ def terms(expr, x, point: Fraction | None, t, one_root: Callable) -> Iterator | 
     ``x``) with ``x = 1/t`` for ``point`` None, else ``x = point + t``: one term
     per power of t, in increasing powers, the nonzero ones only; the iterator
     ends when the expansion does.  None, leaving the value to sympy, when
-    ``expr`` is no (a + b sqrt(R)) / d; when sqrt(r0) is not one real radical
+    ``expr`` is no (a + b sqrt(R)) / d; when b is not 0 and ``point`` is given
+    (a short term such as (r + 1)/(1 - z) is then displayed as sympy happened
+    to write it, with a sign or denominator this module does not predict);
+    when sqrt(r0) is not one real radical
     as ``one_root(sqrt(r0))`` says (its display form would follow how the
     terms are written, and this module writes them as sympy's series does
     only for one radical); when R has an odd power of t (sympy groups the
@@ -46,12 +50,27 @@ def terms(expr, x, point: Fraction | None, t, one_root: Callable) -> Iterator | 
     shift = _Shift(field, i, point)
     rational = _rational(field, *_lowest(a, d, shift))
     if not b.is_zero():
+        if point is not None:
+            return None
         r = shift(radicand)
         if r[0] % 2 or not _plain_root(field.expr(r[1][0]), one_root) or (
                 len(r[1]) > 1 and _is_square(radicand, i, shift)):
             return None
         rational = _merged(rational, _surd(field, *_lowest(b, d, shift), r))
-    return (sympy.expand(c * t ** sympy.Rational(e.numerator, e.denominator)) for e, c in rational)
+    return (_written(c * t ** e) for e, c in rational)
+
+
+def _written(term):
+    """A term as sympy's series writes one: the numerator expanded into a sum
+    of terms, each over the denominator; a sum (of a rational part and a
+    part with the root) first brought to one denominator, its sign out."""
+    if not term.is_Add:
+        num, den = (sympy.expand(x) for x in sympy.fraction(term))
+    else:
+        num, den = (sympy.expand(x) for x in sympy.fraction(sympy.together(term)))
+        if den.could_extract_minus_sign():
+            num, den = -num, -den
+    return sympy.Add(*[part / den for part in sympy.Add.make_args(num)])
 
 
 def _lowest(a, d, shift) -> tuple:
@@ -61,11 +80,16 @@ def _lowest(a, d, shift) -> tuple:
 
 
 def _plain_root(r0, one_root: Callable) -> bool:
-    """Whether sqrt(r0) is one real radical that stays whole: r0 a
-    nonnegative number or sum (sympy splits the root of a product, 3*z, into
-    sqrt(3)*sqrt(z), and takes I out of the root of a negative value) whose
-    root ``one_root`` accepts."""
-    return (r0.is_Rational or r0.is_Add) and bool(r0.is_nonnegative) and one_root(sympy.sqrt(r0))
+    """Whether sqrt(r0) is rational, or one real radical that stays whole:
+    r0 a nonnegative sum, its content a square, whose root ``one_root``
+    accepts.  (sympy splits the root of a product, 3*z, into
+    sqrt(3)*sqrt(z), and (2*z**2 + 2)**(-1/2) into sqrt(2)/(2*sqrt(z**2 + 1)),
+    takes I out of the root of a negative value, and multiplies a root of a
+    number such as sqrt(2) into its terms in its own way.)"""
+    content = r0.primitive()[0] if r0.is_Add else r0
+    if not (content.is_Rational and sympy.sqrt(content).is_Rational):
+        return False
+    return r0.is_Rational or (r0.is_Add and bool(r0.is_nonnegative) and one_root(sympy.sqrt(r0)))
 
 
 class _Shift:
@@ -144,7 +168,7 @@ def _over_root(field: Surds, num, k: int, den, r0):
     return _coefficient(field, num, den) * field.expr(r0) ** sympy.Rational(1 - 2 * k, 2)
 
 
-def _rational(field: Surds, a, d) -> Iterator[tuple[Fraction, object]]:
+def _rational(field: Surds, a, d) -> Iterator[tuple[int, object]]:
     """(power, coefficient) of a/d in lowest terms, t^(va - vd) / d0 times
     sum_k P_k (t/d0)^k, P_k = sum_(i+j=k) a_i V_j d0^i; finite when d is a
     power of t (then only)."""
@@ -157,20 +181,20 @@ def _rational(field: Surds, a, d) -> Iterator[tuple[Fraction, object]]:
         budget.check()
         num = sum((ac[i] * inverse[k - i] * d0 ** i for i in range(min(k, len(ac) - 1) + 1)), d0 * 0)
         if not num.is_zero():
-            yield Fraction(va - vd + k), _coefficient(field, num, d0 ** (k + 1))
+            yield va - vd + k, _coefficient(field, num, d0 ** (k + 1))
         k += 1
 
 
-def _surd(field: Surds, b, d, r) -> Iterator[tuple[Fraction, object]]:
-    """(power, coefficient) of b sqrt(R) / d, b/d in lowest terms: with
-    sqrt(R) = t^(vR/2) sqrt(r0) sum_j W_j (t/r0)^j,
+def _surd(field: Surds, b, d, r) -> Iterator[tuple[int, object]]:
+    """(power, coefficient) of b sqrt(R) / d, b/d in lowest terms, vR even:
+    with sqrt(R) = t^(vR/2) sqrt(r0) sum_j W_j (t/r0)^j, it is
     t^(vb - vd + vR/2) sqrt(r0) / d0 times sum_k Q_k t^k / (r0^k d0^k),
-    Q_k = sum_(i+j+l=k) b_i W_j V_l r0^(i+l) d0^(i+j); half-integer powers of
-    t when vR is odd; finite when R and d are powers of t (then only)."""
+    Q_k = sum_(i+j+l=k) b_i W_j V_l r0^(i+l) d0^(i+j); finite when R and d
+    are powers of t (then only)."""
     (vb, bc), (vd, dc), (vr, rc) = b, d, r
     inverse, roots = _Inverse(dc), _Root(rc)
     d0, r0 = dc[0], rc[0]
-    start = Fraction(vb - vd) + Fraction(vr, 2)
+    start = vb - vd + vr // 2
     k = 0
     while len(dc) > 1 or len(rc) > 1 or k < len(bc):
         budget.check()
@@ -181,7 +205,7 @@ def _surd(field: Surds, b, d, r) -> Iterator[tuple[Fraction, object]]:
         k += 1
 
 
-def _merged(first: Iterator, second: Iterator) -> Iterator[tuple[Fraction, object]]:
+def _merged(first: Iterator, second: Iterator) -> Iterator[tuple[int, object]]:
     """Two series of (power, coefficient) in increasing powers, added."""
     x, y = next(first, None), next(second, None)
     while x is not None or y is not None:
