@@ -109,3 +109,16 @@ def test_signs_on_flint_coefficients():
     assert o.sign((Nn - 1) * (Nn + sympy.sqrt(Nn ** 2 + 1))) == 1
     assert o.sign(Nn - sympy.sqrt(Nn ** 2 + 1)) == -1                       # N^2 < N^2 + 1
     assert o.sign((Nn ** 2 - 1) / (1 - Nn)) == -1                           # -(N + 1)
+
+
+def test_a_value_with_one_square_root_is_zero_exactly_when_both_parts_vanish():
+    # sqrt(R) is no rational function when R is not a square, so a + b sqrt(R) = 0 only
+    # for a = b = 0 (common practice, no source); several roots are left to sympy
+    from compiler.algebra.surds import identically_zero, vanishes
+    x, y = sympy.symbols("x y", positive=True)
+    r = sympy.sqrt(x**2 + y)
+    assert identically_zero((x + r) * (x - r) + y) is True
+    assert identically_zero(x + r) is False
+    assert identically_zero(sympy.Rational(3, 4) - sympy.sqrt(3) / 4 * sympy.sqrt(3)) is True
+    assert identically_zero(sympy.sqrt(x + 1) + sympy.sqrt(y + 1)) is None  # two roots: sympy's
+    assert vanishes(sympy.sin(x) ** 2 + sympy.cos(x) ** 2 - 1)
