@@ -11,7 +11,7 @@ on sympy.
 from __future__ import annotations
 
 from fractions import Fraction
-from math import gcd, lcm
+from math import gcd, isqrt, lcm
 from typing import Sequence
 
 import flint
@@ -160,6 +160,32 @@ def vanishes(expr) -> bool:
     """Whether ``expr`` is exactly 0: on FLINT when it can be read, else by sympy."""
     decided = identically_zero(expr)
     return decided if decided is not None else sympy.simplify(expr) == 0
+
+
+def sampler(expr, variable):
+    """``x -> float`` for ``expr`` in one symbol, from its exact parts: a, b,
+    d and R evaluated at the rational x, the square root to 40 digits; None
+    at a pole or where the value is not real.  None for another kind of expr."""
+    read = Surds([variable]).read(expr)
+    if read is None:
+        return None
+    (a, b, d), radicand = read
+
+    def at(x: Fraction) -> float | None:
+        x = flint.fmpq(x.numerator, x.denominator)
+        den = d(x)
+        if den == 0:
+            return None
+        value = Fraction(int(a(x).p), int(a(x).q))
+        if radicand is not None and not b.is_zero():
+            r = radicand(x)
+            if r < 0:
+                return None
+            scale = 10 ** 40
+            root = Fraction(isqrt(int(r.p) * int(r.q) * scale * scale), int(r.q) * scale)
+            value += Fraction(int(b(x).p), int(b(x).q)) * root
+        return float(value / Fraction(int(den.p), int(den.q)))
+    return at
 
 
 def sympy_order(symbols) -> list:
