@@ -11,7 +11,7 @@ on sympy.
 from __future__ import annotations
 
 from fractions import Fraction
-from math import gcd, isqrt, lcm
+from math import gcd, inf, isqrt, lcm
 from typing import Sequence
 
 import flint
@@ -184,7 +184,11 @@ def sampler(expr, variable):
             scale = 10 ** 40
             root = Fraction(isqrt(int(r.p) * int(r.q) * scale * scale), int(r.q) * scale)
             value += Fraction(int(b(x).p), int(b(x).q)) * root
-        return float(value / Fraction(int(den.p), int(den.q)))
+        value /= Fraction(int(den.p), int(den.q))
+        try:
+            return float(value)
+        except OverflowError:  # beyond float range: infinite, as sympy's float() gives
+            return inf if value > 0 else -inf
     return at
 
 
