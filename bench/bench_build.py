@@ -148,7 +148,7 @@ def maximize_side_by_side(source: Path) -> None:
     run = Run(str(source), document, statements, BuildOptions(use_cache=False))
     run.execute(by_block)
     f = as_expr(run.scope.bindings[target.target.id].value)
-    v = run.scope.symbols_by_name[target.variables[0].name].symbol
+    v = run.scope.specs[str(target.variables[0].name)].symbol
 
     clear_cache()
     start = time.perf_counter()

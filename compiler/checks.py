@@ -237,7 +237,9 @@ def _order(op: str):
             if _COMPARE[op](*numbers):
                 return "proven", ""
             return "failed", f"left = {show(left)}, right = {show(right)}"
-        difference = sympy.simplify(as_expr(left) - as_expr(right))
+        difference = as_expr(left) - as_expr(right)
+        if difference.free_symbols:  # a number's sign is read exactly as it stands
+            difference = sympy.simplify(difference)
         verdict = ctx.oracle.truth(op, difference)
         if verdict is True:
             return "proven", ""

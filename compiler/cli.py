@@ -8,7 +8,6 @@ status 2, and keeps Python tracebacks for anomark's own bugs (``--debug``).
 from __future__ import annotations
 
 import argparse
-import contextlib
 import os
 import re
 import signal
@@ -320,8 +319,7 @@ def build_once(args, formats, path: str) -> int:
 def report_files(args, report, formats, path: str) -> dict[Path, bytes]:
     """Every output file of one build, by path: the reports and, for LaTeX, the plots."""
     from .render.templates import keep_compiled  # the renderers load only when something is rendered
-    store = template_store()
-    with keep_compiled(*store) if store is not None else contextlib.nullcontext():
+    with keep_compiled(template_store()):
         return render_files(args, report, formats, path)
 
 

@@ -32,6 +32,8 @@ class Location:
 
 @dataclass(frozen=True)
 class Problem:
+    """One located message; a DocumentError carries one or more."""
+
     location: Location
     message: str
 

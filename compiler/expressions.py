@@ -252,7 +252,12 @@ def is_class_free(value: Value) -> bool:
 
 
 def is_zero(value: Value) -> bool:
-    return value.is_zero if isinstance(value, Element) else sympy.simplify(value) == 0
+    """Exactly: on FLINT when the value is a ring element or has at most one
+    square root, else by sympy's general simplification."""
+    if isinstance(value, Element):
+        return value.is_zero
+    from .algebra.surds import vanishes
+    return vanishes(value)
 
 
 def as_expr(value: Value) -> sympy.Expr:

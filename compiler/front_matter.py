@@ -39,6 +39,8 @@ _INT = "tag:yaml.org,2002:int"
 
 @dataclass(frozen=True)
 class ConventionEntry:
+    """A convention declared in the front matter, with its position."""
+
     name: str
     value: Fraction
     line: int

@@ -23,7 +23,7 @@ import sys
 import tempfile
 from pathlib import Path
 
-from .engine.cache import CACHE_DIR, CODE, digest, key_folder, sign, signing_key, write_json
+from .engine.cache import CACHE_DIR, CODE, digest, key_folder, sign, signing_key, write_file, write_json
 from .render.templates import template_root
 
 LIBRARY_KEY = "library/"
@@ -93,11 +93,34 @@ class Record:
         write_json(self.file, {"mac": sign(self.secret, key, entry), "entry": entry})
 
 
-def template_store() -> tuple[Path, bytes] | None:
-    """Where compiled report templates are kept and the secret that signs
-    them: this user's own anomark folder, beside the key (None: no key)."""
+def template_store():
+    """A store of compiled report templates in this user's anomark folder,
+    beside the key, or None without a key.  Compiled templates are code: each
+    is kept with an HMAC made with the user's secret and loaded only if it
+    verifies, so only this user's own builds can have written one."""
     secret = signing_key()
-    return (key_folder() / "templates", secret) if secret is not None else None
+    if secret is None:
+        return None
+    import jinja2  # only a build that renders gets here
+    folder = key_folder() / "templates"
+
+    def mac(body: bytes) -> bytes:
+        return hmac.new(secret, body, hashlib.sha256).digest()
+
+    class SignedStore(jinja2.BytecodeCache):
+        def load_bytecode(self, bucket) -> None:
+            try:
+                data = (folder / f"{bucket.key}.template").read_bytes()
+            except OSError:
+                return
+            if hmac.compare_digest(data[:32], mac(data[32:])):
+                bucket.bytecode_from_string(data[32:])
+
+        def dump_bytecode(self, bucket) -> None:
+            body = bucket.bytecode_to_string()
+            write_file(folder / f"{bucket.key}.template", mac(body) + body)
+
+    return SignedStore()
 
 
 def write_whole(files: dict[Path, bytes]) -> None:

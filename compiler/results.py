@@ -30,6 +30,8 @@ def weakest(statuses) -> str:
 
 @dataclass
 class CheckResult:
+    """One check of a step: what it claims, its status and why."""
+
     what: str  # "homogeneous of degree 8", "claim holds", ...
     status: str  # one of STATUSES
     detail: str = ""
@@ -81,6 +83,8 @@ class TableData:
 
 @dataclass
 class PlotData:
+    """A plot as exact numbers in text and sampled curves: what renderers draw."""
+
     variable: str
     low: str
     high: str
@@ -143,6 +147,8 @@ Item = Union[Prose, Step]
 
 @dataclass
 class Report:
+    """A whole build: every step and prose part, for the renderers and the record."""
+
     tool_name: str
     tool_version: str
     document: str  # the path as given on the command line

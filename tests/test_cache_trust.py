@@ -145,9 +145,12 @@ def test_a_full_disk_while_saving_leaves_no_temporary_file(tmp_path, monkeypatch
     # issue 10: "temporary files are removed on every failure path"; the cache is never needed
     from compiler.engine import cache as cache_module
 
-    def full(*args, **kwargs):
+    assert signing_key() is not None  # the key is made before the disk fills
+
+    def full(fd, *args, **kwargs):  # the temporary file exists; writing into it fails
+        os.close(fd)
         raise OSError(28, "No space left on device")
-    monkeypatch.setattr(cache_module.json, "dump", full)
+    monkeypatch.setattr(cache_module.os, "fdopen", full)
     report = build_at(tmp_path)
     assert [s.status for s in report.steps] == ["proven", "proven", "failed", "proven"]
     assert list((tmp_path / CACHE_DIR).iterdir()) == []

@@ -109,3 +109,33 @@ def test_signs_on_flint_coefficients():
     assert o.sign((Nn - 1) * (Nn + sympy.sqrt(Nn ** 2 + 1))) == 1
     assert o.sign(Nn - sympy.sqrt(Nn ** 2 + 1)) == -1                       # N^2 < N^2 + 1
     assert o.sign((Nn ** 2 - 1) / (1 - Nn)) == -1                           # -(N + 1)
+
+
+def test_a_value_with_one_square_root_is_zero_exactly_when_both_parts_vanish():
+    # sqrt(R) is no rational function when R is not a square, so a + b sqrt(R) = 0 only
+    # for a = b = 0 (common practice, no source); several roots are left to sympy
+    from compiler.algebra.surds import identically_zero, vanishes
+    x, y = sympy.symbols("x y", positive=True)
+    r = sympy.sqrt(x**2 + y)
+    assert identically_zero((x + r) * (x - r) + y) is True
+    assert identically_zero(x + r) is False
+    assert identically_zero(sympy.Rational(3, 4) - sympy.sqrt(3) / 4 * sympy.sqrt(3)) is True
+    assert identically_zero(sympy.sqrt(x + 1) + sympy.sqrt(y + 1)) is None  # two roots: sympy's
+    assert vanishes(sympy.sin(x) ** 2 + sympy.cos(x) ** 2 - 1)
+
+
+def test_a_curve_is_sampled_from_its_exact_parts_as_sympy_evaluates_it():
+    # plot points: (a + b sqrt(R)) / d at rational x, against sympy's 20-digit evaluation;
+    # no point at a pole or where R < 0 (common practice, no source)
+    from fractions import Fraction
+
+    from compiler.algebra.surds import sampler
+    z = sympy.Symbol("z", real=True)
+    curve = (9 * z**2 - 1 + (1 + 3 * z**2) * sympy.sqrt(1 + 3 * z**2)) / (48 * z**2)
+    at = sampler(curve, z)
+    for x in (Fraction(1, 2), Fraction(7, 3), Fraction(-5, 4)):
+        assert at(x) == pytest.approx(float(curve.subs(z, sympy.Rational(x.numerator, x.denominator)).evalf(30)),
+                                      rel=1e-15)
+    assert at(Fraction(0)) is None
+    assert sampler(sympy.sqrt(z - 1), z)(Fraction(1, 2)) is None
+    assert sampler(sympy.sqrt(z) + sympy.sqrt(z + 1), z) is None  # two roots: sympy evaluates it

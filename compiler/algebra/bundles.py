@@ -37,6 +37,8 @@ Part = Union[str, Trivial]
 
 @dataclass
 class Bundle:
+    """A declared vector bundle: its name, kind and rank."""
+
     name: str
     kind: str          # REAL or COMPLEX
     rank: int          # real rank for REAL, complex rank for COMPLEX

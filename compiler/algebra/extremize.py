@@ -24,6 +24,7 @@ from .critical import (TOL, Closed, FamilyError, Implicit, RationalFunction, cri
 from .radicals import tidy_with
 from .region import Region, Relation, variable_domain
 from .sampling import SymbolSpec, describe_point, evaluate
+from .surds import vanishes
 from .signs import SignOracle
 
 MODES = ("maximize", "minimize", "extremize")
@@ -155,7 +156,7 @@ class _Problem:
         closed = []
         for comp in (c for c in found if isinstance(c, Closed)):
             at = dict(zip(self.vars, comp.coords))
-            if sympy.simplify(self.denominator.xreplace(at)) == 0:
+            if vanishes(self.denominator.xreplace(at)):
                 continue  # a pole, not a critical point
             closed.append(_Candidate(tuple(self.tidy(c) for c in comp.coords),
                                      [sympy.together(m.xreplace(at)) for m in self.minor_exprs]))

@@ -11,10 +11,11 @@ on sympy.
 from __future__ import annotations
 
 from fractions import Fraction
-from math import gcd, lcm
+from math import gcd, inf, isqrt, lcm
 from typing import Sequence
 
 import flint
+from flint.utils.flint_exceptions import DomainError
 
 from .lazysympy import sympy
 
@@ -135,6 +136,60 @@ def factored(expr) -> sympy.Expr | None:
     (cn, fn), (cd, fd) = surds.factor_list(parts[0]), surds.factor_list(parts[2])
     from sympy.core.mul import _keep_coeff   # how sympy.factor joins the coefficient
     return _keep_coeff(cn / cd, sympy.Mul(*[f ** e for f, e in fn], *[f ** -e for f, e in fd]))
+
+
+def identically_zero(expr) -> bool | None:
+    """Whether ``expr`` vanishes for every value of its symbols, decided on
+    FLINT for (a + b sqrt(R)) / d: when R is not a square, sqrt(R) is no
+    rational function, so the value is 0 only if a and b both are.  None when
+    ``expr`` is not of that form or R is a square (the caller then asks sympy)."""
+    read = Surds(sympy_order(expr.free_symbols)).read(expr)
+    if read is None:
+        return None
+    (a, b, _), radicand = read
+    if radicand is None or b.is_zero():
+        return a.is_zero()
+    try:
+        radicand.sqrt()
+    except DomainError:
+        return a.is_zero() and b.is_zero()
+    return None
+
+
+def vanishes(expr) -> bool:
+    """Whether ``expr`` is exactly 0: on FLINT when it can be read, else by sympy."""
+    decided = identically_zero(expr)
+    return decided if decided is not None else sympy.simplify(expr) == 0
+
+
+def sampler(expr, variable):
+    """``x -> float`` for ``expr`` in one symbol, from its exact parts: a, b,
+    d and R evaluated at the rational x, the square root to 40 digits; None
+    at a pole or where the value is not real.  None for another kind of expr."""
+    read = Surds([variable]).read(expr)
+    if read is None:
+        return None
+    (a, b, d), radicand = read
+
+    def at(x: Fraction) -> float | None:
+        x = flint.fmpq(x.numerator, x.denominator)
+        den = d(x)
+        if den == 0:
+            return None
+        value = Fraction(int(a(x).p), int(a(x).q))
+        if radicand is not None and not b.is_zero():
+            r = radicand(x)
+            if r < 0:
+                return None
+            scale = 10 ** 40
+            root = Fraction(isqrt(int(r.p) * int(r.q) * scale * scale), int(r.q) * scale)
+            value += Fraction(int(b(x).p), int(b(x).q)) * root
+        value /= Fraction(int(den.p), int(den.q))
+        try:
+            return float(value)
+        except OverflowError:  # beyond float range: infinite, as sympy's float() gives
+            return inf if value > 0 else -inf
+    return at
 
 
 def sympy_order(symbols) -> list:

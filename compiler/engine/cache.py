@@ -136,14 +136,18 @@ class StepCache:
 
 
 def write_json(file: Path, data: dict) -> None:
+    write_file(file, json.dumps(data).encode("utf-8"))
+
+
+def write_file(file: Path, data: bytes) -> None:
     """Write whole or leave the old file; a read-only folder or a full disk
-    just means no cache."""
+    just means nothing is kept."""
     tmp = None
     try:
-        file.parent.mkdir(exist_ok=True)
+        file.parent.mkdir(parents=True, exist_ok=True, mode=0o700)
         fd, tmp = tempfile.mkstemp(dir=file.parent, prefix=".tmp-")
-        with os.fdopen(fd, "w", encoding="utf-8") as handle:
-            json.dump(data, handle)
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(data)
         os.replace(tmp, file)
         tmp = None
     except OSError:

@@ -42,6 +42,8 @@ STEP_RUNS = "step runs"
 
 @dataclass(frozen=True)
 class BuildOptions:
+    """How one build runs: overrides, cache, limits, progress."""
+
     overrides: dict = field(default_factory=dict)  # --set NAME=VALUE, as Fractions
     allow_html: bool = False
     use_cache: bool = True

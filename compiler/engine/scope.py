@@ -40,6 +40,8 @@ MAX_SHOWN = 100_000
 
 @dataclass
 class Binding:
+    """What a name stands for in the scope, and where it was bound."""
+
     kind: str  # symbol, convention, bundle, fiber, class, value, function
     value: object
     line: int

@@ -8,18 +8,13 @@ checkout without any install (``PYTHONPATH=.``), that package does not
 exist and the checkout's folder is the only copy there is.
 
 Compiling the report template costs a build more than rendering it, so
-the command line may name a folder where compiled templates are kept
-(``keep_compiled``).  Each is stored with an HMAC made with the user's
-secret and loaded only if it verifies: compiled templates are code, and
-only this user's own builds may have written them.
+the command line may hand the renderers a store of compiled templates
+(``keep_compiled``; the command line's store signs each one with the
+user's secret and loads only those that verify).
 """
 from __future__ import annotations
 
 import contextlib
-import hashlib
-import hmac
-import os
-import tempfile
 from importlib import resources
 from importlib.abc import Traversable
 from pathlib import Path
@@ -59,42 +54,11 @@ def environment(**options):
 
 
 @contextlib.contextmanager
-def keep_compiled(folder: Path, secret: bytes):
-    """While rendering, keep compiled templates in ``folder``, each signed with ``secret``."""
+def keep_compiled(store):
+    """While rendering, load and keep compiled templates through ``store``
+    (a Jinja bytecode cache; None compiles every time)."""
     global _compiled
-    import jinja2
-
-    class SignedStore(jinja2.BytecodeCache):
-        def _file(self, bucket) -> Path:
-            return folder / f"{bucket.key}.template"
-
-        def load_bytecode(self, bucket) -> None:
-            try:
-                data = self._file(bucket).read_bytes()
-            except OSError:
-                return
-            mac, body = data[:32], data[32:]
-            if hmac.compare_digest(mac, hmac.new(secret, body, hashlib.sha256).digest()):
-                bucket.bytecode_from_string(body)
-
-        def dump_bytecode(self, bucket) -> None:
-            body = bucket.bytecode_to_string()
-            tmp = None
-            try:  # whole or not at all; a read-only folder just means compiling next time
-                folder.mkdir(parents=True, exist_ok=True, mode=0o700)
-                fd, tmp = tempfile.mkstemp(dir=folder, prefix=".tmp-")
-                with os.fdopen(fd, "wb") as handle:
-                    handle.write(hmac.new(secret, body, hashlib.sha256).digest() + body)
-                os.replace(tmp, self._file(bucket))
-                tmp = None
-            except OSError:
-                pass
-            finally:
-                if tmp is not None:
-                    with contextlib.suppress(OSError):
-                        os.unlink(tmp)
-
-    _compiled = SignedStore()
+    _compiled = store
     try:
         yield
     finally:

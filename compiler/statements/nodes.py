@@ -28,6 +28,8 @@ class _Statement:
 
 @dataclass(frozen=True)
 class SymbolDecl(_Statement):
+    """``symbol N, k: integer, positive, 1 <= k < N``: symbols with assumptions, bounds, relations."""
+
     names: tuple[Ident, ...]
     assumptions: tuple[str, ...]  # integer, positive, nonnegative, real, nonzero
     bounds: tuple[cn.Bound, ...]
@@ -37,6 +39,8 @@ class SymbolDecl(_Statement):
 
 @dataclass(frozen=True)
 class ConventionDecl(_Statement):
+    """``convention k = 1/2``: a normalization the command line may override."""
+
     name: Ident
     value: Fraction
     kind = "convention"
@@ -44,6 +48,8 @@ class ConventionDecl(_Statement):
 
 @dataclass(frozen=True)
 class BundleDecl(_Statement):
+    """``bundle T: real, rank 6``: vector bundles whose classes the algebra knows."""
+
     names: tuple[Ident, ...]
     bundle_kind: str  # "real", "complex" or "line"
     rank: Union[int, Ident, None]  # None for line bundles; an Ident: a declared integer symbol
@@ -52,6 +58,8 @@ class BundleDecl(_Statement):
 
 @dataclass(frozen=True)
 class SplitDecl(_Statement):
+    """``split T6 = T4 + TS``: a bundle as a sum of others (Whitney sum)."""
+
     bundle: Ident
     parts: tuple[cn.SplitPart, ...]
     kind = "split"
@@ -112,6 +120,8 @@ class FixedPointFiber(_Statement):
 
 @dataclass(frozen=True)
 class Let(_Statement):
+    """``let NAME = EXPR``: a value bound once (``rebind`` with ``let!``)."""
+
     name: Ident
     expr: en.Expr
     rebind: bool
@@ -142,6 +152,8 @@ class UseDecl(_Statement):
 
 @dataclass(frozen=True)
 class Substitute(_Statement):
+    """``substitute X: a = b, ... -> OUT``: symbols or classes replaced at once."""
+
     target: en.Expr
     pairs: tuple[en.Equation, ...]
     outputs: tuple[Ident, ...]
@@ -150,6 +162,8 @@ class Substitute(_Statement):
 
 @dataclass(frozen=True)
 class Reduce(_Statement):
+    """``reduce X modulo a = b, ... -> OUT``: a value rewritten modulo relations."""
+
     target: en.Expr
     relations: tuple[en.Equation, ...]
     outputs: tuple[Ident, ...]
@@ -158,6 +172,8 @@ class Reduce(_Statement):
 
 @dataclass(frozen=True)
 class Integrate(_Statement):
+    """``integrate X over FIBER -> OUT``: fiber integration."""
+
     target: en.Expr
     fiber: Ident
     outputs: tuple[Ident, ...]
@@ -175,6 +191,8 @@ class Integrate(_Statement):
 
 @dataclass(frozen=True)
 class Coefficients(_Statement):
+    """``coefficients X of m1, m2 -> a, b``: the coefficients of given monomials."""
+
     target: en.Expr
     monomials: tuple[en.Expr, ...]
     outputs: tuple[Ident, ...]
@@ -207,6 +225,8 @@ class Extremize(_Statement):
 
 @dataclass(frozen=True)
 class Check(_Statement):
+    """``check LHS OP RHS [for ...]``: a claim decided exactly or by sampling."""
+
     lhs: en.Expr
     op: str  # == != < <= > >=
     rhs: en.Expr
@@ -216,6 +236,8 @@ class Check(_Statement):
 
 @dataclass(frozen=True)
 class Show(_Statement):
+    """``show X [as FORM | collected in SYM]``: values displayed in a chosen form."""
+
     exprs: tuple[en.Expr, ...]
     form: str = "factored"  # or "expanded", "collected" (in ``symbol``)
     symbol: Optional[Ident] = None
@@ -224,6 +246,8 @@ class Show(_Statement):
 
 @dataclass(frozen=True)
 class Table(_Statement):
+    """``table X, Y for ...``: values at every point of the ``for`` lists."""
+
     exprs: tuple[en.Expr, ...]
     clauses: tuple[cn.ForClause, ...]
     kind = "table"
@@ -231,6 +255,8 @@ class Table(_Statement):
 
 @dataclass(frozen=True)
 class Plot(_Statement):
+    """``plot X over VAR in LOW..HIGH [for ...]``: curves of class-free values."""
+
     exprs: tuple[en.Expr, ...]
     variable: Ident
     interval: cn.Interval
@@ -264,6 +290,8 @@ class Factorize(_Statement):
 
 @dataclass(frozen=True)
 class MatterDecl(_Statement):
+    """``matter NAME: dimension D, tangent T`` and one field per line: an anomaly polynomial from field content."""
+
     name: Ident
     dimension: int
     tangent: Ident

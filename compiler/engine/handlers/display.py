@@ -5,6 +5,7 @@ from fractions import Fraction
 
 from ...algebra import budget
 from ...algebra.lazysympy import sympy
+from ...algebra.surds import sampler
 from ...checks import free_symbols, show, substitute
 from ...expressions import as_expr, is_class_free
 from ...precision import unknown_above
@@ -74,15 +75,27 @@ def _plot(scope, s: n.Plot, step: Step) -> None:
         if left:
             raise scope.fail(node, "give values for " + ", ".join(sorted(x.name for x in left))
                                    + " after for")
-        samples = []
-        for x in xs:
-            budget.check()
-            y = expr.subs(var.symbol, sympy.Rational(x.numerator, x.denominator)).evalf(20)
-            if y.is_real:
-                samples.append((float(x), float(y)))
-        curves[_label(node) or f"curve {len(curves) + 1}"] = samples
+        curves[_label(node) or f"curve {len(curves) + 1}"] = _samples(expr, var.symbol, xs)
     step.plot = PlotData(variable=s.variable, low=fraction_text(low), high=fraction_text(high),
                          fixed={sym.name: fraction_text(v) for sym, v in fixed.items()}, curves=curves)
+
+
+def _samples(expr, symbol, xs) -> list[tuple[float, float]]:
+    """The real points of a curve: exactly from its parts when it has at most
+    one square root, else by sympy to 20 digits."""
+    exact = sampler(expr, symbol)
+    samples = []
+    for x in xs:
+        budget.check()
+        if exact is not None:
+            y = exact(x)
+            if y is not None:
+                samples.append((float(x), y))
+            continue
+        y = expr.subs(symbol, sympy.Rational(x.numerator, x.denominator)).evalf(20)
+        if y.is_real:
+            samples.append((float(x), float(y)))
+    return samples
 
 
 HANDLERS = {n.Show: _show, n.Table: _table, n.Plot: _plot}

@@ -19,6 +19,8 @@ from compiler.render.notation import GREEK, name_tree
 
 @dataclass(frozen=True)
 class Run:
+    """A stretch of label text in one style."""
+
     text: str
     italic: bool = False
     rise: float = 0.0  # baseline shift in units of the base font size, up positive

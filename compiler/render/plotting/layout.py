@@ -37,6 +37,8 @@ _STEPS = (1, 2, 25, 5, 10)  # tick steps by tens: 1, 2, 2.5, 5 (common practice,
 
 @dataclass(frozen=True)
 class Line:
+    """A straight stroke, in points."""
+
     x1: float
     y1: float
     x2: float
@@ -47,6 +49,8 @@ class Line:
 
 @dataclass(frozen=True)
 class Text:
+    """A label at a baseline point with its anchor."""
+
     x: float
     y: float  # baseline
     label: Label  # as the SVG draws it
@@ -56,12 +60,16 @@ class Text:
 
 @dataclass(frozen=True)
 class Curve:
+    """A curve's colour and its unbroken runs of points."""
+
     color: tuple[float, float, float]
     pieces: tuple[tuple[tuple[float, float], ...], ...]  # unbroken runs of points
 
 
 @dataclass(frozen=True)
 class Layout:
+    """Everything a plot draws, in points: both backends read only this."""
+
     width: float
     height: float
     lines: tuple[Line, ...]  # grid first, then axes and ticks, then legend samples
@@ -84,6 +92,8 @@ def measure(label: Label) -> float:
 
 @dataclass(frozen=True)
 class Ticks:
+    """Tick positions and labels along one axis."""
+
     values: tuple[float, ...]
     labels: tuple[str, ...]  # ASCII numbers, ``-0.5``
     power: int  # labels are in units of 10**power (0: as they are)
