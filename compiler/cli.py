@@ -326,7 +326,6 @@ def report_files(args, report, formats, path: str) -> dict[Path, bytes]:
 def render_files(args, report, formats, path: str) -> dict[Path, bytes]:
     from .render.html import to_html
     from .render.json import to_json
-    from .render.tex import plot_files, to_tex
     out, stem = output_folder(args, path), Path(path).stem
     files: dict[Path, bytes] = {}
     if "html" in formats:
@@ -334,6 +333,7 @@ def render_files(args, report, formats, path: str) -> dict[Path, bytes]:
     if "json" in formats:
         files[out / f"{stem}.json"] = to_json(report).encode("utf-8")
     if "tex" in formats:
+        from .render.tex import plot_files, to_tex
         files[out / f"{stem}.tex"] = to_tex(report, standalone=args.standalone, style=args.tex_style).encode("utf-8")
         for name, data in plot_files(report).items():
             files[out / name] = data

@@ -18,11 +18,10 @@ from compiler.markdown import expand_refs, make_markdown
 from compiler.render.claims import extremum_rows
 from compiler.render.mathml import math_element, to_mathml
 from compiler.render.notation import name_tree
-from compiler.render.printers import LatexPrinter, MathMLPrinter, lines
+from compiler.render.printers import LatexPrinter, MathMLPrinter, degrees_text, lines
 
 _tex_width = LatexPrinter.measure
 from compiler.render.templates import environment
-from compiler.render.tex import degrees_text
 from compiler.results import STATUSES, Report, Step, ValueRecord
 
 GLYPHS = {"proven": "\u2713", "sampled": "\u2248", "failed": "\u2717", "error": "!"}

@@ -350,3 +350,11 @@ def lines(printer: Printer, tree: list, width: int) -> list[str]:
             current = ""
         current = f"{current} {piece}".strip()
     return out + [current]
+
+
+def degrees_text(v) -> str:
+    """``degree 8`` / ``degrees 4, 8``; nothing for zero, which has no degree."""
+    if not v.degrees:
+        return ""
+    word = "degree" if len(v.degrees) == 1 else "degrees"
+    return f"{word} {', '.join(str(d) for d in v.degrees)}"

@@ -21,7 +21,7 @@ from compiler.render.claims import claim_latex
 from compiler.render.notation import name_tree
 from compiler.render.plotting.pdf import plot_pdf
 from compiler.render.plotting.texlabels import name_math, number_math, plot_picture
-from compiler.render.printers import LatexPrinter, lines
+from compiler.render.printers import LatexPrinter, degrees_text, lines
 from compiler.render.templates import environment
 from compiler.render.texprose import WIDTH, code_lines, escape_detail, escape_tex, prose_tex
 from compiler.results import STATUSES, PlotData, Prose, Report, Step, ValueRecord
@@ -44,14 +44,6 @@ def display_value(printer: LatexPrinter, name: str, tree: list, label: str = "")
     first = f"{lhs} &= " if lhs else "& "
     body = first + rows[0] + "".join(f"\\\\\n&\\quad {row}" for row in rows[1:])
     return f"\\begin{{{env}}}\n\\begin{{split}}\n{body}\n\\end{{split}}\n{tag}\\end{{{env}}}\n"
-
-
-def degrees_text(v: ValueRecord) -> str:
-    """``degree 8`` / ``degrees 4, 8``; nothing for zero, which has no degree."""
-    if not v.degrees:
-        return ""
-    word = "degree" if len(v.degrees) == 1 else "degrees"
-    return f"{word} {', '.join(str(d) for d in v.degrees)}"
 
 
 _STATUS_TEX = {
