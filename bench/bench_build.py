@@ -1,7 +1,8 @@
 """Time the bundled library's builds: cold, warm, and after a one-line edit.
 
 Not a test: run ``python bench/bench_build.py`` from the repository root.
-Every ``derivations/*.md`` is copied to a temporary folder, so the build
+Every ``derivations/*.md`` is built in a temporary copy of its folder (with
+the documents it may ``use``), so the build
 cache written there (``.anomark-cache/`` beside each copy) never touches the
 repository's.  For each document, in one process:
 
@@ -178,8 +179,8 @@ def main() -> None:
     rows = []
     with tempfile.TemporaryDirectory(prefix="anomark-bench-") as tmp:
         for source in sources:
-            folder = Path(tmp) / source.stem
-            folder.mkdir()
+            folder = Path(tmp) / source.stem  # the document's folder, with what it may use
+            shutil.copytree(source.parent, folder, ignore=shutil.ignore_patterns(".anomark-cache"))
             results = bench_document(source, folder, kinds)
             if results:
                 rows.append((source.stem, results, edited_line(source.read_text(encoding="utf-8"))))
