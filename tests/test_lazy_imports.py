@@ -5,7 +5,8 @@ most documents; it is imported on first use (``algebra/lazysympy.py``).  One
 child process builds several documents that need no radicals, solving,
 series or sympy-only functions, from scratch and again from the build cache,
 and then reports whether sympy was imported; it then imports sympy and
-builds them again, and the files must be the same byte for byte.
+builds them again, and the files must be the same byte for byte.  The rule
+is anomark's own (common practice, no source).
 """
 from __future__ import annotations
 
